@@ -1,0 +1,122 @@
+package org.dendrokin.core.kymo;
+
+import java.util.Arrays;
+
+import org.dendrokin.core.Checks;
+
+/**
+ * A signal sampled along a dendrite path over time: one row a frame, one column a position. Immutable;
+ * arrays are copied in and out. Values may be NaN where the path left the image or a calibration could
+ * not give a finite value.
+ */
+public final class Kymograph {
+    private final double[] distancesUm;
+    private final double[] timesS;
+    private final double[] values;
+    private final String signalUnit;
+
+    /**
+     * @param distancesUm distance of each column from the path's first vertex, um, increasing
+     * @param timesS      time of each row, s, increasing
+     * @param values      row-major signal, {@code values[frame * distancesUm.length + position]}
+     * @param signalUnit  unit of the values, e.g. {@code "dF/F0"} or {@code "uM"}
+     */
+    public Kymograph(double[] distancesUm, double[] timesS, double[] values, String signalUnit) {
+        Checks.require(distancesUm.length > 0, "a kymograph needs at least one position");
+        Checks.require(timesS.length > 0, "a kymograph needs at least one frame");
+        Checks.require(values.length == distancesUm.length * timesS.length,
+                "kymograph has " + values.length + " values, expected " + distancesUm.length * timesS.length);
+        this.distancesUm = distancesUm.clone();
+        this.timesS = timesS.clone();
+        this.values = values.clone();
+        this.signalUnit = signalUnit;
+    }
+
+    /** Builds a kymograph from rows, {@code rows[frame][position]}. */
+    public static Kymograph ofRows(double[] distancesUm, double[] timesS, double[][] rows, String signalUnit) {
+        int n = distancesUm.length;
+        double[] flat = new double[rows.length * n];
+        for (int f = 0; f < rows.length; f++) {
+            Checks.require(rows[f].length == n, "row " + f + " has " + rows[f].length + " values, expected " + n);
+            System.arraycopy(rows[f], 0, flat, f * n, n);
+        }
+        return new Kymograph(distancesUm, timesS, flat, signalUnit);
+    }
+
+    public int positionCount() {
+        return distancesUm.length;
+    }
+
+    public int frameCount() {
+        return timesS.length;
+    }
+
+    public double value(int frame, int position) {
+        return values[frame * distancesUm.length + position];
+    }
+
+    public double distanceUm(int position) {
+        return distancesUm[position];
+    }
+
+    public double timeS(int frame) {
+        return timesS[frame];
+    }
+
+    public double[] distancesUm() {
+        return distancesUm.clone();
+    }
+
+    public double[] timesS() {
+        return timesS.clone();
+    }
+
+    /** A copy of the row-major values. */
+    public double[] values() {
+        return values.clone();
+    }
+
+    /** A copy of one frame's profile along the path. */
+    public double[] row(int frame) {
+        return Arrays.copyOfRange(values, frame * distancesUm.length, (frame + 1) * distancesUm.length);
+    }
+
+    /** A copy of one position's time course. */
+    public double[] column(int position) {
+        double[] c = new double[timesS.length];
+        for (int f = 0; f < c.length; f++) {
+            c[f] = values[f * distancesUm.length + position];
+        }
+        return c;
+    }
+
+    public String signalUnit() {
+        return signalUnit;
+    }
+
+    /** Spacing of the columns, um (0 for a single column). */
+    public double distanceStepUm() {
+        return distancesUm.length > 1 ? (distancesUm[distancesUm.length - 1] - distancesUm[0]) / (distancesUm.length - 1) : 0;
+    }
+
+    /** Spacing of the rows, s (0 for a single frame). */
+    public double timeStepS() {
+        return timesS.length > 1 ? (timesS[timesS.length - 1] - timesS[0]) / (timesS.length - 1) : 0;
+    }
+
+    /** The same grid with other values (row-major) and unit. */
+    public Kymograph withValues(double[] newValues, String newUnit) {
+        return new Kymograph(distancesUm, timesS, newValues, newUnit);
+    }
+
+    /** Number of NaN values. */
+    public long nanCount() {
+        long n = 0;
+        for (double v : values) {
+            if (Double.isNaN(v)) {
+                n++;
+            }
+        }
+        return n;
+    }
+}
