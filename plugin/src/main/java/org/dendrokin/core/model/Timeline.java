@@ -1,0 +1,108 @@
+package org.dendrokin.core.model;
+
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.List;
+
+import org.dendrokin.core.Checks;
+
+/**
+ * The event times of a run, built once: every output time and every stimulus start and end, sorted and
+ * merged, from 0 to the last output time. The solver steps from one breakpoint to the next and handles
+ * at each breakpoint, in this order: injections and clamps that end, those that start, pulses, then the
+ * outputs (so a frame taken at a pulse's time shows the pulse). Events after the last output are dropped.
+ */
+final class Timeline {
+    static final int INJECTION_OFF = 0;
+    static final int CLAMP_OFF = 1;
+    static final int INJECTION_ON = 2;
+    static final int CLAMP_ON = 3;
+    static final int PULSE = 4;
+
+    final double[] breaksS;
+    /** Events of breakpoint j are eventType/eventStimulus[eventStart[j] .. eventStart[j + 1]). */
+    final int[] eventStart;
+    final int[] eventType;
+    final int[] eventStimulus;
+    /** Outputs of breakpoint j are outputFrame[outputStart[j] .. outputStart[j + 1]). */
+    final int[] outputStart;
+    final int[] outputFrame;
+
+    Timeline(double[] outputTimesS, List<Stimulus> stimuli) {
+        Checks.require(outputTimesS.length > 0, "at least one output time is needed");
+        double end = 0;
+        for (double t : outputTimesS) {
+            Checks.nonNegativeFinite(t, "output time (s)");
+            end = Math.max(end, t);
+        }
+        List<double[]> events = new ArrayList<>();   // {time, type, stimulus}
+        for (int s = 0; s < stimuli.size(); s++) {
+            Stimulus st = stimuli.get(s);
+            switch (st.kind()) {
+                case PULSE -> events.add(new double[] {st.timeS(), PULSE, s});
+                case INJECTION -> {
+                    events.add(new double[] {st.timeS(), INJECTION_ON, s});
+                    events.add(new double[] {st.endS(), INJECTION_OFF, s});
+                }
+                case CLAMP -> {
+                    events.add(new double[] {st.timeS(), CLAMP_ON, s});
+                    events.add(new double[] {st.endS(), CLAMP_OFF, s});
+                }
+                default -> throw new IllegalStateException(st.kind().toString());
+            }
+        }
+        final double lastTime = end;
+        events.removeIf(e -> e[0] > lastTime);
+        events.sort(Comparator.<double[]>comparingDouble(e -> e[0]).thenComparingDouble(e -> e[1]));
+        List<Double> times = new ArrayList<>();
+        times.add(0.0);
+        for (double[] e : events) {
+            times.add(e[0]);
+        }
+        for (double t : outputTimesS) {
+            times.add(t);
+        }
+        times.sort(Double::compare);
+        List<Double> unique = new ArrayList<>();
+        for (double t : times) {
+            if (unique.isEmpty() || t > unique.get(unique.size() - 1)) {
+                unique.add(t);
+            }
+        }
+        breaksS = unique.stream().mapToDouble(Double::doubleValue).toArray();
+        int nb = breaksS.length;
+        eventStart = new int[nb + 1];
+        eventType = new int[events.size()];
+        eventStimulus = new int[events.size()];
+        int k = 0;
+        for (int j = 0; j < nb; j++) {
+            eventStart[j] = k;
+            while (k < events.size() && events.get(k)[0] == breaksS[j]) {
+                eventType[k] = (int) events.get(k)[1];
+                eventStimulus[k] = (int) events.get(k)[2];
+                k++;
+            }
+        }
+        eventStart[nb] = k;
+        Integer[] order = new Integer[outputTimesS.length];
+        for (int f = 0; f < order.length; f++) {
+            order[f] = f;
+        }
+        java.util.Arrays.sort(order, Comparator.comparingDouble(f -> outputTimesS[f]));
+        outputStart = new int[nb + 1];
+        outputFrame = new int[order.length];
+        int m = 0;
+        for (int j = 0; j < nb; j++) {
+            outputStart[j] = m;
+            while (m < order.length && outputTimesS[order[m]] == breaksS[j]) {
+                outputFrame[m] = order[m];
+                m++;
+            }
+        }
+        outputStart[nb] = m;
+    }
+
+    int breakCount() {
+        return breaksS.length;
+    }
+}
