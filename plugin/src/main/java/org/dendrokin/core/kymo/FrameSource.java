@@ -26,4 +26,30 @@ public interface FrameSource {
      * @return {@code dst}
      */
     float[] readRows(int frame, int firstRow, int rowCount, float[] dst);
+
+    /**
+     * Copies single pixels of frame {@code frame} into {@code dst}: {@code dst[i]} receives the pixel at array
+     * index {@code pixelIndices[i]} ({@code row * width() + column}). The default reads the band of rows from
+     * the first to the last index through {@link #readRows}; sources that can reach single pixels cheaply
+     * (memory-mapped files) override it.
+     *
+     * @param frame        0-based frame index
+     * @param pixelIndices pixel indices in ascending order, each in {@code [0, width() * height())}. Not modified.
+     * @param dst          receives the values; at least {@code pixelIndices.length} long. Modified.
+     * @return {@code dst}
+     */
+    default float[] gather(int frame, int[] pixelIndices, float[] dst) {
+        if (pixelIndices.length == 0) {
+            return dst;
+        }
+        int w = width();
+        int firstRow = pixelIndices[0] / w;
+        int rowCount = pixelIndices[pixelIndices.length - 1] / w - firstRow + 1;
+        float[] rows = readRows(frame, firstRow, rowCount, new float[rowCount * w]);
+        int base = firstRow * w;
+        for (int i = 0; i < pixelIndices.length; i++) {
+            dst[i] = rows[pixelIndices[i] - base];
+        }
+        return dst;
+    }
 }
