@@ -1,0 +1,148 @@
+package org.dendrokin.core.preprocess;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.spread.Estimate;
+import org.dendrokin.core.units.Unit;
+
+/**
+ * Photobleaching correction by a single exponential fitted to the signal outside the response.
+ *
+ * <p>Model (sheet s9): after background subtraction the signal that bleaches is S(x, t) b(t) with
+ * b(t) = exp(-t / tau), b(0) = 1; the corrected signal is S_corr = S / b(t). The offset that does not bleach
+ * is the background, already removed, so the fit has no offset term.
+ *
+ * <p>Which samples are fitted. Each position is first divided by its own baseline median, so that all
+ * positions start near 1. A position belongs to the response when, after the stimulus, its 5-frame moving
+ * average rises above 1 + 4 noise standard deviations (noise from the baseline frames); two neighbours on each
+ * side are added as a margin. The bleach trace is the mean of the normalised signal over all positions in the
+ * baseline frames and over the quiet (non-responding) positions after the stimulus. That trace is fitted by
+ * {@link ExponentialFit} as A exp(-t / tau) with t the frame time. If every position responds, only the
+ * baseline frames are fitted, and a warning says so. A rate whose 95% interval includes zero, or a rising
+ * signal, is reported and not corrected.
+ */
+public final class BleachCorrection {
+    private static final int MARGIN = 2;
+
+    private BleachCorrection() {
+    }
+
+    /**
+     * @param corrected    the corrected intensity (the input itself when nothing was corrected)
+     * @param applied      true when the correction was applied
+     * @param timeConstant fitted tau, s, with its 95% interval; null when no fit was possible
+     * @param traceTimesS  times of the frames in the bleach trace, s
+     * @param trace        the fitted trace (normalised mean of the quiet samples; NaN where no sample)
+     * @param fitted       the fitted curve at every frame (NaN when no fit)
+     * @param quietPositions number of positions used after the stimulus
+     * @param warnings     plain sentences
+     */
+    public record Result(Kymograph corrected, boolean applied, Estimate timeConstant, double[] traceTimesS,
+            double[] trace, double[] fitted, int quietPositions, List<String> warnings) {
+    }
+
+    /**
+     * @param intensity          background-subtracted intensity. Not modified.
+     * @param baselineFirst      first baseline frame, inclusive
+     * @param baselineLast       last baseline frame, inclusive
+     * @param firstResponseFrame first frame at or after the stimulus; {@code frameCount()} when there is none
+     */
+    public static Result correct(Kymograph intensity, int baselineFirst, int baselineLast, int firstResponseFrame) {
+        int nt = intensity.frameCount();
+        int nx = intensity.positionCount();
+        List<String> warnings = new ArrayList<>();
+        double[][] norm = new double[nt][nx];
+        double[] noise = new double[nx];
+        double[] base = new double[baselineLast - baselineFirst + 1];
+        for (int p = 0; p < nx; p++) {
+            double[] col = intensity.column(p);
+            System.arraycopy(col, baselineFirst, base, 0, base.length);
+            double m = Robust.median(base);
+            for (int f = 0; f < nt; f++) {
+                norm[f][p] = m > 0 ? col[f] / m : Double.NaN;
+            }
+            for (int f = 0; f < base.length; f++) {
+                base[f] = norm[baselineFirst + f][p];
+            }
+            noise[p] = Robust.madSd(base);
+        }
+        boolean[] responding = new boolean[nx];
+        for (int p = 0; p < nx && firstResponseFrame < nt; p++) {
+            double[] after = new double[nt - firstResponseFrame];
+            for (int f = firstResponseFrame; f < nt; f++) {
+                after[f - firstResponseFrame] = norm[f][p];
+            }
+            double[] smooth = Robust.movingAverage(after, 2);
+            double peak = Double.NEGATIVE_INFINITY;
+            for (double v : smooth) {
+                peak = Double.isFinite(v) ? Math.max(peak, v) : peak;
+            }
+            if (peak > 1 + 4 * noise[p] / Math.sqrt(5) || !Double.isFinite(noise[p])) {
+                for (int q = Math.max(0, p - MARGIN); q <= Math.min(nx - 1, p + MARGIN); q++) {
+                    responding[q] = true;
+                }
+            }
+        }
+        int quiet = 0;
+        for (int p = 0; p < nx; p++) {
+            quiet += responding[p] ? 0 : 1;
+        }
+        double[] times = intensity.timesS();
+        double[] trace = new double[nt];
+        for (int f = 0; f < nt; f++) {
+            boolean baseline = f < firstResponseFrame;
+            double sum = 0;
+            int n = 0;
+            for (int p = 0; p < nx; p++) {
+                if ((baseline || !responding[p]) && Double.isFinite(norm[f][p])) {
+                    sum += norm[f][p];
+                    n++;
+                }
+            }
+            trace[f] = n > 0 && (baseline || quiet >= 3) ? sum / n : Double.NaN;
+        }
+        if (firstResponseFrame < nt && quiet < 3) {
+            warnings.add("Every part of the path responded to the stimulus, so the bleaching was estimated from the "
+                    + "baseline frames alone; if the baseline is short, the correction is uncertain.");
+        }
+        double[] fitted = new double[nt];
+        java.util.Arrays.fill(fitted, Double.NaN);
+        ExponentialFit.Result fit;
+        try {
+            fit = ExponentialFit.fit(times, trace, times[0]);
+        } catch (IllegalArgumentException e) {
+            warnings.add("Too few frames without a response to estimate photobleaching; no bleaching correction was "
+                    + "applied.");
+            return new Result(intensity, false, null, times, trace, fitted, quiet, warnings);
+        }
+        for (int f = 0; f < nt; f++) {
+            fitted[f] = fit.valueAt(times[f], times[0]);
+        }
+        double[] ci = fit.rateCi95();
+        if (!fit.converged() || !(fit.rate() > 0) || !(ci[0] > 0)) {
+            warnings.add(String.format(Locale.ROOT, "No significant photobleaching was found (fitted loss rate %.3g 1/s, "
+                    + "95%% interval %.3g to %.3g 1/s); no bleaching correction was applied.", fit.rate(), ci[0], ci[1]));
+            return new Result(intensity, false, null, times, trace, fitted, quiet, warnings);
+        }
+        double tau = 1 / fit.rate();
+        Estimate estimate = new Estimate(tau, Unit.SECOND.symbol(), 1 / ci[1], 1 / ci[0],
+                "Student t on the fitted rate (Jacobian covariance), inverted");
+        double duration = times[nt - 1] - times[0];
+        if (tau > 20 * duration) {
+            warnings.add(String.format(Locale.ROOT, "Photobleaching is slight: the fitted time constant (%.3g s) is far "
+                    + "longer than the movie (%.3g s).", tau, duration));
+        }
+        double[] values = intensity.values();
+        for (int f = 0; f < nt; f++) {
+            double b = Math.exp(-(times[f] - times[0]) / tau);
+            for (int p = 0; p < nx; p++) {
+                values[f * nx + p] /= b;
+            }
+        }
+        return new Result(intensity.withValues(values, intensity.signalUnit()), true, estimate, times, trace, fitted,
+                quiet, warnings);
+    }
+}

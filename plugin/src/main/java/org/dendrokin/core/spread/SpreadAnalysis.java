@@ -1,0 +1,365 @@
+package org.dendrokin.core.spread;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
+
+import org.apache.commons.math3.stat.regression.SimpleRegression;
+import org.dendrokin.core.Checks;
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.preprocess.ExponentialFit;
+import org.dendrokin.core.preprocess.Robust;
+import org.dendrokin.core.units.Unit;
+
+/**
+ * Model-free measures of how a signal spreads from a stimulus along the dendrite, read off a kymograph whose
+ * baseline is zero (dF/F0, or a calibrated concentration change). None of them assumes a model; each comes
+ * with a 95% interval or is null with the reason among the warnings.
+ *
+ * <ul>
+ * <li>Front arrival: at each position, the time after the stimulus at which the signal (3-frame centred moving
+ * average) first reaches half of its own peak, interpolated linearly between frames. Positions whose peak is
+ * below 4 noise standard deviations of that average, or below a tenth of the largest peak, are left out.</li>
+ * <li>Front speed: the Theil-Sen slope of distance from the stimulus against arrival time (um/s), with Sen's
+ * rank interval ({@link TheilSen}). Both sides of the stimulus are pooled by absolute distance.</li>
+ * <li>Length constant: the peak amplitude P(d) at distance d fitted as P0 exp(-d / lambda) by least squares on
+ * ln P (Commons Math {@link SimpleRegression}); the interval is the slope's Student t interval, mapped through
+ * lambda = -1 / slope.</li>
+ * <li>Decay time: the integrated signal I(t) = sum over positions of signal times the position step (um times
+ * signal unit), from its peak to the end of the movie, fitted as A exp(-(t - t_peak) / tau) by
+ * {@link ExponentialFit}. Under diffusion with first-order decay and sealed ends, I(t) is M exp(-k t) exactly,
+ * so tau = 1/k (Crank 1975, sheet s2.3).</li>
+ * <li>Apparent D: the spatial variance of the profile, var(t) = sum s (x - mean)^2 / sum s over a window
+ * symmetric about the stimulus, grows as s0^2 + 2 D t under diffusion (Einstein 1905; Crank 1975, sheet s2.2,
+ * s2.5); D is half the least-squares slope over the frames where the profile is well above the noise and its
+ * three standard deviations stay inside the window. The time window used is reported.</li>
+ * </ul>
+ */
+public final class SpreadAnalysis {
+    private SpreadAnalysis() {
+    }
+
+    /**
+     * Everything measured.
+     *
+     * @param frontSpeed       um/s, or null
+     * @param lengthConstant   um, or null
+     * @param decayTime        s, or null
+     * @param apparentD        um^2/s, or null
+     * @param arrivalDistanceUm signed distance from the stimulus of each position with an arrival time
+     * @param arrivalTimeS     arrival time after the stimulus, s (same length)
+     * @param peakDistanceUm   signed distance from the stimulus of each position used for the length constant
+     * @param peakAmplitude    peak signal at those positions (signal unit)
+     * @param timesS           frame times after the stimulus, s (relative to the stimulus)
+     * @param integrated       integrated signal at those times, um times signal unit
+     * @param integratedFit    fitted decay curve at those times (NaN where not fitted)
+     * @param variance         spatial variance of the profile at those times, um^2 (NaN outside the window)
+     * @param varianceWindowS  {first, last} time after the stimulus used for the apparent D, s, or null
+     * @param warnings         plain sentences
+     */
+    public record Result(Estimate frontSpeed, Estimate lengthConstant, Estimate decayTime, Estimate apparentD,
+            double[] arrivalDistanceUm, double[] arrivalTimeS, double[] peakDistanceUm, double[] peakAmplitude,
+            double[] timesS, double[] integrated, double[] integratedFit, double[] variance, double[] varianceWindowS,
+            List<String> warnings) {
+    }
+
+    /**
+     * @param signal     kymograph with a zero baseline (dF/F0 or concentration change). Not modified.
+     * @param stimulusTimeS     stimulus time, s
+     * @param stimulusPositionUm stimulus position, um along the path
+     * @param noiseSd    typical standard deviation of one sample of the signal at baseline (signal unit)
+     */
+    public static Result measure(Kymograph signal, double stimulusTimeS, double stimulusPositionUm, double noiseSd) {
+        Checks.finite(stimulusTimeS, "stimulus time");
+        Checks.finite(stimulusPositionUm, "stimulus position");
+        List<String> warnings = new ArrayList<>();
+        int nt = signal.frameCount();
+        int nx = signal.positionCount();
+        double dx = signal.distanceStepUm();
+        double dt = signal.timeStepS();
+        String unit = signal.signalUnit();
+        int first = 0;
+        while (first < nt && signal.timeS(first) < stimulusTimeS - 1e-9 * Math.max(1, Math.abs(stimulusTimeS))) {
+            first++;
+        }
+        int after = nt - first;
+        double[] relTimes = new double[Math.max(0, after)];
+        for (int f = first; f < nt; f++) {
+            relTimes[f - first] = signal.timeS(f) - stimulusTimeS;
+        }
+        double[] empty = new double[0];
+        if (after < 4 || nx < 3) {
+            warnings.add(String.format(Locale.ROOT, "Only %d frames after the stimulus and %d positions: too few to "
+                    + "measure the spread.", after, nx));
+            double[] nan = nanArray(relTimes.length);
+            return new Result(null, null, null, null, empty, empty, empty, empty, relTimes, nan, nan, nan, null,
+                    warnings);
+        }
+        double noise = Double.isFinite(noiseSd) && noiseSd > 0 ? noiseSd : 0;
+
+        // Peaks and arrival times, position by position.
+        double[] peak = new double[nx];
+        double[][] smooth = new double[nx][];
+        double globalPeak = 0;
+        for (int p = 0; p < nx; p++) {
+            double[] col = signal.column(p);
+            smooth[p] = Robust.movingAverage(col, 1);
+            peak[p] = Double.NaN;
+            for (int f = first; f < nt; f++) {
+                if (Double.isFinite(smooth[p][f]) && !(smooth[p][f] <= peak[p])) {
+                    peak[p] = smooth[p][f];
+                }
+            }
+            if (peak[p] > globalPeak) {
+                globalPeak = peak[p];
+            }
+        }
+        double threshold = Math.max(4 * noise / Math.sqrt(3), 0.1 * globalPeak);
+        boolean[] responds = new boolean[nx];
+        List<double[]> arrivals = new ArrayList<>();
+        List<double[]> peaks = new ArrayList<>();
+        for (int p = 0; p < nx; p++) {
+            if (!(peak[p] > threshold) || !(globalPeak > 0)) {
+                continue;
+            }
+            responds[p] = true;
+            double d = signal.distanceUm(p) - stimulusPositionUm;
+            peaks.add(new double[] {d, peak[p]});
+            double half = peak[p] / 2;
+            for (int f = first; f < nt; f++) {
+                if (smooth[p][f] >= half) {
+                    double t;
+                    double prev = f > 0 ? smooth[p][f - 1] : Double.NaN;
+                    if (f > 0 && Double.isFinite(prev) && prev < half) {
+                        t = signal.timeS(f - 1) + (half - prev) / (smooth[p][f] - prev) * dt;
+                    } else {
+                        t = signal.timeS(f);
+                    }
+                    arrivals.add(new double[] {d, Math.max(0, t - stimulusTimeS)});
+                    break;
+                }
+            }
+        }
+        double[] arrD = column(arrivals, 0);
+        double[] arrT = column(arrivals, 1);
+        double[] pkD = column(peaks, 0);
+        double[] pkA = column(peaks, 1);
+        if (!(globalPeak > 4 * noise / Math.sqrt(3))) {
+            warnings.add("No response stands out from the noise after the stimulus; the spread measures are not "
+                    + "available.");
+            double[] nan = nanArray(relTimes.length);
+            return new Result(null, null, null, null, arrD, arrT, pkD, pkA, relTimes, nan, nan, nan, null, warnings);
+        }
+
+        Estimate speed = frontSpeed(arrD, arrT, dx, warnings);
+        if (speed != null && (responds[0] || responds[nx - 1])) {
+            double reach = 0;
+            for (double d : arrD) {
+                reach = Math.max(reach, Math.abs(d));
+            }
+            warnings.add(String.format(Locale.ROOT, "The response reached the end of the path, so the front was "
+                    + "followed over only %.3g um. A front read off a short stretch is biased: near the stimulus it is "
+                    + "still leaving the stimulated site, and it can speed up near a sealed end.", reach));
+        } else if (speed != null && arrD.length < 10) {
+            warnings.add(String.format(Locale.ROOT, "The front was followed at only %d positions; its speed is "
+                    + "uncertain and may be biased by the stimulated site itself.", arrD.length));
+        }
+        Estimate lambda = lengthConstant(pkD, pkA, warnings);
+
+        // Integrated signal and its decay.
+        double[] integrated = new double[after];
+        boolean[] usable = new boolean[nx];
+        for (int p = 0; p < nx; p++) {
+            usable[p] = true;
+            for (int f = first; f < nt; f++) {
+                usable[p] &= Double.isFinite(signal.value(f, p));
+            }
+        }
+        for (int f = first; f < nt; f++) {
+            double s = 0;
+            for (int p = 0; p < nx; p++) {
+                s += usable[p] ? signal.value(f, p) * dx : 0;
+            }
+            integrated[f - first] = s;
+        }
+        double[] integratedFit = nanArray(after);
+        Estimate decay = decayTime(relTimes, integrated, integratedFit, unit, warnings);
+
+        double[] variance = nanArray(after);
+        double[] window = new double[2];
+        Estimate d = apparentD(signal, first, stimulusPositionUm, noise, variance, relTimes, window, warnings);
+        return new Result(speed, lambda, decay, d, arrD, arrT, pkD, pkA, relTimes, integrated, integratedFit, variance,
+                d == null ? null : window, warnings);
+    }
+
+    private static Estimate frontSpeed(double[] distance, double[] arrival, double dx, List<String> warnings) {
+        double[] absD = Arrays.stream(distance).map(Math::abs).toArray();
+        double span = Arrays.stream(absD).max().orElse(0) - Arrays.stream(absD).min().orElse(0);
+        if (distance.length < 5 || span < 3 * dx) {
+            warnings.add("The front speed is not available: the response was seen at too few positions to follow a "
+                    + "front.");
+            return null;
+        }
+        TheilSen.Line line = TheilSen.fit(arrival, absD);
+        if (!(line.slope() > 0) || !Double.isFinite(line.slope())) {
+            warnings.add("The front speed is not available: arrival times do not increase with distance from the "
+                    + "stimulus (the response arrived everywhere at once, or the stimulus position is off).");
+            return null;
+        }
+        double lo = Math.max(0, line.slopeLo95());
+        return new Estimate(line.slope(), Unit.SPEED.symbol(), lo, line.slopeHi95(),
+                "Theil-Sen slope, Sen 1968 rank interval");
+    }
+
+    private static Estimate lengthConstant(double[] distance, double[] peak, List<String> warnings) {
+        SimpleRegression reg = new SimpleRegression();
+        for (int i = 0; i < distance.length; i++) {
+            if (peak[i] > 0) {
+                reg.addData(Math.abs(distance[i]), Math.log(peak[i]));
+            }
+        }
+        if (reg.getN() < 4) {
+            warnings.add("The length constant is not available: the response was seen at fewer than 4 positions.");
+            return null;
+        }
+        double slope = reg.getSlope();
+        if (!(slope < 0)) {
+            warnings.add("The length constant is not available: the peak does not fall off with distance from the "
+                    + "stimulus.");
+            return null;
+        }
+        double half = reg.getSlopeConfidenceInterval(0.05);
+        double lo = -1 / (slope - half);
+        double hi = slope + half < 0 ? -1 / (slope + half) : Double.POSITIVE_INFINITY;
+        Estimate e = new Estimate(-1 / slope, Unit.MICROMETRE.symbol(), lo, hi,
+                "Student t on the slope of ln(peak) against distance, mapped to -1/slope");
+        if (e.isVague()) {
+            warnings.add("The length constant is poorly determined: its 95% interval is wider than the value.");
+        }
+        return e;
+    }
+
+    private static Estimate decayTime(double[] t, double[] integrated, double[] fitOut, String unit,
+            List<String> warnings) {
+        int peakAt = 0;
+        for (int i = 1; i < integrated.length; i++) {
+            if (integrated[i] > integrated[peakAt]) {
+                peakAt = i;
+            }
+        }
+        int n = integrated.length - peakAt;
+        if (n < 4) {
+            warnings.add("The decay time is not available: the integrated signal peaks too close to the end of the "
+                    + "movie.");
+            return null;
+        }
+        double[] tt = Arrays.copyOfRange(t, peakAt, t.length);
+        double[] yy = Arrays.copyOfRange(integrated, peakAt, integrated.length);
+        ExponentialFit.Result fit = ExponentialFit.fit(tt, yy, t[peakAt]);
+        double[] ci = fit.rateCi95();
+        if (!fit.converged() || !(fit.rate() > 0)) {
+            warnings.add("The decay time is not available: the integrated signal does not decay within the movie.");
+            return null;
+        }
+        for (int i = peakAt; i < t.length; i++) {
+            fitOut[i] = fit.valueAt(t[i], t[peakAt]);
+        }
+        double tau = 1 / fit.rate();
+        double hi = ci[0] > 0 ? 1 / ci[0] : Double.POSITIVE_INFINITY;
+        double observed = t[t.length - 1] - t[peakAt];
+        if (tau > observed) {
+            warnings.add(String.format(Locale.ROOT, "The decay time (%.3g s) is longer than the part of the movie after "
+                    + "the peak (%.3g s), so it is an extrapolation.", tau, observed));
+        }
+        return new Estimate(tau, Unit.SECOND.symbol(), 1 / ci[1], hi,
+                "Student t on the fitted rate (Jacobian covariance), inverted");
+    }
+
+    private static Estimate apparentD(Kymograph k, int first, double x0, double noise, double[] varianceOut,
+            double[] relTimes, double[] window, List<String> warnings) {
+        int nx = k.positionCount();
+        double dx = k.distanceStepUm();
+        double half = Math.min(x0 - k.distanceUm(0), k.distanceUm(nx - 1) - x0);
+        if (half < 3 * dx) {
+            warnings.add("The apparent D is not available: the stimulus lies too close to an end of the path for a "
+                    + "symmetric window.");
+            return null;
+        }
+        int n = 0;
+        double[] mass = new double[relTimes.length];
+        double massMax = 0;
+        for (int f = first; f < k.frameCount(); f++) {
+            double m0 = 0;
+            double m1 = 0;
+            double m2 = 0;
+            int used = 0;
+            for (int p = 0; p < nx; p++) {
+                double x = k.distanceUm(p) - x0;
+                double v = k.value(f, p);
+                if (Math.abs(x) <= half && Double.isFinite(v)) {
+                    m0 += v;
+                    m1 += v * x;
+                    m2 += v * x * x;
+                    used++;
+                }
+            }
+            n = Math.max(n, used);
+            mass[f - first] = m0 * dx;
+            massMax = Math.max(massMax, m0 * dx);
+            double mean = m1 / m0;
+            varianceOut[f - first] = m0 > 0 ? m2 / m0 - mean * mean : Double.NaN;
+        }
+        double massNoise = noise * dx * Math.sqrt(Math.max(1, n));
+        SimpleRegression reg = new SimpleRegression();
+        int start = -1;
+        int end = -1;
+        for (int i = 0; i < relTimes.length; i++) {
+            double var = varianceOut[i];
+            boolean ok = mass[i] > 0.3 * massMax && mass[i] > 10 * massNoise && var > 0 && 3 * Math.sqrt(var) < half;
+            if (ok) {
+                if (start < 0) {
+                    start = i;
+                }
+                end = i;
+                reg.addData(relTimes[i], var);
+            } else if (start >= 0) {
+                break;
+            }
+        }
+        for (int i = 0; i < relTimes.length; i++) {
+            if (i < start || i > end || start < 0) {
+                varianceOut[i] = Double.NaN;
+            }
+        }
+        if (reg.getN() < 4) {
+            warnings.add("The apparent D is not available: fewer than 4 frames have a profile clear of the noise and "
+                    + "inside the path.");
+            return null;
+        }
+        window[0] = relTimes[start];
+        window[1] = relTimes[end];
+        double slope = reg.getSlope();
+        double ci = reg.getSlopeConfidenceInterval(0.05);
+        if (!(slope > 0)) {
+            warnings.add("The apparent D is not available: the profile does not widen over time.");
+            return null;
+        }
+        return new Estimate(slope / 2, Unit.DIFFUSION.symbol(), Math.max(0, (slope - ci) / 2), (slope + ci) / 2,
+                "Student t on the least-squares slope of the spatial variance");
+    }
+
+    private static double[] column(List<double[]> rows, int c) {
+        double[] out = new double[rows.size()];
+        for (int i = 0; i < out.length; i++) {
+            out[i] = rows.get(i)[c];
+        }
+        return out;
+    }
+
+    private static double[] nanArray(int n) {
+        double[] a = new double[n];
+        Arrays.fill(a, Double.NaN);
+        return a;
+    }
+}

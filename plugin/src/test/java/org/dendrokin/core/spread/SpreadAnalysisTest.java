@@ -1,0 +1,85 @@
+package org.dendrokin.core.spread;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import org.dendrokin.core.kymo.Kymograph;
+import org.junit.jupiter.api.Test;
+
+class SpreadAnalysisTest {
+    private interface Field {
+        double at(double xUm, double tS);
+    }
+
+    private static Kymograph grid(int nx, double dx, int nt, double dt, Field field) {
+        double[] d = new double[nx];
+        double[] t = new double[nt];
+        double[] v = new double[nx * nt];
+        for (int p = 0; p < nx; p++) {
+            d[p] = p * dx;
+        }
+        for (int f = 0; f < nt; f++) {
+            t[f] = f * dt;
+            for (int p = 0; p < nx; p++) {
+                v[f * nx + p] = field.at(d[p], t[f]);
+            }
+        }
+        return new Kymograph(d, t, v, "dF/F0");
+    }
+
+    @Test
+    void frontSpeedOfAConstantSpeedFront() {
+        double v = 2.0;
+        double x0 = 10;
+        // A logistic front travelling both ways from x0 at v um/s; its half-maximum passes d at t = 1 + |d| / v.
+        Kymograph k = grid(201, 0.25, 400, 0.05, (x, t) -> 1 / (1 + Math.exp(-(t - 1 - Math.abs(x - x0) / v) / 0.2)));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, x0, 0.0);
+        // REF: constant-speed front, arrival t = |d| / v by construction [common practice]
+        assertEquals(v, r.frontSpeed().value(), 0.01 * v, "front speed, um/s");
+        assertTrue(r.frontSpeed().lo95() <= v && v <= r.frontSpeed().hi95(), "interval holds the speed");
+        assertTrue(r.warnings().stream().anyMatch(w -> w.contains("end of the path")),
+                "a front that runs off the path is flagged: " + r.warnings());
+    }
+
+    @Test
+    void lengthConstantOfAnExponentialProfile() {
+        double lambda = 4.0;
+        double x0 = 20;
+        Kymograph k = grid(161, 0.25, 100, 0.5,
+                (x, t) -> t < 5 ? 0 : 3 * Math.exp(-Math.abs(x - x0) / lambda) * (t - 5) * Math.exp(-(t - 5) / 6));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 4.75, x0, 0.0);
+        // REF: peak(d) = P0 exp(-|d| / lambda), steady source with decay [published formula: Crank 1975]; sheet s2.4
+        assertEquals(lambda, r.lengthConstant().value(), 1e-9, "length constant, um");
+        assertEquals("um", r.lengthConstant().unit());
+    }
+
+    @Test
+    void gaussianPulseGivesDFromVarianceGrowthAndKFromTheIntegratedDecay() {
+        double dUm2PerS = 1.0;
+        double kPerS = 0.1;
+        double s0 = 1.0;
+        double x0 = 50;
+        Kymograph k = grid(401, 0.25, 201, 0.1, (x, t) -> {
+            double var = s0 * s0 + 2 * dUm2PerS * t;
+            return 5 / Math.sqrt(2 * Math.PI * var) * Math.exp(-Math.pow(x - x0, 2) / (2 * var)) * Math.exp(-kPerS * t);
+        });
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 0.0, x0, 0.0);
+        // REF: Gaussian pulse, variance s0^2 + 2 D t [published formula: Crank 1975 ch. 2; Einstein 1905]; sheet s2.2, s2.5
+        assertEquals(dUm2PerS, r.apparentD().value(), 1e-6, "apparent D, um^2/s");
+        assertTrue(r.varianceWindowS()[1] > r.varianceWindowS()[0], "a time window is reported");
+        // REF: total amount decays as exp(-k t) under first-order decay [published: Crank 1975]; sheet s2.3
+        assertEquals(1 / kPerS, r.decayTime().value(), 1e-6, "decay time, s");
+    }
+
+    @Test
+    void noResponseGivesNullsWithReasons() {
+        java.util.Random random = new java.util.Random(3);
+        Kymograph k = grid(40, 0.5, 60, 1, (x, t) -> 0.05 * random.nextGaussian());
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 10, 10, 0.05);
+        assertNull(r.frontSpeed());
+        assertNull(r.lengthConstant());
+        assertNull(r.decayTime());
+        assertTrue(!r.warnings().isEmpty());
+    }
+}
