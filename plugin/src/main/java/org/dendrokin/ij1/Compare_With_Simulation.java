@@ -1,0 +1,201 @@
+package org.dendrokin.ij1;
+
+import java.awt.Color;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
+
+import ij.IJ;
+import ij.ImagePlus;
+import ij.ImageStack;
+import ij.WindowManager;
+import ij.gui.Plot;
+import ij.measure.ResultsTable;
+import ij.plugin.PlugIn;
+import ij.process.FloatProcessor;
+
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.plot.ColourScale;
+import org.dendrokin.io.plot.Heatmap;
+
+/**
+ * Plugins > Dendrokin > Compare with Simulation: puts a model with the user's own parameters (no fitting)
+ * beside the measured kymograph. Opens one stack (measured, simulated, measured minus simulated) on one
+ * colour scale, a table with the residual norm and the front speed and length constant of each, and a plot
+ * of profiles at a few times.
+ */
+public class Compare_With_Simulation implements PlugIn {
+    static final String COMMAND = "Compare with Simulation";
+
+    /** What a comparison produced. */
+    record Comparison(Kymograph measured, Kymograph simulated, Kymograph residual, double rmse,
+            SpreadAnalysis.Result measuredSpread, SpreadAnalysis.Result simulatedSpread) {
+    }
+
+    @Override
+    public void run(String arg) {
+        ImagePlus current = WindowManager.getCurrentImage();
+        if (current == null) {
+            IJ.noImage();
+            return;
+        }
+        IjProgress progress = new IjProgress(COMMAND);
+        try {
+            Kymograph measured = KymographImage.fromImage(current);
+            OptionsDialog d = new OptionsDialog(COMMAND, "compare");
+            ModelSettings.addFields(d, measured.distanceUm(measured.positionCount() - 1),
+                    measured.timeS(measured.frameCount() / 10));
+            d.folder("Save CSV and TIFF to folder (empty: do not save)", "");
+            if (!d.show()) {
+                return;
+            }
+            ModelSettings model = ModelSettings.read(d);
+            String folder = d.nextText();
+            Comparison c = compare(measured, model, progress);
+            ImagePlus stack = stack(c, current.getShortTitle() + " vs " + model.model());
+            ResultsTable table = table(c, model);
+            if (!folder.isEmpty()) {
+                Path dir = Path.of(folder);
+                KymographCsv.write(c.simulated(), dir.resolve(stem(stack) + "_simulated.csv"));
+                KymographCsv.write(c.residual(), dir.resolve(stem(stack) + "_residual.csv"));
+                Kymograph_Along_Line.saveTiff(stack, dir.resolve(stem(stack) + ".tif"));
+                Tables.saveCsv(table, dir.resolve(stem(stack) + ".csv"));
+            }
+            Display.showKymograph(stack);
+            Tables.show(table, "Dendrokin comparison");
+            if (!OptionsDialog.headless()) {
+                profilePlot(c, model).show();
+            }
+            progress.finish(COMMAND + String.format(Locale.ROOT, ": RMSE %.4g %s.", c.rmse(), measured.signalUnit()));
+        } catch (RuntimeException e) {
+            Failures.show(COMMAND, e);
+        }
+    }
+
+    /** Simulates on the measured grid and measures both the same way. */
+    static Comparison compare(Kymograph measured, ModelSettings model, org.dendrokin.core.Progress progress) {
+        Kymograph simulated = model.simulateOn(measured, progress);
+        double[] m = measured.values();
+        double[] s = simulated.values();
+        double[] r = new double[m.length];
+        double sum = 0;
+        int n = 0;
+        for (int i = 0; i < m.length; i++) {
+            r[i] = m[i] - s[i];
+            if (Double.isFinite(r[i])) {
+                sum += r[i] * r[i];
+                n++;
+            }
+        }
+        Kymograph residual = measured.withValues(r, measured.signalUnit());
+        double noise = baselineSd(measured, model.stimulusTimeS());
+        SpreadAnalysis.Result ms = SpreadAnalysis.measure(measured, model.stimulusTimeS(), model.stimulusUm(), noise);
+        SpreadAnalysis.Result ss = SpreadAnalysis.measure(simulated, model.stimulusTimeS(), model.stimulusUm(), noise);
+        return new Comparison(measured, simulated, residual, n > 0 ? Math.sqrt(sum / n) : Double.NaN, ms, ss);
+    }
+
+    /** Standard deviation of the finite samples before the stimulus (NaN if there are fewer than two). */
+    static double baselineSd(Kymograph k, double stimulusTimeS) {
+        double sum = 0;
+        double sum2 = 0;
+        int n = 0;
+        for (int f = 0; f < k.frameCount() && k.timeS(f) < stimulusTimeS; f++) {
+            for (double v : k.row(f)) {
+                if (Double.isFinite(v)) {
+                    sum += v;
+                    sum2 += v * v;
+                    n++;
+                }
+            }
+        }
+        return n > 1 ? Math.sqrt(Math.max(0, (sum2 - sum * sum / n) / (n - 1))) : Double.NaN;
+    }
+
+    /** Measured, simulated and residual as one three-slice stack with one display range. */
+    static ImagePlus stack(Comparison c, String title) {
+        double[] all = concat(c.measured().values(), c.simulated().values(), c.residual().values());
+        double[] range = Heatmap.robustRange(all);
+        ImageStack stack = new ImageStack(c.measured().positionCount(), c.measured().frameCount());
+        String[] labels = {"measured", "simulated", "measured - simulated"};
+        Kymograph[] ks = {c.measured(), c.simulated(), c.residual()};
+        for (int i = 0; i < 3; i++) {
+            ImagePlus one = KymographImage.toImage(ks[i], labels[i]);
+            stack.addSlice(labels[i], (FloatProcessor) one.getProcessor());
+        }
+        ImagePlus image = new ImagePlus(title, stack);
+        image.setCalibration(KymographImage.calibration(c.measured()));
+        image.getProcessor().setLut(KymographImage.lut(ColourScale.SEQUENTIAL));
+        image.setDisplayRange(range[0], range[1]);
+        image.setProp(KymographImage.PROPERTY, "slices: measured, simulated, measured - simulated; one colour scale");
+        return image;
+    }
+
+    /** The numbers a user compares: residual norm, front speed and length constant of each. */
+    static ResultsTable table(Comparison c, ModelSettings model) {
+        ResultsTable t = Tables.quantities();
+        String unit = c.measured().signalUnit();
+        Tables.add(t, "measured - simulated", "RMSE", c.rmse(), unit, Double.NaN, Double.NaN, "root mean square of"
+                + " the residual over all finite samples");
+        SpreadAnalysis.Result[] results = {c.measuredSpread(), c.simulatedSpread()};
+        String[] sources = {"measured", "simulated"};
+        for (int i = 0; i < 2; i++) {
+            String why = String.join(" ", results[i].warnings());
+            Tables.add(t, sources[i], "front speed", "um/s", results[i].frontSpeed(), why);
+            Tables.add(t, sources[i], "length constant", "um", results[i].lengthConstant(), why);
+            Tables.add(t, sources[i], "decay time", "s", results[i].decayTime(), why);
+        }
+        double[] p = model.parameters();
+        String[][] labels = model.parameterLabels();
+        for (int i = 0; i < p.length; i++) {
+            Tables.add(t, model.model() + " (given)", labels[i][0], p[i], labels[i][1], Double.NaN, Double.NaN,
+                    "set in the dialog, not fitted");
+        }
+        return t;
+    }
+
+    /** Profiles along the path at four times after the stimulus: measured as points, simulated as lines. */
+    static Plot profilePlot(Comparison c, ModelSettings model) {
+        Kymograph m = c.measured();
+        Plot plot = new Plot("Profiles: measured (points) and " + model.model() + " (lines)",
+                "distance along the path (um)", "signal (" + m.signalUnit() + ")");
+        Color[] colours = {new Color(30, 90, 170), new Color(210, 90, 30), new Color(40, 150, 80),
+            new Color(150, 50, 150)};
+        int first = 0;
+        while (first < m.frameCount() - 1 && m.timeS(first) < model.stimulusTimeS()) {
+            first++;
+        }
+        int span = m.frameCount() - 1 - first;
+        List<String> legend = new ArrayList<>();
+        double[] x = m.distancesUm();
+        for (int i = 0; i < 4; i++) {
+            int f = first + (int) Math.round(span * (i + 1) / 5.0);
+            plot.setColor(colours[i]);
+            plot.add("circle", x, c.measured().row(f));
+            plot.add("line", x, c.simulated().row(f));
+            String when = String.format(Locale.ROOT, "t = %.3g s", m.timeS(f));
+            legend.add(when + " measured");
+            legend.add(when + " simulated");
+        }
+        plot.setColor(Color.BLACK);
+        plot.addLegend(String.join("\n", legend));
+        plot.setFrameSize(520, 300);
+        return plot;
+    }
+
+    static void saveKymograph(ImagePlus image, Kymograph k, Path folder) {
+        KymographCsv.write(k, folder.resolve(stem(image) + ".csv"));
+        Kymograph_Along_Line.saveTiff(image, folder.resolve(stem(image) + ".tif"));
+    }
+
+    static String stem(ImagePlus image) {
+        return image.getTitle().replaceAll("[^A-Za-z0-9._()-]", "_");
+    }
+
+    private static double[] concat(double[]... arrays) {
+        return Arrays.stream(arrays).flatMapToDouble(Arrays::stream).toArray();
+    }
+}
