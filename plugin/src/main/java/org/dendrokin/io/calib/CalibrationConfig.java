@@ -1,0 +1,297 @@
+package org.dendrokin.io.calib;
+
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.function.Supplier;
+
+import org.dendrokin.core.calib.Calibration;
+import org.dendrokin.core.calib.DynamicRange;
+import org.dendrokin.core.calib.Hill;
+import org.dendrokin.core.calib.Ratio;
+import org.dendrokin.core.calib.SaturationLimits;
+import org.dendrokin.core.calib.SingleWavelength;
+import org.dendrokin.core.calib.Standards;
+import org.dendrokin.io.InputException;
+
+import com.google.gson.JsonElement;
+import com.google.gson.JsonObject;
+
+/**
+ * Reads the {@code calibration} block of session.json. The keys of the contract, plus these of our own:
+ * <ul>
+ * <li>standard deviations for first-order error propagation: {@code kd_uM_sd}, {@code f_min_sd},
+ *     {@code f_max_sd} (single-wavelength); {@code k_half_uM_sd}, {@code n_sd}, {@code f_min_sd},
+ *     {@code f_max_sd} (hill); {@code kd_uM_sd}, {@code r_min_sd}, {@code r_max_sd}, {@code beta_sd} (ratio);
+ *     {@code kd_uM_sd}, {@code rf_sd}, {@code resting_uM_sd}, {@code n_sd} (dynamic-range);</li>
+ * <li>{@code n} for the dynamic-range method with a Hill indicator (default 1);</li>
+ * <li>ratio: {@code numerator_channel} (default 1), {@code denominator_channel} (default 2),
+ *     {@code numerator_background}, {@code denominator_background} (fixed values; default: the session's
+ *     background handling per channel);</li>
+ * <li>standards: {@code monotone} (true: monotone interpolation instead of the Hill fit), or {@code file}
+ *     instead of {@code table}: a calibration file written by {@code calibrate};</li>
+ * <li>every method: {@code flag_saturation_above} (default 0.8) and {@code reject_saturation_above}
+ *     (default 0.95), fractions of the indicator's range.</li>
+ * </ul>
+ * The method name {@code file} with key {@code file} is accepted as a synonym of standards-from-file.
+ * File names are relative to the session folder. Every problem is an {@link InputException} naming
+ * session.json (or the table or calibration file at fault) and the key.
+ */
+public final class CalibrationConfig {
+    private static final Set<String> COMMON = Set.of("method", "flag_saturation_above", "reject_saturation_above");
+    private static final Map<String, Set<String>> KEYS = Map.of(
+            "none", Set.of(),
+            "single-wavelength", Set.of("kd_uM", "f_min", "f_max", "kd_uM_sd", "f_min_sd", "f_max_sd"),
+            "dynamic-range", Set.of("kd_uM", "rf", "resting_uM", "n", "kd_uM_sd", "rf_sd", "resting_uM_sd", "n_sd"),
+            "ratio", Set.of("kd_uM", "r_min", "r_max", "beta", "kd_uM_sd", "r_min_sd", "r_max_sd", "beta_sd",
+                    "numerator_channel", "denominator_channel", "numerator_background", "denominator_background"),
+            "hill", Set.of("k_half_uM", "n", "f_min", "f_max", "k_half_uM_sd", "n_sd", "f_min_sd", "f_max_sd"),
+            "standards", Set.of("table", "monotone", "file"),
+            "file", Set.of("file"));
+
+    private CalibrationConfig() {
+    }
+
+    /**
+     * @param block       the {@code calibration} object of session.json, or null for {@code none}
+     * @param sessionFile the session.json file, for messages; its folder resolves file names
+     */
+    public static CalibrationSetup parse(JsonObject block, Path sessionFile) {
+        if (block == null) {
+            return CalibrationSetup.NONE;
+        }
+        Keys k = new Keys(sessionFile, block);
+        String method = k.string("method", true);
+        if (!KEYS.containsKey(method)) {
+            throw k.bad("method", "must be one of none, single-wavelength, dynamic-range, ratio, hill, standards");
+        }
+        List<String> warnings = new ArrayList<>();
+        for (String key : block.keySet()) {
+            if (!COMMON.contains(key) && !KEYS.get(method).contains(key)) {
+                warnings.add(String.format(Locale.ROOT, "%s: key \"calibration.%s\" is not used by the %s method "
+                        + "and was ignored.", sessionFile.getFileName(), key, method));
+            }
+        }
+        double flag = k.fraction("flag_saturation_above", SaturationLimits.DEFAULT.flagAbove());
+        double reject = k.fraction("reject_saturation_above", Math.max(flag, SaturationLimits.DEFAULT.rejectAbove()));
+        SaturationLimits limits = k.build(() -> new SaturationLimits(flag, reject));
+        Path dir = sessionFile.toAbsolutePath().getParent();
+        switch (method) {
+            case "none":
+                return new CalibrationSetup(CalibrationSetup.NONE.calibration(), limits, null, null, warnings);
+            case "single-wavelength": {
+                double kd = k.positive("kd_uM");
+                double fMin = k.number("f_min");
+                double fMax = k.number("f_max");
+                k.greater("f_max", fMax, "f_min", fMin);
+                Calibration c = k.build(() -> new SingleWavelength(kd, fMin, fMax, k.sd("kd_uM_sd"), k.sd("f_min_sd"),
+                        k.sd("f_max_sd")));
+                return new CalibrationSetup(c, limits, null, null, warnings);
+            }
+            case "hill": {
+                double kh = k.positive("k_half_uM");
+                double n = k.positive("n");
+                double fMin = k.number("f_min");
+                double fMax = k.number("f_max");
+                k.greater("f_max", fMax, "f_min", fMin);
+                Calibration c = k.build(() -> new Hill(kh, n, fMin, fMax, k.sd("k_half_uM_sd"), k.sd("n_sd"),
+                        k.sd("f_min_sd"), k.sd("f_max_sd")));
+                return new CalibrationSetup(c, limits, null, null, warnings);
+            }
+            case "ratio": {
+                double kd = k.positive("kd_uM");
+                double rMin = k.nonNegative("r_min");
+                double rMax = k.number("r_max");
+                k.greater("r_max", rMax, "r_min", rMin);
+                double beta = k.positive("beta");
+                Calibration c = k.build(() -> new Ratio(kd, rMin, rMax, beta, k.sd("kd_uM_sd"), k.sd("r_min_sd"),
+                        k.sd("r_max_sd"), k.sd("beta_sd")));
+                int num = k.channel("numerator_channel", 1);
+                int den = k.channel("denominator_channel", 2);
+                if (num == den) {
+                    throw k.bad("denominator_channel", "must differ from calibration.numerator_channel (" + num + ")");
+                }
+                CalibrationSetup.RatioChannels ch = new CalibrationSetup.RatioChannels(num, den,
+                        k.optional("numerator_background"), k.optional("denominator_background"));
+                return new CalibrationSetup(c, limits, null, ch, warnings);
+            }
+            case "dynamic-range": {
+                double kd = k.positive("kd_uM");
+                double rf = k.number("rf");
+                if (!(rf > 1)) {
+                    throw k.bad("rf", "must be greater than 1, since it is Fmax/Fmin and Fmax must exceed Fmin");
+                }
+                double c0 = k.positive("resting_uM");
+                Double n = k.optional("n");
+                if (n != null && !(n > 0)) {
+                    throw k.bad("n", "must be a positive number");
+                }
+                Calibration c = k.build(() -> new DynamicRange(kd, rf, c0, n == null ? 1.0 : n, k.sd("kd_uM_sd"),
+                        k.sd("rf_sd"), k.sd("resting_uM_sd"), k.sd("n_sd")));
+                return new CalibrationSetup(c, limits, null, null, warnings);
+            }
+            default:
+                return standards(k, method, dir, limits, warnings);
+        }
+    }
+
+    private static CalibrationSetup standards(Keys k, String method, Path dir, SaturationLimits limits,
+                                              List<String> warnings) {
+        String fileName = k.string("file", false);
+        String tableName = method.equals("standards") ? k.string("table", false) : null;
+        if (fileName != null && tableName != null) {
+            throw k.bad("file", "cannot be given together with calibration.table; give one of them");
+        }
+        if (fileName != null) {
+            Calibration c = CalibrationFile.read(dir.resolve(fileName));
+            return new CalibrationSetup(c, limits, fileName, null, warnings);
+        }
+        if (tableName == null) {
+            throw k.bad(method.equals("file") ? "file" : "table", method.equals("file")
+                    ? "must name a calibration file written by the calibrate command"
+                    : "must name a CSV of standards (concentration_uM,intensity), or give \"file\" with a "
+                    + "calibration file written by the calibrate command");
+        }
+        Path table = dir.resolve(tableName);
+        Standards standards = StandardsCsv.read(table);
+        boolean monotone = k.bool("monotone");
+        CalibrationBuilder.Built built = CalibrationBuilder.fromStandards(standards, monotone, table, tableName,
+                monotone ? "calibration.monotone in " + k.fileName() : null);
+        warnings.addAll(built.warnings());
+        Calibration c = built.calibration();
+        return new CalibrationSetup(c, limits, tableName, null, warnings);
+    }
+
+    /** Typed access to the block, naming session.json and the key in every complaint. */
+    static final class Keys {
+        private final Path file;
+        private final JsonObject block;
+
+        Keys(Path file, JsonObject block) {
+            this.file = file;
+            this.block = block;
+        }
+
+        String fileName() {
+            return String.valueOf(file.getFileName());
+        }
+
+        InputException bad(String key, String requirement) {
+            JsonElement got = block.get(key);
+            return new InputException(file, "key \"calibration." + key + "\" " + requirement
+                    + (got == null ? " (it is missing)" : ", got " + got));
+        }
+
+        private boolean present(String key) {
+            return block.has(key) && !block.get(key).isJsonNull();
+        }
+
+        Double optional(String key) {
+            if (!present(key)) {
+                return null;
+            }
+            JsonElement e = block.get(key);
+            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isNumber() || !Double.isFinite(e.getAsDouble())) {
+                throw bad(key, "must be a number");
+            }
+            return e.getAsDouble();
+        }
+
+        double number(String key) {
+            Double v = optional(key);
+            if (v == null) {
+                throw bad(key, "is needed by this calibration method");
+            }
+            return v;
+        }
+
+        double positive(String key) {
+            double v = number(key);
+            if (!(v > 0)) {
+                throw bad(key, "must be a positive number");
+            }
+            return v;
+        }
+
+        double nonNegative(String key) {
+            double v = number(key);
+            if (!(v >= 0)) {
+                throw bad(key, "must be zero or a positive number");
+            }
+            return v;
+        }
+
+        double sd(String key) {
+            Double v = optional(key);
+            if (v != null && !(v >= 0)) {
+                throw bad(key, "must be zero or a positive number (a standard deviation)");
+            }
+            return v == null ? 0 : v;
+        }
+
+        double fraction(String key, double fallback) {
+            Double v = optional(key);
+            if (v == null) {
+                return fallback;
+            }
+            if (!(v > 0 && v <= 1)) {
+                throw bad(key, "must be a fraction of the indicator's range, above 0 and at most 1");
+            }
+            return v;
+        }
+
+        int channel(String key, int fallback) {
+            Double v = optional(key);
+            if (v == null) {
+                return fallback;
+            }
+            if (v < 1 || v != Math.rint(v)) {
+                throw bad(key, "must be a channel number counted from 1");
+            }
+            return (int) Math.round(v);
+        }
+
+        void greater(String bigKey, double big, String smallKey, double small) {
+            if (!(big > small)) {
+                throw bad(bigKey, String.format(Locale.ROOT, "must be greater than calibration.%s (%s)", smallKey,
+                        block.get(smallKey)));
+            }
+        }
+
+        String string(String key, boolean required) {
+            if (!present(key)) {
+                if (required) {
+                    throw bad(key, "is needed");
+                }
+                return null;
+            }
+            JsonElement e = block.get(key);
+            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isString() || e.getAsString().isBlank()) {
+                throw bad(key, "must be text in quotes");
+            }
+            return e.getAsString();
+        }
+
+        boolean bool(String key) {
+            if (!present(key)) {
+                return false;
+            }
+            JsonElement e = block.get(key);
+            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
+                throw bad(key, "must be true or false");
+            }
+            return e.getAsBoolean();
+        }
+
+        <T> T build(Supplier<T> maker) {
+            try {
+                return maker.get();
+            } catch (IllegalArgumentException e) {
+                throw new InputException(file, "in the calibration block, " + e.getMessage(), e);
+            }
+        }
+    }
+}
