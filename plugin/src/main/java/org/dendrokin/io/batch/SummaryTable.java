@@ -1,0 +1,272 @@
+package org.dendrokin.io.batch;
+
+import java.io.IOException;
+import java.io.OutputStreamWriter;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.stream.Collectors;
+
+import com.google.gson.JsonElement;
+import com.google.gson.JsonObject;
+import com.google.gson.JsonParser;
+
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVPrinter;
+import org.dendrokin.io.AtomicFiles;
+
+/**
+ * The table of a batch, one row a session, built from each session's batch.json and results.json. Columns
+ * appear for whatever results.json holds: every {@code spread} quantity and every fitted model's
+ * parameters, each with its 95% interval, the unit in the column name (e.g. {@code diffusion-decay D
+ * [um^2/s]}). Numbers are copied as results.json wrote them.
+ */
+public final class SummaryTable {
+    static final String[] SPREAD_ORDER = {"front_speed", "length_constant", "decay_time"};
+
+    private final List<String> columns = new ArrayList<>();
+    private final List<Map<String, String>> rows = new ArrayList<>();
+    private final List<Quantity> quantities = new ArrayList<>();
+    private final List<SessionEntry> entries = new ArrayList<>();
+
+    /**
+     * One quantity measured in many sessions, e.g. a fitted D of one model.
+     *
+     * @param label  e.g. {@code diffusion-decay D} or {@code front_speed}
+     * @param unit   e.g. {@code um^2/s}; "" if none was given
+     * @param values value by session id, sessions that succeeded (and whose fit converged) only
+     */
+    public record Quantity(String label, String unit, Map<String, Double> values) {
+        /** The label with its unit, for axes and headers. */
+        public String title() {
+            return unit.isEmpty() ? label : label + " (" + unit + ")";
+        }
+    }
+
+    /**
+     * One session as the report shows it.
+     *
+     * @param id      session id
+     * @param key     folder name under {@code sessions/}
+     * @param record  its batch.json, or null when the session has no complete result
+     * @param results its results.json, or null
+     */
+    public record SessionEntry(String id, String key, SessionRecord record, JsonObject results) {
+        public String group() {
+            return record == null ? "" : record.group();
+        }
+
+        public String status() {
+            return record == null ? "missing" : record.status();
+        }
+    }
+
+    /** Reads the results of {@code ids} under {@code out/sessions}. */
+    public static SummaryTable read(Path out, List<String> ids) {
+        SummaryTable t = new SummaryTable();
+        Map<String, Map<String, String>> cells = new LinkedHashMap<>();
+        List<String> spreadNames = new ArrayList<>(List.of(SPREAD_ORDER));
+        Map<String, List<String>> modelParams = new LinkedHashMap<>();
+        Map<String, String> units = new LinkedHashMap<>();
+        Map<String, Map<String, Double>> values = new LinkedHashMap<>();
+        for (String id : ids.stream().sorted().toList()) {
+            String key = new SessionFolder(id, out).key();
+            Path dir = out.resolve("sessions").resolve(key);
+            SessionRecord record = SessionRecord.read(dir);
+            JsonObject results = record != null && record.ok() ? readJson(dir.resolve("results.json")) : null;
+            t.entries.add(new SessionEntry(id, key, record, results));
+            Map<String, String> row = new LinkedHashMap<>();
+            row.put("session", id);
+            row.put("group", record == null ? "" : record.group());
+            row.put("status", record == null ? "missing" : record.status());
+            row.put("error", record == null ? "no complete result for this session" : record.error());
+            if (results != null) {
+                row.put("best_model", text(results.get("best_model")));
+                row.put("signal_unit", text(results.get("signal_unit")));
+                JsonObject spread = object(results.get("spread"));
+                if (spread != null) {
+                    for (Map.Entry<String, JsonElement> e : spread.entrySet()) {
+                        if (!spreadNames.contains(e.getKey())) {
+                            spreadNames.add(e.getKey());
+                        }
+                        estimate(row, "spread:" + e.getKey(), object(e.getValue()), units, values, id);
+                    }
+                }
+                if (results.get("fits") != null && results.get("fits").isJsonArray()) {
+                    for (JsonElement f : results.get("fits").getAsJsonArray()) {
+                        JsonObject fit = object(f);
+                        if (fit == null || text(fit.get("model")).isEmpty()) {
+                            continue;
+                        }
+                        String model = text(fit.get("model"));
+                        List<String> params = modelParams.computeIfAbsent(model, m -> new ArrayList<>());
+                        boolean converged = !fit.has("converged") || "true".equals(text(fit.get("converged")));
+                        for (String k : new String[] {"converged", "aic", "bic", "rmse"}) {
+                            row.put("fit:" + model + ":" + k, text(fit.get(k)));
+                        }
+                        JsonObject ps = object(fit.get("parameters"));
+                        if (ps != null) {
+                            for (Map.Entry<String, JsonElement> p : ps.entrySet()) {
+                                if (!params.contains(p.getKey())) {
+                                    params.add(p.getKey());
+                                }
+                                estimate(row, "param:" + model + ":" + p.getKey(), object(p.getValue()), units,
+                                        converged ? values : new LinkedHashMap<>(), id);
+                            }
+                        }
+                    }
+                }
+                JsonElement w = results.get("warnings");
+                row.put("warnings", String.valueOf(w != null && w.isJsonArray() ? w.getAsJsonArray().size() : 0));
+            }
+            row.put("tool_version", record == null ? "" : record.toolVersion());
+            row.put("settings_sha256", record == null ? "" : record.settingsSha256());
+            row.put("inputs_sha256", record == null ? "" : record.inputs().entrySet().stream()
+                    .map(e -> e.getKey() + "=" + e.getValue()).collect(Collectors.joining("; ")));
+            cells.put(id, row);
+        }
+        List<String[]> order = new ArrayList<>();
+        order.add(new String[] {"session", "session"});
+        order.add(new String[] {"group", "group"});
+        order.add(new String[] {"status", "status"});
+        order.add(new String[] {"error", "error"});
+        order.add(new String[] {"best_model", "best_model"});
+        for (String s : spreadNames) {
+            addEstimateColumns(order, "spread:" + s, s, units);
+        }
+        for (Map.Entry<String, List<String>> m : modelParams.entrySet()) {
+            for (String k : new String[] {"converged", "aic", "bic", "rmse"}) {
+                order.add(new String[] {"fit:" + m.getKey() + ":" + k, m.getKey() + " " + k});
+            }
+            for (String p : m.getValue()) {
+                addEstimateColumns(order, "param:" + m.getKey() + ":" + p, m.getKey() + " " + p, units);
+            }
+        }
+        for (String c : new String[] {"warnings", "signal_unit", "tool_version", "settings_sha256", "inputs_sha256"}) {
+            order.add(new String[] {c, c});
+        }
+        for (String[] c : order) {
+            t.columns.add(c[1]);
+        }
+        for (Map<String, String> row : cells.values()) {
+            Map<String, String> named = new LinkedHashMap<>();
+            for (String[] c : order) {
+                named.put(c[1], row.getOrDefault(c[0], ""));
+            }
+            t.rows.add(named);
+        }
+        for (String s : spreadNames) {
+            addQuantity(t, "spread:" + s, s, units, values);
+        }
+        for (Map.Entry<String, List<String>> m : modelParams.entrySet()) {
+            for (String p : m.getValue()) {
+                addQuantity(t, "param:" + m.getKey() + ":" + p, m.getKey() + " " + p, units, values);
+            }
+        }
+        return t;
+    }
+
+    private static void addQuantity(SummaryTable t, String key, String label, Map<String, String> units,
+                                    Map<String, Map<String, Double>> values) {
+        Map<String, Double> v = values.get(key);
+        if (v != null && !v.isEmpty()) {
+            t.quantities.add(new Quantity(label, units.getOrDefault(key, ""), v));
+        }
+    }
+
+    private static void addEstimateColumns(List<String[]> order, String key, String label, Map<String, String> units) {
+        String unit = units.getOrDefault(key, "");
+        String suffix = unit.isEmpty() ? "" : " [" + unit + "]";
+        order.add(new String[] {key, label + suffix});
+        order.add(new String[] {key + ":lo", label + " ci95 low" + suffix});
+        order.add(new String[] {key + ":hi", label + " ci95 high" + suffix});
+    }
+
+    private static void estimate(Map<String, String> row, String key, JsonObject e, Map<String, String> units,
+                                 Map<String, Map<String, Double>> values, String id) {
+        if (e == null) {
+            return;
+        }
+        String unit = text(e.get("unit"));
+        if (!unit.isEmpty()) {
+            units.putIfAbsent(key, unit);
+        }
+        String v = text(e.get("value"));
+        row.put(key, v);
+        JsonElement ci = e.get("ci95");
+        if (ci != null && ci.isJsonArray() && ci.getAsJsonArray().size() == 2) {
+            row.put(key + ":lo", text(ci.getAsJsonArray().get(0)));
+            row.put(key + ":hi", text(ci.getAsJsonArray().get(1)));
+        }
+        try {
+            double d = Double.parseDouble(v);
+            if (Double.isFinite(d)) {
+                values.computeIfAbsent(key, k -> new LinkedHashMap<>()).put(id, d);
+            }
+        } catch (NumberFormatException ignored) {
+            // a missing or non-numeric value stays out of the distributions
+        }
+    }
+
+    public List<String> columns() {
+        return List.copyOf(columns);
+    }
+
+    /** Rows in session id order; every row has every column (empty text where there is nothing). */
+    public List<Map<String, String>> rows() {
+        return rows.stream().map(Map::copyOf).toList();
+    }
+
+    public List<Quantity> quantities() {
+        return List.copyOf(quantities);
+    }
+
+    public List<SessionEntry> entries() {
+        return List.copyOf(entries);
+    }
+
+    /** Writes the table as CSV (RFC 4180, UTF-8, header line first). */
+    public void writeCsv(Path target) {
+        AtomicFiles.write(target, out -> {
+            Writer w = new OutputStreamWriter(out, StandardCharsets.UTF_8);
+            try (CSVPrinter csv = new CSVPrinter(w, CSVFormat.DEFAULT.builder().setRecordSeparator('\n').get())) {
+                csv.printRecord(columns);
+                for (Map<String, String> row : rows) {
+                    List<String> line = new ArrayList<>();
+                    for (String c : columns) {
+                        line.add(row.get(c));
+                    }
+                    csv.printRecord(line);
+                }
+            }
+        });
+    }
+
+    static JsonObject readJson(Path f) {
+        if (!Files.isRegularFile(f)) {
+            return null;
+        }
+        try {
+            JsonElement e = JsonParser.parseString(Files.readString(f, StandardCharsets.UTF_8));
+            return e.isJsonObject() ? e.getAsJsonObject() : null;
+        } catch (IOException | RuntimeException e) {
+            return null;
+        }
+    }
+
+    private static JsonObject object(JsonElement e) {
+        return e != null && e.isJsonObject() ? e.getAsJsonObject() : null;
+    }
+
+    private static String text(JsonElement e) {
+        if (e == null || e.isJsonNull()) {
+            return "";
+        }
+        return e.isJsonPrimitive() ? e.getAsString() : e.toString();
+    }
+}
