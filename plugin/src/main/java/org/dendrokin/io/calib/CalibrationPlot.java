@@ -74,7 +74,7 @@ public final class CalibrationPlot {
                 high[i] = y[i] + t * sd;
             }
         }
-        LinePlot plot = new LinePlot(title, "concentration, log10 of uM (1 uM at 0, 0.1 uM at -1)",
+        LinePlot plot = new LinePlot(title, "log10 of concentration in uM (-1 is 0.1 uM, 0 is 1 uM, 1 is 10 uM)",
                 "intensity (background subtracted)");
         if (hill != null && Double.isFinite(t)) {
             plot.band("95% confidence band of the curve", x, low, high);
@@ -87,6 +87,21 @@ public final class CalibrationPlot {
                     new double[] {xLo, xHi}, new double[] {mean, mean});
         }
         plot.xRange(xLo, xHi);
+        double yMin = Double.POSITIVE_INFINITY;
+        double yMax = Double.NEGATIVE_INFINITY;
+        for (double[] arr : new double[][] {py, y, zeros > 0 ? new double[] {zeroSum / zeros} : new double[0]}) {
+            for (double v : arr) {
+                if (Double.isFinite(v)) {
+                    yMin = Math.min(yMin, v);
+                    yMax = Math.max(yMax, v);
+                }
+            }
+        }
+        if (yMax > yMin) {
+            // room above the data for the legend, which sits in the top right corner
+            double span = yMax - yMin;
+            plot.yRange(Math.min(0, yMin - 0.05 * span), yMax + 0.4 * span);
+        }
         return plot.render(900, 560);
     }
 
