@@ -9,6 +9,7 @@ import ij.gui.Roi;
 
 import org.dendrokin.core.path.DendritePath;
 import org.dendrokin.core.path.ResampledPath;
+import org.dendrokin.io.path.PathFiles;
 
 /**
  * Shows on the image the band that a kymograph averages: the path and the two edges of the band, half the
@@ -59,11 +60,12 @@ final class BandOutline {
         float[][] left = new float[2][x.length];
         float[][] right = new float[2][x.length];
         double half = Math.max(bandWidthPx, 1) / 2;
+        double s = PathFiles.LINE_ROI_SHIFT;  // back to ImageJ's line coordinates
         for (int i = 0; i < x.length; i++) {
-            left[0][i] = (float) (x[i] + half * nx[i]);
-            left[1][i] = (float) (y[i] + half * ny[i]);
-            right[0][i] = (float) (x[i] - half * nx[i]);
-            right[1][i] = (float) (y[i] - half * ny[i]);
+            left[0][i] = (float) (x[i] + half * nx[i] - s);
+            left[1][i] = (float) (y[i] + half * ny[i] - s);
+            right[0][i] = (float) (x[i] - half * nx[i] - s);
+            right[1][i] = (float) (y[i] - half * ny[i] - s);
         }
         Roi[] rois = {
             new PolygonRoi(left[0], left[1], Roi.POLYLINE), new PolygonRoi(right[0], right[1], Roi.POLYLINE)};

@@ -10,11 +10,12 @@ import ij.plugin.frame.RoiManager;
 import ij.process.FloatPolygon;
 
 import org.dendrokin.core.path.DendritePath;
+import org.dendrokin.io.path.PathFiles;
 
 /**
  * A line drawn in ImageJ (straight, segmented or freehand) as a dendrite path, with its line width, which
- * is offered as the width of the band averaged across the path. Coordinates are ImageJ's own, which are
- * also the coordinates our paths use (pixel i covers [i, i+1)).
+ * is offered as the width of the band averaged across the path. Coordinates are converted to our path
+ * convention (pixel i covers [i, i+1)) exactly as for ROI files ({@link PathFiles}).
  *
  * @param name    the ROI's name, or "selection" for an unnamed current selection
  * @param roi     the ImageJ ROI it came from
@@ -70,17 +71,21 @@ public record LineSelection(String name, Roi roi, double widthPx) {
         return t == Roi.LINE || t == Roi.POLYLINE || t == Roi.FREELINE;
     }
 
-    /** The vertices in ImageJ pixel coordinates: {x[], y[]}. */
+    /**
+     * The vertices in our path coordinates (pixel i covers [i, i+1)): {x[], y[]}. ImageJ samples line ROIs with
+     * pixel centres at whole numbers, so {@link PathFiles#LINE_ROI_SHIFT} is added, as for ROI files.
+     */
     public double[][] vertices() {
+        double s = PathFiles.LINE_ROI_SHIFT;
         if (roi instanceof Line line) {
-            return new double[][] {{line.x1d, line.x2d}, {line.y1d, line.y2d}};
+            return new double[][] {{line.x1d + s, line.x2d + s}, {line.y1d + s, line.y2d + s}};
         }
         FloatPolygon p = roi.getFloatPolygon();
         double[] x = new double[p.npoints];
         double[] y = new double[p.npoints];
         for (int i = 0; i < p.npoints; i++) {
-            x[i] = p.xpoints[i];
-            y[i] = p.ypoints[i];
+            x[i] = p.xpoints[i] + s;
+            y[i] = p.ypoints[i] + s;
         }
         return new double[][] {x, y};
     }
