@@ -59,7 +59,7 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
 
     private static final Set<String> KEYS = Set.of("movie", "path", "path_roi_name", "path_width_um", "pixel_size_um",
             "frame_interval_s", "stimulus", "baseline_frames", "background", "calibration", "models",
-            "bleach_correction", "description", "notes");
+            "bleach_correction", "description", "notes", "group");
     private static final Pattern LINE = Pattern.compile("line (\\d+)");
 
     public SessionConfig {
