@@ -76,7 +76,7 @@ public final class BatchReport {
             Map<String, List<Double>> byGroup = new TreeMap<>();
             q.values().forEach((id, v) -> byGroup.computeIfAbsent(groupOf.getOrDefault(id, NO_GROUP),
                     g -> new ArrayList<>()).add(v));
-            StripPlot plot = new StripPlot(q.title(), q.title());
+            StripPlot plot = new StripPlot(q.label() + ", one value per session", q.title());
             html.append("<h3>").append(esc(q.title())).append("</h3>\n");
             html.append("<table><tr><th>group</th><th>n</th><th>mean</th><th>SD</th><th>median</th>")
                     .append("<th>95% interval of the mean</th></tr>\n");

@@ -1,0 +1,80 @@
+package org.dendrokin.io.batch;
+
+import java.io.IOException;
+import java.lang.management.ManagementFactory;
+import java.lang.management.MemoryPoolMXBean;
+import java.lang.management.MemoryType;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.Locale;
+
+import org.dendrokin.core.Progress;
+
+/**
+ * Benchmark (run by hand, not a test): analyses every session under STUDY once per thread count, each time
+ * into a fresh output folder with every session forced, after one warm-up pass, and prints wall time,
+ * sessions per second, the peak Java heap (sum of the heap pools' peaks, reset before each pass) and the
+ * process's peak resident memory so far (VmHWM).
+ *
+ * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.batch.BatchBenchmark STUDY OUT_BASE THREADS...}
+ */
+public final class BatchBenchmark {
+    private BatchBenchmark() {
+    }
+
+    public static void main(String[] args) throws IOException {
+        if (args.length < 3) {
+            System.err.println("usage: BatchBenchmark STUDY OUT_BASE THREADS...");
+            System.exit(2);
+        }
+        Path study = Path.of(args[0]);
+        Path base = Path.of(args[1]);
+        int sessions = SessionFolder.discover(study, base).size();
+        System.out.printf(Locale.ROOT, "%d sessions under %s; %d processors; max heap %d MB%n", sessions, study,
+                Runtime.getRuntime().availableProcessors(), Runtime.getRuntime().maxMemory() >> 20);
+        boolean warm = args.length > 3 && !"--no-warm-up".equals(args[args.length - 1]);
+        int last = "--no-warm-up".equals(args[args.length - 1]) ? args.length - 1 : args.length;
+        if (warm) {
+            pass(study, base.resolve("warm-up"), Integer.parseInt(args[2]), sessions, "warm-up");
+        }
+        for (int i = 2; i < last; i++) {
+            int threads = Integer.parseInt(args[i]);
+            pass(study, base.resolve("threads-" + threads), threads, sessions, threads + " thread(s)");
+        }
+    }
+
+    private static void pass(Path study, Path out, int threads, int sessions, String label) throws IOException {
+        BatchRunner.deleteTree(out);
+        Files.createDirectories(out);
+        System.gc();
+        for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
+            pool.resetPeakUsage();
+        }
+        long t0 = System.nanoTime();
+        BatchOutcome o = BatchRunner.run(BatchOptions.of(study, out, threads).withForce(true),
+                SessionAnalyzers.standard(), Progress.NONE, s -> { });
+        double seconds = (System.nanoTime() - t0) * 1e-9;
+        long peak = 0;
+        for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
+            if (pool.getType() == MemoryType.HEAP && pool.getPeakUsage() != null) {
+                peak += pool.getPeakUsage().getUsed();
+            }
+        }
+        System.out.printf(Locale.ROOT, "%-12s %d analysed, %d failed: %.2f s, %.2f sessions/s, peak heap %d MB, "
+                        + "peak RSS so far %s%n", label, o.analysed(), o.failed(), seconds, sessions / seconds,
+                peak >> 20, vmHwm());
+    }
+
+    private static String vmHwm() {
+        try {
+            for (String line : Files.readAllLines(Path.of("/proc/self/status"))) {
+                if (line.startsWith("VmHWM:")) {
+                    return line.substring(6).trim();
+                }
+            }
+        } catch (IOException | RuntimeException e) {
+            return "n/a";
+        }
+        return "n/a";
+    }
+}
