@@ -1,16 +1,117 @@
 package org.dendrokin.cli;
 
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.PrintStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.util.Locale;
 import java.util.concurrent.Callable;
 
+import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.SessionRunner;
+import org.dendrokin.io.session.ReportHtml;
 
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
 
-/** The {@code demo} command; filled in by its own issue. */
-@Command(name = "demo", mixinStandardHelpOptions = true, description = "Not yet available.")
+/**
+ * {@code demo [--out OUT_DIR]}: analyses the demo session shipped in {@code test-images/demo-session} (looked for
+ * under the working directory, else the copy inside the jar, unpacked to a temporary folder) and prints where
+ * the report is.
+ */
+@Command(name = "demo", mixinStandardHelpOptions = true,
+        description = "Analyse the demo session shipped with Dendrokin and print where the report is.")
 final class DemoCommand implements Callable<Integer> {
+    static final String DEMO_DIR = "test-images/demo-session";
+    static final String DEMO_RESOURCE = "/org/dendrokin/demo-session/";
+    static final String[] DEMO_FILES = {"session.json", "dendrite.tif", "dendrite.roi"};
+
+    @Option(names = "--out", paramLabel = "OUT_DIR", defaultValue = "dendrokin-demo",
+            description = "Output folder (default: ${DEFAULT-VALUE}), created if missing.")
+    Path outDir;
+
+    @Spec
+    CommandSpec spec;
+
     @Override
-    public Integer call() {
-        throw new InputException(null, "the demo command is not available in this build yet");
+    public Integer call() throws IOException {
+        Path local = Path.of(DEMO_DIR);
+        Path session;
+        Path temp = null;
+        if (Files.isRegularFile(local.resolve("session.json"))) {
+            session = local;
+        } else {
+            temp = Files.createTempDirectory("dendrokin-demo-session");
+            session = temp.resolve("demo-session");
+            unpack(session);
+        }
+        try {
+            SessionRunner.Result result = run(session, outDir, System.err);
+            spec.commandLine().getOut().println(summary(result));
+        } finally {
+            if (temp != null) {
+                deleteTree(temp);
+            }
+        }
+        return Main.OK;
+    }
+
+    /** Runs one analysis with a progress line on {@code err}. */
+    static SessionRunner.Result run(Path session, Path out, PrintStream err) {
+        TerminalProgress progress = new TerminalProgress(err);
+        try {
+            return SessionRunner.analyze(session, out, progress);
+        } finally {
+            progress.finish();
+        }
+    }
+
+    /** What the terminal shows after an analysis. */
+    static String summary(SessionRunner.Result r) {
+        StringBuilder b = new StringBuilder();
+        b.append("Analysed session ").append(r.session()).append('\n');
+        b.append(line("front speed", r.spread() == null ? null : r.spread().frontSpeed()));
+        b.append(line("length constant", r.spread() == null ? null : r.spread().lengthConstant()));
+        b.append(line("decay time", r.spread() == null ? null : r.spread().decayTime()));
+        b.append(line("apparent D", r.spread() == null ? null : r.spread().apparentD()));
+        if (!r.warnings().isEmpty()) {
+            b.append(String.format(Locale.ROOT, "  %d warning(s); see the report.%n", r.warnings().size()));
+        }
+        b.append("Report: ").append(r.report().toAbsolutePath().normalize());
+        return b.toString();
+    }
+
+    private static String line(String name, Estimate e) {
+        if (e == null) {
+            return String.format(Locale.ROOT, "  %-16s not available%n", name);
+        }
+        return String.format(Locale.ROOT, "  %-16s %s %s (95%% interval %s to %s)%n", name,
+                ReportHtml.number(e.value()), e.unit(), ReportHtml.number(e.lo95()), ReportHtml.number(e.hi95()));
+    }
+
+    private static void unpack(Path dir) throws IOException {
+        Files.createDirectories(dir);
+        for (String name : DEMO_FILES) {
+            try (InputStream in = DemoCommand.class.getResourceAsStream(DEMO_RESOURCE + name)) {
+                if (in == null) {
+                    throw new InputException(null, "the demo session is missing from this build (" + name
+                            + "); run the command from the repository's root folder");
+                }
+                Files.copy(in, dir.resolve(name), StandardCopyOption.REPLACE_EXISTING);
+            }
+        }
+    }
+
+    private static void deleteTree(Path root) throws IOException {
+        try (var walk = Files.walk(root)) {
+            for (Path p : walk.sorted(java.util.Comparator.reverseOrder()).toList()) {
+                Files.deleteIfExists(p);
+            }
+        }
     }
 }

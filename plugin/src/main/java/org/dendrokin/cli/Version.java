@@ -1,8 +1,6 @@
 package org.dendrokin.cli;
 
-import java.io.IOException;
-import java.io.InputStream;
-import java.util.Properties;
+import org.dendrokin.io.ToolVersion;
 
 import picocli.CommandLine;
 
@@ -12,16 +10,7 @@ public final class Version {
     }
 
     public static String get() {
-        try (InputStream in = Version.class.getResourceAsStream("/org/dendrokin/version.properties")) {
-            if (in == null) {
-                return "unknown";
-            }
-            Properties p = new Properties();
-            p.load(in);
-            return p.getProperty("version", "unknown");
-        } catch (IOException e) {
-            return "unknown";
-        }
+        return ToolVersion.get();
     }
 
     /** Supplies {@code --version} to picocli. */

@@ -56,12 +56,14 @@ public final class SpreadAnalysis {
      * @param integratedFit    fitted decay curve at those times (NaN where not fitted)
      * @param variance         spatial variance of the profile at those times, um^2 (NaN outside the window)
      * @param varianceWindowS  {first, last} time after the stimulus used for the apparent D, s, or null
+     * @param lines            for drawing the fitted lines: {front intercept (um at arrival 0), peak amplitude at
+     *                         distance 0 (signal unit), variance intercept (um^2 at time 0)}; NaN where not fitted
      * @param warnings         plain sentences
      */
     public record Result(Estimate frontSpeed, Estimate lengthConstant, Estimate decayTime, Estimate apparentD,
             double[] arrivalDistanceUm, double[] arrivalTimeS, double[] peakDistanceUm, double[] peakAmplitude,
             double[] timesS, double[] integrated, double[] integratedFit, double[] variance, double[] varianceWindowS,
-            List<String> warnings) {
+            double[] lines, List<String> warnings) {
     }
 
     /**
@@ -94,7 +96,7 @@ public final class SpreadAnalysis {
                     + "measure the spread.", after, nx));
             double[] nan = nanArray(relTimes.length);
             return new Result(null, null, null, null, empty, empty, empty, empty, relTimes, nan, nan, nan, null,
-                    warnings);
+                    nanArray(3), warnings);
         }
         double noise = Double.isFinite(noiseSd) && noiseSd > 0 ? noiseSd : 0;
 
@@ -149,10 +151,12 @@ public final class SpreadAnalysis {
             warnings.add("No response stands out from the noise after the stimulus; the spread measures are not "
                     + "available.");
             double[] nan = nanArray(relTimes.length);
-            return new Result(null, null, null, null, arrD, arrT, pkD, pkA, relTimes, nan, nan, nan, null, warnings);
+            return new Result(null, null, null, null, arrD, arrT, pkD, pkA, relTimes, nan, nan, nan, null, nanArray(3),
+                    warnings);
         }
 
-        Estimate speed = frontSpeed(arrD, arrT, dx, warnings);
+        double[] lines = nanArray(3);
+        Estimate speed = frontSpeed(arrD, arrT, dx, lines, warnings);
         if (speed != null && (responds[0] || responds[nx - 1])) {
             double reach = 0;
             for (double d : arrD) {
@@ -165,7 +169,7 @@ public final class SpreadAnalysis {
             warnings.add(String.format(Locale.ROOT, "The front was followed at only %d positions; its speed is "
                     + "uncertain and may be biased by the stimulated site itself.", arrD.length));
         }
-        Estimate lambda = lengthConstant(pkD, pkA, warnings);
+        Estimate lambda = lengthConstant(pkD, pkA, lines, warnings);
 
         // Integrated signal and its decay.
         double[] integrated = new double[after];
@@ -188,12 +192,13 @@ public final class SpreadAnalysis {
 
         double[] variance = nanArray(after);
         double[] window = new double[2];
-        Estimate d = apparentD(signal, first, stimulusPositionUm, noise, variance, relTimes, window, warnings);
+        Estimate d = apparentD(signal, first, stimulusPositionUm, noise, variance, relTimes, window, lines, warnings);
         return new Result(speed, lambda, decay, d, arrD, arrT, pkD, pkA, relTimes, integrated, integratedFit, variance,
-                d == null ? null : window, warnings);
+                d == null ? null : window, lines, warnings);
     }
 
-    private static Estimate frontSpeed(double[] distance, double[] arrival, double dx, List<String> warnings) {
+    private static Estimate frontSpeed(double[] distance, double[] arrival, double dx, double[] lines,
+            List<String> warnings) {
         double[] absD = Arrays.stream(distance).map(Math::abs).toArray();
         double span = Arrays.stream(absD).max().orElse(0) - Arrays.stream(absD).min().orElse(0);
         if (distance.length < 5 || span < 3 * dx) {
@@ -207,12 +212,13 @@ public final class SpreadAnalysis {
                     + "stimulus (the response arrived everywhere at once, or the stimulus position is off).");
             return null;
         }
+        lines[0] = line.intercept();
         double lo = Math.max(0, line.slopeLo95());
         return new Estimate(line.slope(), Unit.SPEED.symbol(), lo, line.slopeHi95(),
                 "Theil-Sen slope, Sen 1968 rank interval");
     }
 
-    private static Estimate lengthConstant(double[] distance, double[] peak, List<String> warnings) {
+    private static Estimate lengthConstant(double[] distance, double[] peak, double[] lines, List<String> warnings) {
         SimpleRegression reg = new SimpleRegression();
         for (int i = 0; i < distance.length; i++) {
             if (peak[i] > 0) {
@@ -229,6 +235,7 @@ public final class SpreadAnalysis {
                     + "stimulus.");
             return null;
         }
+        lines[1] = Math.exp(reg.getIntercept());
         double half = reg.getSlopeConfidenceInterval(0.05);
         double lo = -1 / (slope - half);
         double hi = slope + half < 0 ? -1 / (slope + half) : Double.POSITIVE_INFINITY;
@@ -277,7 +284,7 @@ public final class SpreadAnalysis {
     }
 
     private static Estimate apparentD(Kymograph k, int first, double x0, double noise, double[] varianceOut,
-            double[] relTimes, double[] window, List<String> warnings) {
+            double[] relTimes, double[] window, double[] lines, List<String> warnings) {
         int nx = k.positionCount();
         double dx = k.distanceStepUm();
         double half = Math.min(x0 - k.distanceUm(0), k.distanceUm(nx - 1) - x0);
@@ -340,6 +347,7 @@ public final class SpreadAnalysis {
         window[0] = relTimes[start];
         window[1] = relTimes[end];
         double slope = reg.getSlope();
+        lines[2] = reg.getIntercept();
         double ci = reg.getSlopeConfidenceInterval(0.05);
         if (!(slope > 0)) {
             warnings.add("The apparent D is not available: the profile does not widen over time.");

@@ -1,0 +1,46 @@
+package org.dendrokin.cli;
+
+import java.io.PrintStream;
+import java.util.Locale;
+
+import org.dendrokin.core.Progress;
+
+/**
+ * A one-line progress display on the terminal's error stream: the stage and its percentage, rewritten in place
+ * (carriage return) at most a few times a second, and ended with a newline by {@link #finish()}.
+ */
+final class TerminalProgress implements Progress {
+    private static final long MIN_INTERVAL_NS = 200_000_000L;
+    private final PrintStream err;
+    private long lastNs;
+    private String lastStage = "";
+    private boolean dirty;
+
+    TerminalProgress(PrintStream err) {
+        this.err = err;
+    }
+
+    @Override
+    public void report(String stage, long done, long total) {
+        long now = System.nanoTime();
+        boolean newStage = !stage.equals(lastStage);
+        if (!newStage && done < total && now - lastNs < MIN_INTERVAL_NS) {
+            return;
+        }
+        lastNs = now;
+        lastStage = stage;
+        int percent = total > 0 ? (int) Math.min(100, 100 * done / total) : 0;
+        err.print(String.format(Locale.ROOT, "\r%-40s %3d%%", stage, percent));
+        err.flush();
+        dirty = true;
+    }
+
+    /** Ends the progress line. */
+    void finish() {
+        if (dirty) {
+            err.print("\r" + " ".repeat(46) + "\r");
+            err.flush();
+            dirty = false;
+        }
+    }
+}

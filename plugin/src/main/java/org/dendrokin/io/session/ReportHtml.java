@@ -1,0 +1,238 @@
+package org.dendrokin.io.session;
+
+import java.math.BigDecimal;
+import java.math.MathContext;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Locale;
+
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.preprocess.BleachCorrection;
+import org.dendrokin.core.preprocess.Preprocessing;
+import org.dendrokin.core.spread.Estimate;
+import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.SessionRunner;
+import org.dendrokin.io.ToolVersion;
+
+import com.google.gson.JsonElement;
+import com.google.gson.JsonObject;
+
+/**
+ * Writes {@code report.html}: one self-contained page (no scripts, no web fonts; pictures are PNG files beside
+ * it, linked by relative names) that a scientist who never used the tool can read: what was analysed, the
+ * pictures, a table of numbers with units and intervals, the warnings and the cautions.
+ */
+public final class ReportHtml {
+    private ReportHtml() {
+    }
+
+    /** Writes the report. */
+    public static void write(Path target, String session, SessionRunner.Inputs in, Preprocessing.Result pre,
+            Kymograph signal, SpreadAnalysis.Result spread, List<JsonObject> fits, String bestModel,
+            List<SessionPictures.Picture> pictures, List<String> warnings) {
+        StringBuilder h = new StringBuilder(16384);
+        h.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<title>Dendrokin report: ")
+                .append(esc(session)).append("</title>\n<style>\n")
+                .append("body{font-family:sans-serif;max-width:980px;margin:2em auto;padding:0 1em;color:#222;"
+                        + "line-height:1.45}\n")
+                .append("table{border-collapse:collapse;margin:0.5em 0 1.5em}td,th{border:1px solid #ccc;"
+                        + "padding:4px 8px;text-align:left;vertical-align:top}th{background:#f2f2f2}\n")
+                .append("figure{margin:1em 0 2em}figcaption{font-size:0.92em;color:#444;max-width:760px}"
+                        + "img{max-width:100%;border:1px solid #ddd}\n")
+                .append(".warn{background:#fff6e0;border-left:4px solid #e0a000;padding:0.5em 1em}"
+                        + ".caution{background:#f4f4f4;padding:0.5em 1em;font-size:0.92em}\n")
+                .append("</style>\n</head>\n<body>\n");
+        h.append("<h1>Spread along the dendrite: ").append(esc(session)).append("</h1>\n");
+        h.append("<p>Made by Dendrokin ").append(esc(ToolVersion.get()))
+                .append(". Every number below is also in <a href=\"results.json\">results.json</a>; the kymograph "
+                        + "itself is in <a href=\"kymograph.csv\">kymograph.csv</a> (one row a frame, one column a "
+                        + "position).</p>\n");
+
+        h.append("<h2>What was analysed</h2>\n<table>\n");
+        row(h, "Session folder", esc(in.sessionDir().toAbsolutePath().normalize().toString()));
+        row(h, "Movie", esc(in.sessionDir().relativize(in.movieFile()).toString()) + String.format(Locale.ROOT,
+                ": %d x %d pixels, %d frames, %d-bit", in.width(), in.height(), in.frameCount(), in.bitDepth()));
+        row(h, "Pixel size", number(in.pixelSizeUm()) + " um" + source(in.config().pixelSizeUm() != null));
+        row(h, "Frame interval", number(in.frameIntervalS()) + " s" + source(in.config().frameIntervalS() != null)
+                + "; frame i is at time i x " + number(in.frameIntervalS()) + " s");
+        row(h, "Path", esc(in.sessionDir().relativize(in.pathFile()).toString()) + ", " + number(in.pathLengthUm())
+                + " um long; averaged over a band " + number(in.config().pathWidthUm()) + " um wide; "
+                + signal.positionCount() + " positions every " + number(signal.distanceStepUm())
+                + " um from the first vertex");
+        row(h, "Background", number(in.backgroundValue()) + " grey values. " + esc(in.backgroundDescription()));
+        Preprocessing.Stimulus s = pre.stimulus();
+        String stim = s.known() ? "t = " + number(s.timeS()) + " s at " + number(s.positionUm())
+                + " um along the path (" + esc(s.source()) + ")" : "none given or found";
+        if (s.detection() != null) {
+            stim += ". " + esc(s.detection().describe());
+        }
+        row(h, "Stimulus", stim);
+        row(h, "Baseline (F0)", String.format(Locale.ROOT, "median of frames %d to %d at each position",
+                pre.baselineFirst(), pre.baselineLast()));
+        row(h, "Bleaching correction", bleach(in.config().bleachCorrection(), pre.bleach()));
+        row(h, "Calibration", esc(in.config().calibrationMethod()) + "; the signal is in " + esc(signal.signalUnit()));
+        h.append("</table>\n");
+
+        h.append("<h2>Numbers</h2>\n<p>Model-free measures of the spread, read directly off the kymograph. The 95% "
+                + "interval says how precisely the data fix each number; how it was made is in the last column.</p>\n");
+        h.append("<table>\n<tr><th>Quantity</th><th>Value</th><th>95% interval</th><th>Unit</th>"
+                + "<th>How it was measured</th></tr>\n");
+        estimateRow(h, "Front speed", spread == null ? null : spread.frontSpeed(),
+                "half-maximum arrival time at each position; robust (Theil-Sen) line of distance against time");
+        estimateRow(h, "Length constant", spread == null ? null : spread.lengthConstant(),
+                "peak amplitude against distance from the stimulus, fitted as exp(-distance / length constant)");
+        estimateRow(h, "Decay time", spread == null ? null : spread.decayTime(),
+                "signal summed along the path, fitted as exp(-t / decay time) after its peak");
+        String dHow = "growth of the spatial variance of the profile, variance = s0^2 + 2 D t";
+        if (spread != null && spread.varianceWindowS() != null) {
+            dHow += String.format(Locale.ROOT, ", over %s to %s s after the stimulus",
+                    number(spread.varianceWindowS()[0]), number(spread.varianceWindowS()[1]));
+        }
+        estimateRow(h, "Apparent diffusion coefficient D", spread == null ? null : spread.apparentD(), dHow);
+        estimateRow(h, "Bleaching time constant", pre.bleach().timeConstant(),
+                "exponential fit to the samples outside the response");
+        h.append("</table>\n");
+
+        h.append("<h2>Model fits</h2>\n");
+        if (fits.isEmpty()) {
+            h.append("<p>No reaction-diffusion model was fitted in this run; the numbers above do not depend on any "
+                    + "model.</p>\n");
+        } else {
+            h.append("<table>\n<tr><th>Model</th><th>Converged</th><th>AIC</th><th>Parameters (95% interval)</th></tr>\n");
+            for (JsonObject fit : fits) {
+                String name = fit.has("model") ? fit.get("model").getAsString() : "?";
+                h.append("<tr><td>").append(esc(name)).append(name.equals(bestModel) ? " (preferred)" : "")
+                        .append("</td><td>").append(fit.has("converged") ? esc(fit.get("converged").toString()) : "")
+                        .append("</td><td>").append(fit.has("aic") ? esc(fit.get("aic").toString()) : "")
+                        .append("</td><td>").append(parameters(fit)).append("</td></tr>\n");
+            }
+            h.append("</table>\n");
+        }
+
+        h.append("<h2>Warnings</h2>\n");
+        if (warnings.isEmpty()) {
+            h.append("<p>None.</p>\n");
+        } else {
+            h.append("<div class=\"warn\"><ul>\n");
+            for (String w : warnings) {
+                h.append("<li>").append(esc(w)).append("</li>\n");
+            }
+            h.append("</ul></div>\n");
+        }
+
+        h.append("<h2>Pictures</h2>\n");
+        for (SessionPictures.Picture p : pictures) {
+            h.append("<figure><img src=\"").append(esc(p.file())).append("\" alt=\"").append(esc(p.title()))
+                    .append("\"><figcaption><b>").append(esc(p.title())).append(".</b> ").append(esc(p.caption()))
+                    .append("</figcaption></figure>\n");
+        }
+
+        h.append("<h2>How to read this</h2>\n<ul>\n")
+                .append("<li>dF/F0 is the change of fluorescence relative to the baseline F0 at the same position: "
+                        + "0 means no change, 1 means twice as bright.</li>\n")
+                .append("<li>A front speed read off a short stretch of dendrite is biased: close to the stimulus the "
+                        + "signal is still leaving the stimulated site, and near a sealed end it can speed up. Passive "
+                        + "diffusion has no constant front speed at all; its arrival times grow with the square of "
+                        + "distance.</li>\n")
+                .append("<li>The apparent D assumes spread by diffusion from a compact source; binding, transport or "
+                        + "a regenerative wave give other values.</li>\n")
+                .append("</ul>\n");
+        h.append("<h2>Cautions</h2>\n<div class=\"caution\"><p>Dendrokin is research software. The numbers depend on "
+                + "the path drawn, the background, the bleaching correction and the calibration; fitted constants "
+                + "also depend on the model chosen. Check the pictures before using a number. It is not for clinical "
+                + "use. Laser and uncaging work follows your institution's safety rules.</p></div>\n");
+        h.append("</body>\n</html>\n");
+        AtomicFiles.writeString(target, h.toString());
+    }
+
+    private static String source(boolean fromSession) {
+        return fromSession ? " (from session.json)" : " (from the TIFF)";
+    }
+
+    private static String bleach(boolean requested, BleachCorrection.Result b) {
+        if (!requested) {
+            return "switched off in session.json";
+        }
+        if (!b.applied()) {
+            return "not applied (see the warnings)";
+        }
+        Estimate tau = b.timeConstant();
+        return "applied: intensity divided by exp(-t / " + number(tau.value()) + " s), fitted on " + b.quietPositions()
+                + " positions outside the response after the stimulus and on every position before it";
+    }
+
+    private static void row(StringBuilder h, String name, String valueHtml) {
+        h.append("<tr><th>").append(esc(name)).append("</th><td>").append(valueHtml).append("</td></tr>\n");
+    }
+
+    private static void estimateRow(StringBuilder h, String name, Estimate e, String how) {
+        h.append("<tr><td>").append(esc(name)).append("</td>");
+        if (e == null) {
+            h.append("<td colspan=\"3\">not available (see the warnings)</td>");
+        } else {
+            h.append("<td>").append(number(e.value())).append("</td><td>").append(number(e.lo95())).append(" to ")
+                    .append(number(e.hi95())).append("</td><td>").append(esc(e.unit())).append("</td>");
+        }
+        h.append("<td>").append(esc(how)).append("</td></tr>\n");
+    }
+
+    private static String parameters(JsonObject fit) {
+        if (!fit.has("parameters") || !fit.get("parameters").isJsonObject()) {
+            return "";
+        }
+        StringBuilder b = new StringBuilder();
+        for (var entry : fit.getAsJsonObject("parameters").entrySet()) {
+            JsonElement v = entry.getValue();
+            b.append(esc(entry.getKey())).append(" = ");
+            if (v.isJsonObject() && v.getAsJsonObject().has("value")) {
+                JsonObject p = v.getAsJsonObject();
+                b.append(esc(p.get("value").toString()));
+                if (p.has("ci95")) {
+                    b.append(" (").append(esc(p.get("ci95").toString())).append(")");
+                }
+                if (p.has("unit")) {
+                    b.append(' ').append(esc(p.get("unit").getAsString()));
+                }
+            } else {
+                b.append(esc(v.toString()));
+            }
+            b.append("<br>");
+        }
+        return b.toString();
+    }
+
+    /** A number for people: 3 significant digits, no exponent between 0.001 and 100000, Locale.ROOT. */
+    public static String number(double v) {
+        if (Double.isNaN(v)) {
+            return "n/a";
+        }
+        if (Double.isInfinite(v)) {
+            return v > 0 ? "unbounded" : "-unbounded";
+        }
+        if (v == 0) {
+            return "0";
+        }
+        double a = Math.abs(v);
+        if (a < 1e-3 || a >= 1e5) {
+            return String.format(Locale.ROOT, "%.3g", v);
+        }
+        BigDecimal d = new BigDecimal(v).round(new MathContext(3));
+        return d.stripTrailingZeros().toPlainString();
+    }
+
+    /** Escapes text for HTML. */
+    public static String esc(String s) {
+        StringBuilder b = new StringBuilder(s.length());
+        for (char c : s.toCharArray()) {
+            switch (c) {
+                case '<' -> b.append("&lt;");
+                case '>' -> b.append("&gt;");
+                case '&' -> b.append("&amp;");
+                case '"' -> b.append("&quot;");
+                default -> b.append(c);
+            }
+        }
+        return b.toString();
+    }
+}
