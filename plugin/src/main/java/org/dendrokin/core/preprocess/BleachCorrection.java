@@ -16,9 +16,10 @@ import org.dendrokin.core.units.Unit;
  * is the background, already removed, so the fit has no offset term.
  *
  * <p>Which samples are fitted. Each position is first divided by its own baseline median, so that all
- * positions start near 1. A position belongs to the response when, after the stimulus, its 5-frame moving
- * average rises above 1 + 4 noise standard deviations (noise from the baseline frames); two neighbours on each
- * side are added as a margin. The bleach trace is the mean of the normalised signal over all positions in the
+ * positions start near 1. A position responds when, after the stimulus, its 15-frame moving average rises
+ * above 1 + 3 standard deviations of that average (noise from the baseline frames). Because a spreading signal
+ * reaches farther than it can be detected, the excluded stretch is widened on each side by half the number of
+ * responding positions (at least two). The bleach trace is the mean of the normalised signal over all positions in the
  * baseline frames and over the quiet (non-responding) positions after the stimulus. That trace is fitted by
  * {@link ExponentialFit} as A exp(-t / tau) with t the frame time. If every position responds, only the
  * baseline frames are fitted, and a warning says so. A rate whose 95% interval includes zero, or a rising
@@ -26,6 +27,7 @@ import org.dendrokin.core.units.Unit;
  */
 public final class BleachCorrection {
     private static final int MARGIN = 2;
+    private static final int SMOOTH_HALF = 7;
 
     private BleachCorrection() {
     }
@@ -69,19 +71,30 @@ public final class BleachCorrection {
             }
             noise[p] = Robust.madSd(base);
         }
-        boolean[] responding = new boolean[nx];
+        boolean[] core = new boolean[nx];
+        int coreCount = 0;
         for (int p = 0; p < nx && firstResponseFrame < nt; p++) {
             double[] after = new double[nt - firstResponseFrame];
             for (int f = firstResponseFrame; f < nt; f++) {
                 after[f - firstResponseFrame] = norm[f][p];
             }
-            double[] smooth = Robust.movingAverage(after, 2);
+            double[] smooth = Robust.movingAverage(after, SMOOTH_HALF);
             double peak = Double.NEGATIVE_INFINITY;
             for (double v : smooth) {
                 peak = Double.isFinite(v) ? Math.max(peak, v) : peak;
             }
-            if (peak > 1 + 4 * noise[p] / Math.sqrt(5) || !Double.isFinite(noise[p])) {
-                for (int q = Math.max(0, p - MARGIN); q <= Math.min(nx - 1, p + MARGIN); q++) {
+            if (peak > 1 + 3 * noise[p] / Math.sqrt(2 * SMOOTH_HALF + 1) || !Double.isFinite(noise[p])) {
+                core[p] = true;
+                coreCount++;
+            }
+        }
+        // The spreading signal reaches beyond where it is detectable; widen the excluded stretch on each side by
+        // half its own length (at least MARGIN positions).
+        int margin = Math.max(MARGIN, coreCount / 2);
+        boolean[] responding = new boolean[nx];
+        for (int p = 0; p < nx; p++) {
+            if (core[p]) {
+                for (int q = Math.max(0, p - margin); q <= Math.min(nx - 1, p + margin); q++) {
                     responding[q] = true;
                 }
             }

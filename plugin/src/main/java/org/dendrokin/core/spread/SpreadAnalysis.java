@@ -5,6 +5,8 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 
+import org.apache.commons.math3.fitting.GaussianCurveFitter;
+import org.apache.commons.math3.fitting.WeightedObservedPoints;
 import org.apache.commons.math3.stat.regression.SimpleRegression;
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.kymo.Kymograph;
@@ -30,10 +32,14 @@ import org.dendrokin.core.units.Unit;
  * signal unit), from its peak to the end of the movie, fitted as A exp(-(t - t_peak) / tau) by
  * {@link ExponentialFit}. Under diffusion with first-order decay and sealed ends, I(t) is M exp(-k t) exactly,
  * so tau = 1/k (Crank 1975, sheet s2.3).</li>
- * <li>Apparent D: the spatial variance of the profile, var(t) = sum s (x - mean)^2 / sum s over a window
- * symmetric about the stimulus, grows as s0^2 + 2 D t under diffusion (Einstein 1905; Crank 1975, sheet s2.2,
- * s2.5); D is half the least-squares slope over the frames where the profile is well above the noise and its
- * three standard deviations stay inside the window. The time window used is reported.</li>
+ * <li>Apparent D: the spatial variance of the profile grows as s0^2 + 2 D t under diffusion (Einstein 1905;
+ * Crank 1975, sheet s2.2, s2.5). Each frame's variance is measured by a Gaussian fitted to the profile within a
+ * window symmetric about the stimulus (Commons Math {@link GaussianCurveFitter}), because the raw second moment
+ * weights the noise in the tails by the squared distance. D is half the least-squares slope of variance against
+ * time over the consecutive frames, from the stimulus on, whose summed signal is above 30% of its peak and ten
+ * noise standard deviations, and whose fitted three standard deviations stay inside the window. The time
+ * window used is reported. For a profile that is not Gaussian, this is the variance of the closest
+ * Gaussian.</li>
  * </ul>
  */
 public final class SpreadAnalysis {
@@ -189,6 +195,10 @@ public final class SpreadAnalysis {
         }
         double[] integratedFit = nanArray(after);
         Estimate decay = decayTime(relTimes, integrated, integratedFit, unit, warnings);
+        if (decay != null && (responds[0] || responds[nx - 1])) {
+            warnings.add("The signal reached an end of the path, so the summed signal also falls as it leaves the "
+                    + "path; the decay time is then shorter than the signal's own decay time.");
+        }
 
         double[] variance = nanArray(after);
         double[] window = new double[2];
@@ -293,50 +303,50 @@ public final class SpreadAnalysis {
                     + "symmetric window.");
             return null;
         }
-        int n = 0;
         double[] mass = new double[relTimes.length];
         double massMax = 0;
+        int n = 0;
         for (int f = first; f < k.frameCount(); f++) {
             double m0 = 0;
-            double m1 = 0;
-            double m2 = 0;
             int used = 0;
             for (int p = 0; p < nx; p++) {
-                double x = k.distanceUm(p) - x0;
                 double v = k.value(f, p);
-                if (Math.abs(x) <= half && Double.isFinite(v)) {
+                if (Math.abs(k.distanceUm(p) - x0) <= half && Double.isFinite(v)) {
                     m0 += v;
-                    m1 += v * x;
-                    m2 += v * x * x;
                     used++;
                 }
             }
             n = Math.max(n, used);
             mass[f - first] = m0 * dx;
             massMax = Math.max(massMax, m0 * dx);
-            double mean = m1 / m0;
-            varianceOut[f - first] = m0 > 0 ? m2 / m0 - mean * mean : Double.NaN;
         }
         double massNoise = noise * dx * Math.sqrt(Math.max(1, n));
         SimpleRegression reg = new SimpleRegression();
         int start = -1;
         int end = -1;
+        double sigma = Math.max(2 * dx, 1e-9);
+        Arrays.fill(varianceOut, Double.NaN);
         for (int i = 0; i < relTimes.length; i++) {
-            double var = varianceOut[i];
-            boolean ok = mass[i] > 0.3 * massMax && mass[i] > 10 * massNoise && var > 0 && 3 * Math.sqrt(var) < half;
+            int f = first + i;
+            boolean ok = mass[i] > 0.3 * massMax && mass[i] > 10 * massNoise;
+            double var = Double.NaN;
+            if (ok) {
+                double[] fitted = gaussian(k, f, x0, half, sigma);
+                var = fitted == null ? Double.NaN : fitted[2] * fitted[2];
+                ok = fitted != null && 3 * fitted[2] < half && Math.abs(fitted[1] - x0) < half / 2;
+                if (ok) {
+                    sigma = fitted[2];
+                }
+            }
             if (ok) {
                 if (start < 0) {
                     start = i;
                 }
                 end = i;
+                varianceOut[i] = var;
                 reg.addData(relTimes[i], var);
             } else if (start >= 0) {
                 break;
-            }
-        }
-        for (int i = 0; i < relTimes.length; i++) {
-            if (i < start || i > end || start < 0) {
-                varianceOut[i] = Double.NaN;
             }
         }
         if (reg.getN() < 4) {
@@ -354,7 +364,32 @@ public final class SpreadAnalysis {
             return null;
         }
         return new Estimate(slope / 2, Unit.DIFFUSION.symbol(), Math.max(0, (slope - ci) / 2), (slope + ci) / 2,
-                "Student t on the least-squares slope of the spatial variance");
+                "Student t on the least-squares slope of the profile variance against time");
+    }
+
+    /**
+     * Fits one frame's profile within {@code half} of x0 by a Gaussian (Commons Math {@link GaussianCurveFitter}:
+     * norm, mean, sigma); returns {norm, mean (um along the path), sigma (um)} or null if the fit fails.
+     */
+    private static double[] gaussian(Kymograph k, int frame, double x0, double half, double sigmaStart) {
+        WeightedObservedPoints points = new WeightedObservedPoints();
+        double peak = 0;
+        for (int p = 0; p < k.positionCount(); p++) {
+            double v = k.value(frame, p);
+            double x = k.distanceUm(p);
+            if (Math.abs(x - x0) <= half && Double.isFinite(v)) {
+                points.add(x, v);
+                peak = Math.max(peak, v);
+            }
+        }
+        try {
+            double[] p = GaussianCurveFitter.create().withMaxIterations(500)
+                    .withStartPoint(new double[] {Math.max(peak, 1e-12), x0, sigmaStart}).fit(points.toList());
+            p[2] = Math.abs(p[2]);
+            return Double.isFinite(p[2]) && p[2] > 0 && p[0] > 0 ? p : null;
+        } catch (RuntimeException e) {
+            return null;
+        }
     }
 
     private static double[] column(List<double[]> rows, int c) {

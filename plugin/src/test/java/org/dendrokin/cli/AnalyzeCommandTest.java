@@ -1,0 +1,119 @@
+package org.dendrokin.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+
+import org.dendrokin.io.demo.DemoSessionGenerator;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+class AnalyzeCommandTest {
+    private static final DemoSessionGenerator.Scenario TINY = new DemoSessionGenerator.Scenario(64, 32, 40, 0.25, 1.0,
+            9.5, 6.0, 0.5, 0.05, 1.0, 1.5, 600, 100, 200, 3, 5L);
+
+    @TempDir
+    static Path dir;
+    static Path good;
+
+    @BeforeAll
+    static void makeSession() {
+        good = dir.resolve("good");
+        DemoSessionGenerator.write(good, TINY);
+    }
+
+    private record Run(int status, String out, String err) {
+    }
+
+    private static Run run(String... args) {
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        int status = Main.run(args, new PrintStream(out, true, StandardCharsets.UTF_8),
+                new PrintStream(err, true, StandardCharsets.UTF_8));
+        return new Run(status, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
+    }
+
+    private static Path copyWithSession(String name, String sessionJson) throws IOException {
+        Path s = dir.resolve(name);
+        Files.createDirectories(s);
+        for (String f : new String[] {"dendrite.tif", "dendrite.roi"}) {
+            Files.copy(good.resolve(f), s.resolve(f));
+        }
+        Files.writeString(s.resolve("session.json"), sessionJson);
+        return s;
+    }
+
+    /** Exit status 2, one sentence on stderr naming the file, no stack trace. */
+    private static String badInput(String... args) {
+        Run r = run(args);
+        assertEquals(Main.BAD_INPUT, r.status(), r.err());
+        String message = r.err().replaceAll("\r[^\n]*", "").trim();
+        assertEquals(1, message.lines().count(), "one line: " + message);
+        assertFalse(message.contains("Exception"), message);
+        return message;
+    }
+
+    @Test
+    void analyzeWritesTheReportAndSaysWhere() {
+        Path out = dir.resolve("out-good");
+        Run r = run("analyze", good.toString(), "--out", out.toString());
+        assertEquals(Main.OK, r.status(), r.err());
+        assertTrue(r.out().contains("Report: " + out.resolve("report.html").toAbsolutePath().normalize()), r.out());
+        assertTrue(Files.isRegularFile(out.resolve("results.json")));
+    }
+
+    @Test
+    void malformedSessionJsonNamesTheFileAndTheLine() throws IOException {
+        Path s = copyWithSession("malformed", "{\n  \"movie\": \"dendrite.tif\"\n  \"path\": \"dendrite.roi\"\n}\n");
+        String message = badInput("analyze", s.toString(), "--out", dir.resolve("o1").toString());
+        assertTrue(message.contains("session.json") && message.contains("line 3"), message);
+        assertFalse(Files.exists(dir.resolve("o1")), "nothing written for a bad session");
+    }
+
+    @Test
+    void aBadValueNamesTheKey() throws IOException {
+        Path s = copyWithSession("badkey", "{\"path_width_um\": -1}");
+        String message = badInput("analyze", s.toString(), "--out", dir.resolve("o2").toString());
+        assertTrue(message.contains("session.json") && message.contains("\"path_width_um\""), message);
+    }
+
+    @Test
+    void aMissingMovieNamesTheKey() throws IOException {
+        Path s = copyWithSession("nomovie", "{\"movie\": \"absent.tif\"}");
+        String message = badInput("analyze", s.toString(), "--out", dir.resolve("o3").toString());
+        assertTrue(message.contains("\"movie\"") && message.contains("absent.tif"), message);
+    }
+
+    @Test
+    void aFolderWithoutSessionJsonIsRefused() throws IOException {
+        Path s = dir.resolve("empty");
+        Files.createDirectories(s);
+        String message = badInput("analyze", s.toString(), "--out", dir.resolve("o4").toString());
+        assertTrue(message.contains("session.json"), message);
+    }
+
+    @Test
+    void aBackgroundThatIsNotAnAreaRoiIsRefused() throws IOException {
+        Path s = copyWithSession("bgline", "{\"background\": {\"roi\": \"dendrite.roi\"}}");
+        String message = badInput("analyze", s.toString(), "--out", dir.resolve("o5").toString());
+        assertTrue(message.contains("dendrite.roi") && message.contains("area ROI"), message);
+    }
+
+    @Test
+    void demoRunsFromTheCopyInsideTheBuild() {
+        // The tests run in plugin/, where test-images/ is not found, so the bundled copy is used.
+        Path out = dir.resolve("demo-out");
+        Run r = run("demo", "--out", out.toString());
+        assertEquals(Main.OK, r.status(), r.err());
+        assertTrue(r.out().contains("Report: "), r.out());
+        assertTrue(Files.isRegularFile(out.resolve("report.html")));
+    }
+}
