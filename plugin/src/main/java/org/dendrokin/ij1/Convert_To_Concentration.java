@@ -17,6 +17,7 @@ import org.dendrokin.core.calib.SaturationLimits;
 import org.dendrokin.core.calib.SignalKind;
 import org.dendrokin.core.calib.SingleWavelength;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.io.calib.CalibrationFile;
 
 /**
  * Plugins > Dendrokin > Convert to Concentration: turns the current kymograph or movie into a 32-bit image
@@ -26,7 +27,7 @@ import org.dendrokin.core.kymo.Kymograph;
  */
 public class Convert_To_Concentration implements PlugIn {
     static final String COMMAND = "Convert to Concentration";
-    static final String[] METHODS = {"single-wavelength", "hill", "ratio", "dynamic-range"};
+    static final String[] METHODS = {"single-wavelength", "hill", "ratio", "dynamic-range", "calibration file"};
 
     @Override
     public void run(String arg) {
@@ -102,6 +103,7 @@ public class Convert_To_Concentration implements PlugIn {
                     d.number("Denominator background (intensity)", 0, 3);
                 }
             }
+            case "calibration file" -> d.file("Calibration (JSON written by Calibration from Standards)", "");
             case "dynamic-range" -> {
                 d.number("Kd (uM)", 0.2, 4);
                 d.number("Rf (Fmax / Fmin)", 5, 3);
@@ -137,6 +139,13 @@ public class Convert_To_Concentration implements PlugIn {
                             + image.getTitle() + " has one; convert a ratio kymograph instead, or open both channels"
                             + " as one hyperstack");
                 }
+            }
+            case "calibration file" -> {
+                String file = d.nextText();
+                if (file.isEmpty()) {
+                    throw new IllegalArgumentException("choose the calibration file (JSON) to apply");
+                }
+                cal = CalibrationFile.read(java.nio.file.Path.of(file));
             }
             default -> cal = new DynamicRange(d.nextNumber(), d.nextNumber(), d.nextNumber(), d.nextNumber());
         }
