@@ -12,6 +12,7 @@ import ij.WindowManager;
 import ij.gui.Line;
 import ij.gui.PolygonRoi;
 import ij.gui.Roi;
+import ij.io.RoiEncoder;
 import ij.measure.Calibration;
 import ij.process.ShortProcessor;
 
@@ -22,6 +23,7 @@ import org.dendrokin.core.kymo.KymographExtractor;
 import org.dendrokin.core.path.DendritePath;
 import org.dendrokin.io.KymographCsv;
 import org.dendrokin.io.movie.ImagePlusFrames;
+import org.dendrokin.io.path.PathFiles;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
@@ -66,6 +68,12 @@ class KymographAlongLineTest {
         return result;
     }
 
+    private static DendritePath viaRoiFile(Roi roi, Path dir) {
+        Path file = dir.resolve("path.roi");
+        RoiEncoder.save(roi, file.toString());
+        return PathFiles.read(file, null);
+    }
+
     @Test
     void straightLineGivesTheLinearMovieAlongIt() {
         ImagePlus movie = linearMovie();
@@ -77,10 +85,10 @@ class KymographAlongLineTest {
         for (int f = 0; f < 5; f++) {
             for (int p = 0; p < k.positionCount(); p += 5) {
                 double x = 5.5 + p;
-                // pixel i's centre is at i + 0.5, so the value at x is that of index x - 0.5
-                double expected = 100 + 10 * (x - 0.5) + 3 * 15 + 50 * f;
+                // ImageJ's line coordinates put pixel i's centre at the whole number i, as its own line profiles do
+                double expected = 100 + 10 * x + 3 * 15.5 + 50 * f;
                 // REF: bilinear interpolation and a symmetric band average reproduce a linear function exactly
-                // [common practice]; float image: 1e-4 absolute
+                // [common practice]; float image: 1e-3 absolute
                 assertEquals(expected, k.value(f, p), 1e-3, "intensity at frame " + f + ", sample " + p);
             }
         }
@@ -94,7 +102,8 @@ class KymographAlongLineTest {
         ImagePlus image = run(movie, OPTIONS + " save=[" + out + "]");
         Kymograph viaMenu = KymographImage.fromImage(image);
 
-        DendritePath path = DendritePath.of(new double[] {4.5, 20.25, 33.5}, new double[] {5.5, 24.0, 10.5}, false);
+        // the command line's route: the same line saved as a .roi file and read back
+        DendritePath path = viaRoiFile(roi, out);
         Extraction core = KymographExtractor.extract(new ImagePlusFrames(movie, 0), path, 0.2, 0.5, 0.6, 0.2,
                 Progress.NONE);
         assertArrayEquals(core.kymograph().distancesUm(), viaMenu.distancesUm(), 1e-9, "distances, um");
@@ -108,15 +117,14 @@ class KymographAlongLineTest {
     }
 
     @Test
-    void lineWidthIsTheDefaultBandWidth() {
+    void lineWidthIsTheDefaultBandWidth(@TempDir Path dir) {
         ImagePlus movie = linearMovie();
         Line line = new Line(5.5, 10.5, 30.5, 20.5);
         line.setStrokeWidth(5);
         movie.setRoi(line);
         Kymograph viaMenu = KymographImage.fromImage(run(movie, "lines=[current selection] pixel=0.2 frame=0.5"));
-        Extraction core = KymographExtractor.extract(new ImagePlusFrames(movie, 0),
-                DendritePath.of(new double[] {5.5, 30.5}, new double[] {10.5, 20.5}, false), 0.2, 0.5, 1.0, 0.2,
-                Progress.NONE);
+        Extraction core = KymographExtractor.extract(new ImagePlusFrames(movie, 0), viaRoiFile(line, dir), 0.2, 0.5,
+                1.0, 0.2, Progress.NONE);
         // 5 px x 0.2 um = 1.0 um band; default step = pixel size
         assertArrayEquals(core.kymograph().values(), viaMenu.values(), 1e-3, "intensities with a 1 um band");
     }
