@@ -57,16 +57,21 @@ public final class KymographExtractionBenchmark {
             System.out.printf(Locale.ROOT, "movie: %s, %.3f GB, written in %.1f s%n", file, bytes / 1e9,
                     (System.nanoTime() - t0) / 1e9);
             DendritePath path = curvedPath();
-            System.out.printf(Locale.ROOT, "path: %.1f um (%.1f px), band %.1f um, %d samples a frame%n",
-                    path.lengthPx() * PIXEL_UM, path.lengthPx(), BAND_UM,
-                    path.resample(1.0).size());
+            DendritePath steep = verticalPath();
+            System.out.printf(Locale.ROOT, "path: %.1f um (%.1f px) S-curve over rows %.0f-%.0f, band %.1f um, "
+                    + "%d samples a frame%n", path.lengthPx() * PIXEL_UM, path.lengthPx(), min(path.yPx()),
+                    max(path.yPx()), BAND_UM, path.resample(1.0).size());
+            System.out.printf(Locale.ROOT, "steep path: %.1f um vertical line over rows %.0f-%.0f%n",
+                    steep.lengthPx() * PIXEL_UM, min(steep.yPx()), max(steep.yPx()));
             for (int i = 0; i < 2; i++) {
                 plainRead(file);
                 extract(file, path);
+                extract(file, steep);
             }
             resetPeaks();
             double[] plain = new double[REPEATS];
             double[] extract = new double[REPEATS];
+            double[] extractSteep = new double[REPEATS];
             Extraction last = null;
             for (int i = 0; i < REPEATS; i++) {
                 long a = System.nanoTime();
@@ -75,17 +80,25 @@ public final class KymographExtractionBenchmark {
                 a = System.nanoTime();
                 last = extract(file, path);
                 extract[i] = (System.nanoTime() - a) / 1e9;
+                a = System.nanoTime();
+                extract(file, steep);
+                extractSteep[i] = (System.nanoTime() - a) / 1e9;
             }
             Arrays.sort(plain);
             Arrays.sort(extract);
+            Arrays.sort(extractSteep);
             double plainMedian = plain[REPEATS / 2];
             double extractMedian = extract[REPEATS / 2];
+            double steepMedian = extractSteep[REPEATS / 2];
             System.out.printf(Locale.ROOT, "plain FileChannel read: median %.3f s (best %.3f s) = %.2f GB/s%n",
                     plainMedian, plain[0], bytes / plainMedian / 1e9);
-            System.out.printf(Locale.ROOT, "kymograph extraction (open + extract): median %.3f s (best %.3f s) = "
-                    + "%.2f GB/s%n", extractMedian, extract[0], bytes / extractMedian / 1e9);
-            System.out.printf(Locale.ROOT, "ratio extraction / plain read speed: %.2f (median), %.2f (best)%n",
+            System.out.printf(Locale.ROOT, "kymograph extraction, S-curve (open + extract): median %.3f s (best %.3f s)"
+                    + " = %.2f GB/s%n", extractMedian, extract[0], bytes / extractMedian / 1e9);
+            System.out.printf(Locale.ROOT, "ratio extraction / plain read speed, S-curve: %.2f (median), %.2f (best)%n",
                     plainMedian / extractMedian, plain[0] / extract[0]);
+            System.out.printf(Locale.ROOT, "kymograph extraction, vertical line: median %.3f s (best %.3f s) = "
+                    + "%.2f GB/s, ratio %.2f (median)%n", steepMedian, extractSteep[0], bytes / steepMedian / 1e9,
+                    plainMedian / steepMedian);
             System.out.printf(Locale.ROOT, "kymograph: %d frames x %d positions, %d NaN%n",
                     last.kymograph().frameCount(), last.kymograph().positionCount(), last.samplesOutside());
             System.out.printf(Locale.ROOT, "peak heap during the timed runs (sum of heap pool peaks): %.1f MiB; "
@@ -120,6 +133,21 @@ public final class KymographExtractionBenchmark {
             y[i] = 256 + (y[i] - 256) * scale;
         }
         return DendritePath.of(x, y, false);
+    }
+
+    /** A vertical line through the middle of the frame, 100 um long: the band touches most rows. */
+    static DendritePath verticalPath() {
+        double lengthPx = PATH_UM / PIXEL_UM;
+        double top = 256 - lengthPx / 2;
+        return DendritePath.of(new double[] {256.5, 256.5}, new double[] {top, top + lengthPx}, false);
+    }
+
+    private static double min(double[] v) {
+        return Arrays.stream(v).min().orElse(Double.NaN);
+    }
+
+    private static double max(double[] v) {
+        return Arrays.stream(v).max().orElse(Double.NaN);
     }
 
     private static Extraction extract(Path file, DendritePath path) {

@@ -2,8 +2,12 @@ package org.dendrokin.io.movie;
 
 import java.io.IOException;
 import java.io.InputStream;
+import java.nio.ByteBuffer;
+import java.nio.ByteOrder;
+import java.nio.channels.FileChannel;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.nio.file.StandardOpenOption;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
@@ -311,11 +315,13 @@ public final class Movie implements AutoCloseable {
             Properties props = first.description != null && first.description.startsWith("ImageJ")
                     ? new FileOpener(first).decodeDescriptionString(first) : null;
             int planeCount = info.length == 1 ? Math.max(1, first.nImages) : info.length;
-            if (props != null) {
+            if (props != null && props.getProperty("images") != null) {
                 int promised = intProperty(props, "images", planeCount);
                 if (promised > planeCount) {
                     throw truncated(file, promised, planeCount);
                 }
+            } else {
+                checkDirectoryChain(file, first.intelByteOrder, info.length);
             }
             l.channels = props != null ? intProperty(props, "channels", 1) : 1;
             l.slices = props != null ? intProperty(props, "slices", 1) : 1;
@@ -375,6 +381,51 @@ public final class Movie implements AutoCloseable {
         private static InputException truncated(Path file, long promised, long present) {
             return new InputException(file, "the TIFF is truncated: its header promises " + promised
                     + " images but the file holds only " + present + " complete ones");
+        }
+
+        /**
+         * For TIFFs without ImageJ's image count: follows the chain of image directories (each one's entry count
+         * and its pointer to the next, nothing else) and refuses a chain that points past the end of the file,
+         * where ImageJ's decoder would silently return the images before the break.
+         */
+        private static void checkDirectoryChain(Path file, boolean intel, int decoded) {
+            try (FileChannel channel = FileChannel.open(file, StandardOpenOption.READ)) {
+                long size = channel.size();
+                ByteBuffer b = ByteBuffer.allocate(4).order(intel ? ByteOrder.LITTLE_ENDIAN : ByteOrder.BIG_ENDIAN);
+                long offset = readUnsigned(channel, b, 4, 4);
+                int count = 0;
+                while (offset != 0 && count <= size / 14) {
+                    if (offset + 2 > size) {
+                        throw chainBroken(file, count, decoded);
+                    }
+                    long entries = readUnsigned(channel, b, offset, 2);
+                    long next = offset + 2 + 12 * entries;
+                    if (next + 4 > size) {
+                        throw chainBroken(file, count, decoded);
+                    }
+                    offset = readUnsigned(channel, b, next, 4);
+                    count++;
+                }
+            } catch (IOException e) {
+                throw new InputException(file, "the TIFF header could not be read (" + e.getMessage() + ")", e);
+            }
+        }
+
+        private static long readUnsigned(FileChannel channel, ByteBuffer b, long at, int bytes) throws IOException {
+            b.clear().limit(bytes);
+            while (b.hasRemaining()) {
+                if (channel.read(b, at + b.position()) < 0) {
+                    throw new IOException("unexpected end of file");
+                }
+            }
+            b.flip();
+            return bytes == 2 ? b.getShort() & 0xffffL : b.getInt() & 0xffffffffL;
+        }
+
+        private static InputException chainBroken(Path file, int complete, int decoded) {
+            return new InputException(file, "the TIFF is truncated: the directory of image " + (complete + 1)
+                    + " lies past the end of the file, so only " + Math.min(complete, decoded)
+                    + " images can be read");
         }
 
         /** Finds each plane's offset and checks the file is as long as the header says. */

@@ -11,7 +11,6 @@ import java.nio.channels.FileChannel;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardOpenOption;
-import java.util.Iterator;
 
 import javax.imageio.IIOImage;
 import javax.imageio.ImageIO;
@@ -20,6 +19,7 @@ import javax.imageio.ImageWriter;
 import javax.imageio.stream.ImageOutputStream;
 
 import ij.ImagePlus;
+import ij.io.FileInfo;
 import ij.io.TiffDecoder;
 import ij.process.FloatProcessor;
 
@@ -115,28 +115,7 @@ class MovieTest {
     @Test
     void readsCompressedTiffsThroughImageJ() throws IOException {
         Path file = dir.resolve("deflate.tif");
-        Iterator<ImageWriter> writers = ImageIO.getImageWritersByFormatName("tiff");
-        ImageWriter writer = writers.next();
-        try (ImageOutputStream out = ImageIO.createImageOutputStream(file.toFile())) {
-            writer.setOutput(out);
-            ImageWriteParam param = writer.getDefaultWriteParam();
-            param.setCompressionMode(ImageWriteParam.MODE_EXPLICIT);
-            param.setCompressionType("Deflate");
-            writer.prepareWriteSequence(null);
-            for (int p = 0; p < 3; p++) {
-                BufferedImage image = new BufferedImage(12, 5, BufferedImage.TYPE_USHORT_GRAY);
-                WritableRaster raster = image.getRaster();
-                for (int y = 0; y < 5; y++) {
-                    for (int x = 0; x < 12; x++) {
-                        raster.setSample(x, y, 0, 1000 + TestMovies.value(p, x, y));
-                    }
-                }
-                writer.writeToSequence(new IIOImage(image, null, null), param);
-            }
-            writer.endWriteSequence();
-        } finally {
-            writer.dispose();
-        }
+        writeWithImageIo(file, "Deflate", 3);
         try (Movie movie = Movie.open(file, 0.2, 0.1)) {
             assertEquals(3, movie.frameCount());
             float[] row = movie.channel(0).readRows(2, 4, 1, new float[12]);
@@ -160,6 +139,68 @@ class MovieTest {
         assertTrue(e.getMessage().startsWith(file.toString()), e.getMessage());
         assertTrue(e.getMessage().contains("promises 12 images") && e.getMessage().contains("only 8 complete"),
                 e.getMessage());
+    }
+
+    @Test
+    void refusesATruncatedTiffFromAnotherWriter() throws IOException {
+        Path file = dir.resolve("imageio.tif");
+        writeWithImageIo(file, null, 4);
+        FileInfo[] info = new TiffDecoder(dir + "/", "imageio.tif").getTiffInfo();
+        assertEquals(4, info.length, "images in the intact file");
+        Path cutInPixels = Files.copy(file, dir.resolve("cut-pixels.tif"));
+        Path cutInDirectories = Files.copy(file, dir.resolve("cut-directories.tif"));
+        try (FileChannel ch = FileChannel.open(cutInPixels, StandardOpenOption.WRITE)) {
+            ch.truncate(info[3].getOffset() + 50);  // inside the last image's pixels
+        }
+        try (FileChannel ch = FileChannel.open(cutInDirectories, StandardOpenOption.WRITE)) {
+            ch.truncate(info[1].getOffset() + 20);  // the second image's pixels and every later directory
+        }
+        for (Path cut : new Path[] {cutInPixels, cutInDirectories}) {
+            InputException e = assertThrows(InputException.class, () -> Movie.open(cut, 0.2, 0.1));
+            assertTrue(e.getMessage().startsWith(cut.toString()) && e.getMessage().contains("truncated"),
+                    e.getMessage());
+        }
+    }
+
+    /** Writes 12 x 5 16-bit images with javax.imageio's TIFF writer; compression null means none. */
+    private static void writeWithImageIo(Path file, String compression, int images) throws IOException {
+        ImageWriter writer = ImageIO.getImageWritersByFormatName("tiff").next();
+        try (ImageOutputStream out = ImageIO.createImageOutputStream(file.toFile())) {
+            writer.setOutput(out);
+            ImageWriteParam param = writer.getDefaultWriteParam();
+            if (compression == null) {
+                param.setCompressionMode(ImageWriteParam.MODE_DISABLED);
+            } else {
+                param.setCompressionMode(ImageWriteParam.MODE_EXPLICIT);
+                param.setCompressionType(compression);
+            }
+            writer.prepareWriteSequence(null);
+            for (int p = 0; p < images; p++) {
+                BufferedImage image = new BufferedImage(12, 5, BufferedImage.TYPE_USHORT_GRAY);
+                WritableRaster raster = image.getRaster();
+                for (int y = 0; y < 5; y++) {
+                    for (int x = 0; x < 12; x++) {
+                        raster.setSample(x, y, 0, 1000 + TestMovies.value(p, x, y));
+                    }
+                }
+                writer.writeToSequence(new IIOImage(image, null, null), param);
+            }
+            writer.endWriteSequence();
+        } finally {
+            writer.dispose();
+        }
+    }
+
+    @Test
+    void readsUncompressedTiffsFromAnotherWriter() throws IOException {
+        Path file = dir.resolve("plain-imageio.tif");
+        writeWithImageIo(file, null, 3);
+        try (Movie movie = Movie.open(file, 0.2, 0.1)) {
+            assertEquals(3, movie.frameCount());
+            float[] row = movie.channel(0).readRows(1, 2, 1, new float[12]);
+            // REF: the values javax.imageio's TIFF writer was given, at the offsets ImageJ's decoder found [common practice]
+            assertEquals(1000 + TestMovies.value(1, 7, 2), row[7], 0f, "frame 1, row 2, column 7");
+        }
     }
 
     @Test
