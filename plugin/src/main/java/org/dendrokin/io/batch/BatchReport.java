@@ -42,7 +42,8 @@ public final class BatchReport {
                 .append("table{border-collapse:collapse;margin:8px 0 20px}td,th{border:1px solid #ccc;padding:3px 7px;")
                 .append("text-align:left;vertical-align:top;font-size:13px}th{background:#f1f1f1}")
                 .append(".failed,.error,.missing{color:#a01818}.num{text-align:right;font-variant-numeric:tabular-nums}")
-                .append("img.thumb{width:180px;border:1px solid #ddd;margin:0 4px 4px 0}</style></head><body>\n");
+                .append("img.thumb{width:180px;border:1px solid #ddd;margin:0 4px 4px 0}")
+                .append(".pair{display:flex;flex-wrap:wrap;gap:24px;align-items:flex-start}</style></head><body>\n");
         List<SummaryTable.SessionEntry> entries = table.entries();
         long ok = entries.stream().filter(e -> "ok".equals(e.status())).count();
         html.append("<h1>Batch report</h1>\n<p>").append(entries.size()).append(" sessions: ").append(ok)
@@ -76,8 +77,9 @@ public final class BatchReport {
             Map<String, List<Double>> byGroup = new TreeMap<>();
             q.values().forEach((id, v) -> byGroup.computeIfAbsent(groupOf.getOrDefault(id, NO_GROUP),
                     g -> new ArrayList<>()).add(v));
-            StripPlot plot = new StripPlot(q.label() + ", one value per session", q.title());
-            html.append("<h3>").append(esc(q.title())).append("</h3>\n");
+            StripPlot plot = new StripPlot(q.label().replace('_', ' ') + ", one value per session",
+                    q.title().replace('_', ' '));
+            html.append("<h3>").append(esc(q.title().replace('_', ' '))).append("</h3>\n<div class=\"pair\"><div>");
             html.append("<table><tr><th>group</th><th>n</th><th>mean</th><th>SD</th><th>median</th>")
                     .append("<th>95% interval of the mean</th></tr>\n");
             for (Map.Entry<String, List<Double>> g : byGroup.entrySet()) {
@@ -93,8 +95,8 @@ public final class BatchReport {
             html.append("</table>\n");
             String png = "plots/" + (++figure) + "-" + slug(q.label()) + ".png";
             Pictures.savePng(plot.render(Math.max(420, 170 * byGroup.size() + 120), 380), out.resolve(png));
-            html.append("<p><img src=\"").append(esc(png)).append("\" alt=\"").append(esc(q.title()))
-                    .append(" by group\"></p>\n");
+            StringBuilder figureHtml = new StringBuilder("<div><img src=\"").append(esc(png)).append("\" alt=\"")
+                    .append(esc(q.title())).append(" by group\"></div>");
             List<String> groups = new ArrayList<>(byGroup.keySet());
             if (groups.size() >= 2) {
                 html.append("<table><tr><th>comparison</th><th>n</th><th>difference of means</th>")
@@ -117,8 +119,11 @@ public final class BatchReport {
                     }
                 }
                 html.append("</table>\n");
-                html.append("<p>Empty cells: a group has fewer than two sessions, or no spread at all.</p>\n");
+                if (byGroup.values().stream().anyMatch(v -> v.size() < 2)) {
+                    html.append("<p>Empty cells: a group has fewer than two sessions.</p>\n");
+                }
             }
+            html.append("</div>").append(figureHtml).append("</div>\n");
         }
     }
 
