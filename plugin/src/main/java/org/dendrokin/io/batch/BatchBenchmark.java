@@ -12,11 +12,13 @@ import org.dendrokin.core.Progress;
 
 /**
  * Benchmark (run by hand, not a test): analyses every session under STUDY once per thread count, each time
- * into a fresh output folder with every session forced, after one warm-up pass, and prints wall time,
+ * into a fresh output folder with every session forced, after a warm-up pass over 6 small demo sessions of
+ * its own (in OUT_BASE/warm-up-study; skipped with --no-warm-up), and prints wall time,
  * sessions per second, the peak Java heap (sum of the heap pools' peaks, reset before each pass) and the
  * process's peak resident memory so far (VmHWM).
  *
- * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.batch.BatchBenchmark STUDY OUT_BASE THREADS...}
+ * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.batch.BatchBenchmark STUDY OUT_BASE THREADS...
+ * [--no-warm-up]}
  */
 public final class BatchBenchmark {
     private BatchBenchmark() {
@@ -32,10 +34,13 @@ public final class BatchBenchmark {
         int sessions = SessionFolder.discover(study, base).size();
         System.out.printf(Locale.ROOT, "%d sessions under %s; %d processors; max heap %d MB%n", sessions, study,
                 Runtime.getRuntime().availableProcessors(), Runtime.getRuntime().maxMemory() >> 20);
-        boolean warm = args.length > 3 && !"--no-warm-up".equals(args[args.length - 1]);
-        int last = "--no-warm-up".equals(args[args.length - 1]) ? args.length - 1 : args.length;
+        boolean warm = !"--no-warm-up".equals(args[args.length - 1]);
+        int last = warm ? args.length : args.length - 1;
         if (warm) {
-            pass(study, base.resolve("warm-up"), Integer.parseInt(args[2]), sessions, "warm-up");
+            Path warmStudy = base.resolve("warm-up-study");
+            BatchRunner.deleteTree(warmStudy);
+            DemoStudy.write(warmStudy, 6, 96, 32, 120, 1L);
+            pass(warmStudy, base.resolve("warm-up"), 2, 6, "warm-up");
         }
         for (int i = 2; i < last; i++) {
             int threads = Integer.parseInt(args[i]);
