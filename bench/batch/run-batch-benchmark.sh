@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # Batch benchmark (by hand, not CI): sessions per second with 1 and 2 threads on 100 small generated
-# sessions, and peak memory; with "large", 10 sessions of 1 GB movies (512 x 512 x 2000, 16-bit) and their
+# sessions, and peak memory (the heap is not capped below what a batch would use: -Xmx4g, -Xmx8g); with "large", 10 sessions of 1 GB movies (512 x 512 x 2000, 16-bit) and their
 # peak memory. Everything is generated under WORK (default /tmp/dendrokin-batch-bench) and deleted at the
 # end. Build first: mvn -B -q package -DskipTests
 #
@@ -18,7 +18,7 @@ if [ "$WHAT" = small ]; then
     java -cp "$JAR" org.dendrokin.io.batch.DemoStudy "$WORK/study" 100
     du -sh "$WORK/study"
     /usr/bin/time -f "process peak RSS %M KB, wall %e s" \
-        java -Xmx2g -cp "$JAR" org.dendrokin.io.batch.BatchBenchmark "$WORK/study" "$WORK/out" 1 2
+        java -Xmx4g -cp "$JAR" org.dendrokin.io.batch.BatchBenchmark "$WORK/study" "$WORK/out" 1 2
 else
     # One 1 GB movie is rendered (about a minute) and copied into 10 session folders.
     java -Xmx6g -cp "$JAR" org.dendrokin.io.batch.DemoStudy "$WORK/one" 1 512 512 2000
@@ -32,6 +32,6 @@ else
     rm -rf "$WORK/one"
     du -sh "$WORK/study"
     /usr/bin/time -f "process peak RSS %M KB, wall %e s" \
-        java -Xmx2g -cp "$JAR" org.dendrokin.io.batch.BatchBenchmark "$WORK/study" "$WORK/out" 2 --no-warm-up
+        java -Xmx8g -cp "$JAR" org.dendrokin.io.batch.BatchBenchmark "$WORK/study" "$WORK/out" 2 --no-warm-up
 fi
 uptime
