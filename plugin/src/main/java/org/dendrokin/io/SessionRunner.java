@@ -15,9 +15,9 @@ import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.kymo.KymographExtractor;
 import org.dendrokin.core.path.DendritePath;
 import org.dendrokin.core.preprocess.BackgroundEstimator;
+import org.dendrokin.core.preprocess.BaselineChange;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.spread.SpreadAnalysis;
-import org.dendrokin.core.units.Unit;
 import org.dendrokin.io.movie.Movie;
 import org.dendrokin.io.path.PathFiles;
 import org.dendrokin.io.session.ReportHtml;
@@ -167,10 +167,11 @@ public final class SessionRunner {
         warnings.addAll(pre.warnings());
 
         Kymograph signal = calibrate(config, pre, warnings);
-        double noise = pre.deltaF().typicalNoiseSd() * noiseScale(pre, signal);
+        BaselineChange.Result change = BaselineChange.of(signal, pre.baselineFirst(), pre.baselineLast());
         SpreadAnalysis.Result spread = null;
         if (pre.stimulus().known()) {
-            spread = SpreadAnalysis.measure(signal, pre.stimulus().timeS(), pre.stimulus().positionUm(), noise);
+            spread = SpreadAnalysis.measure(change.kymograph(), pre.stimulus().timeS(), pre.stimulus().positionUm(),
+                    change.noiseSd());
             warnings.addAll(spread.warnings());
         }
         List<JsonObject> fits = new ArrayList<>();
@@ -198,7 +199,8 @@ public final class SessionRunner {
 
     /**
      * The single place where the calibration turns the corrected signal into the analysed one. Method
-     * {@code "none"}: the signal is dF/F0.
+     * {@code "none"}: the signal is dF/F0. The spread measures then work on the change from each position's
+     * baseline median, so a calibrated signal with a resting level needs nothing more here.
      */
     static Kymograph calibrate(SessionConfig config, Preprocessing.Result pre, List<String> warnings) {
         if (!"none".equals(config.calibrationMethod())) {
@@ -206,11 +208,6 @@ public final class SessionRunner {
                     + "the signal is reported as dF/F0.");
         }
         return pre.deltaF().kymograph();
-    }
-
-    /** Converts the dF/F0 noise level into the analysed signal's unit (1 while the signal is dF/F0). */
-    private static double noiseScale(Preprocessing.Result pre, Kymograph signal) {
-        return Unit.DF_F0.symbol().equals(signal.signalUnit()) ? 1.0 : Double.NaN;
     }
 
     /**
