@@ -9,9 +9,13 @@ import java.util.Vector;
 
 import ij.IJ;
 import ij.ImagePlus;
+import ij.ImageStack;
+import ij.VirtualStack;
 import ij.WindowManager;
 import ij.gui.GenericDialog;
+import ij.io.FileInfo;
 import ij.io.FileSaver;
+import ij.io.TiffEncoder;
 import ij.plugin.PlugIn;
 
 import org.dendrokin.core.Progress;
@@ -183,8 +187,26 @@ public class Kymograph_Along_Line implements PlugIn {
         saveTiff(image, folder.resolve(stem + ".tif"));
     }
 
-    /** Saves an image as TIFF through a temporary name. */
+    /**
+     * Saves an image (a virtual stack too, plane by plane) as an ImageJ TIFF with its calibration, through a
+     * temporary name; unlike File > Save As, the image keeps its title and file.
+     */
     static void saveTiff(ImagePlus image, Path target) {
-        AtomicFiles.write(target, out -> out.write(new FileSaver(image).serialize()));
+        FileInfo fi = image.getFileInfo();
+        ImageStack stack = image.getStack();
+        if (stack.isVirtual()) {
+            fi.virtualStack = (VirtualStack) stack;
+            fi.pixels = null;
+        }
+        fi.description = new FileSaver(image).getDescriptionString();
+        fi.info = image.getInfoProperty();
+        if (stack.getSize() > 1 && stack.getSliceLabel(1) != null) {
+            String[] labels = new String[stack.getSize()];
+            for (int i = 1; i <= labels.length; i++) {
+                labels[i - 1] = stack.getSliceLabel(i);
+            }
+            fi.sliceLabels = labels;
+        }
+        AtomicFiles.write(target, out -> new TiffEncoder(fi).write(out));
     }
 }
