@@ -125,6 +125,46 @@ class MovieTest {
     }
 
     @Test
+    void convertsLengthAndTimeUnitsAndWarnsAboutNonSquarePixels() {
+        ImagePlus imp = TestMovies.stack(16, 8, 8, 3);
+        imp.setDimensions(1, 1, 3);
+        ij.measure.Calibration c = imp.getCalibration();
+        c.setUnit("nm");
+        c.pixelWidth = 150;
+        c.pixelHeight = 300;
+        c.frameInterval = 0.5;
+        c.setTimeUnit("min");
+        Path file = TestMovies.save(imp, dir.resolve("units.tif"));
+        try (Movie movie = Movie.open(file, null, null)) {
+            // REF: 1 nm = 1e-3 um, 1 min = 60 s (SI) [common practice]
+            // the TIFF keeps the resolution as a ratio of 32-bit integers: ImageJ's rounding is about 1e-4 relative
+            assertEquals(0.15, movie.pixelSizeUm(), 2e-4 * 0.15, "pixel size (um) from 150 nm");
+            assertEquals(30.0, movie.frameIntervalS(), 1e-12, "frame interval (s) from 0.5 min");
+            assertEquals(1, movie.warnings().size(), movie.warnings().toString());
+            assertTrue(movie.warnings().get(0).contains("not square"), movie.warnings().get(0));
+        }
+    }
+
+    @Test
+    void refusesColourAndFourDimensionalMovies() {
+        ij.ImageStack rgb = new ij.ImageStack(6, 6);
+        for (int i = 0; i < 3; i++) {
+            rgb.addSlice(new ij.process.ColorProcessor(6, 6));
+        }
+        Path colour = TestMovies.save(new ImagePlus("rgb", rgb), dir.resolve("rgb.tif"));
+        InputException e = assertThrows(InputException.class, () -> Movie.open(colour, 0.2, 0.1));
+        assertTrue(e.getMessage().startsWith(colour.toString()) && e.getMessage().contains("colour"), e.getMessage());
+
+        ImagePlus zt = TestMovies.stack(16, 6, 6, 3 * 4);
+        zt.setDimensions(1, 3, 4);
+        zt.setOpenAsHyperStack(true);
+        Path fourD = TestMovies.save(zt, dir.resolve("zt.tif"));
+        e = assertThrows(InputException.class, () -> Movie.open(fourD, 0.2, 0.1));
+        assertTrue(e.getMessage().startsWith(fourD.toString()) && e.getMessage().contains("z-slices at each of 4"),
+                e.getMessage());
+    }
+
+    @Test
     void refusesATruncatedTiff() throws IOException {
         ImagePlus imp = TestMovies.stack(16, 20, 10, 12);
         TestMovies.calibrate(imp, 0.5, 1, "sec");
