@@ -1,6 +1,6 @@
 package org.dendrokin.cli;
 
-import java.io.PrintStream;
+import java.io.PrintWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -19,8 +19,10 @@ import org.dendrokin.io.batch.Shard;
 import org.dendrokin.io.batch.SlurmPlan;
 
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
+import picocli.CommandLine.Spec;
 
 /**
  * The {@code batch} command: every session folder under a root, in parallel and resumable; or, for a
@@ -92,11 +94,17 @@ final class BatchCommand implements Callable<Integer> {
     /** The analysis each session gets; tests replace it. */
     SessionAnalyzer analyzer = SessionAnalyzers.standard();
 
-    /** Where the progress line goes; Main's error stream. */
-    PrintStream err = System.err;
+    /** Where the progress line and messages go: the command line's error stream unless a test sets it. */
+    PrintWriter err;
+
+    @Spec
+    CommandSpec spec;
 
     @Override
     public Integer call() {
+        if (err == null) {
+            err = spec.commandLine().getErr();
+        }
         if (merge != null) {
             if (root != null || out != null || planSlurm != null || shard != null) {
                 throw new InputException(null, "--merge OUT takes no ROOT, --out, --shard or --plan-slurm");
@@ -164,13 +172,13 @@ final class BatchCommand implements Callable<Integer> {
 
     /** The progress line on stderr: rewritten in place on a terminal, else at most one line every 2 s. */
     static final class ProgressLine {
-        private final PrintStream err;
+        private final PrintWriter err;
         private final boolean terminal = System.console() != null;
         private long lastNanos;
         private BatchStatus last;
         private boolean pending;
 
-        ProgressLine(PrintStream err) {
+        ProgressLine(PrintWriter err) {
             this.err = err;
         }
 

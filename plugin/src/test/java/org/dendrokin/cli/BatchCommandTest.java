@@ -22,7 +22,7 @@ class BatchCommandTest {
     /** Runs the batch command with a stand-in analysis that fails for sessions whose name starts with "bad". */
     private static int runWithStandIn(ByteArrayOutputStream err, String... args) {
         BatchCommand command = new BatchCommand();
-        command.err = new PrintStream(err, true, StandardCharsets.UTF_8);
+        command.err = new java.io.PrintWriter(new PrintStream(err, true, StandardCharsets.UTF_8), true);
         command.analyzer = (dir, out, progress) -> {
             if (dir.getFileName().toString().startsWith("bad")) {
                 throw new InputException(dir.resolve("session.json"), "the stand-in analysis rejects this session");
@@ -34,7 +34,8 @@ class BatchCommandTest {
             }
         };
         CommandLine cl = new CommandLine(command);
-        cl.setExecutionExceptionHandler((ex, line, parse) -> Main.report(ex, command.err, false));
+        cl.setExecutionExceptionHandler((ex, line, parse) -> Main.report(ex, new PrintStream(err, true,
+                StandardCharsets.UTF_8), false));
         return cl.execute(args);
     }
 

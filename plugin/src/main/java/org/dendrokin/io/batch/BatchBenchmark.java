@@ -39,7 +39,7 @@ public final class BatchBenchmark {
         if (warm) {
             Path warmStudy = base.resolve("warm-up-study");
             BatchRunner.deleteTree(warmStudy);
-            DemoStudy.write(warmStudy, 6, 96, 32, 120, 1L);
+            DemoStudy.write(warmStudy, 6, 128, 64, 100, 1L);
             pass(warmStudy, base.resolve("warm-up"), 2, 6, "warm-up");
         }
         for (int i = 2; i < last; i++) {

@@ -21,7 +21,8 @@ import org.dendrokin.io.demo.DemoSessionGenerator.Scenario;
  * decay rate is 0.05 1/s +- 15% everywhere.
  *
  * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.batch.DemoStudy OUT_DIR N [WIDTH HEIGHT FRAMES]}
- * (defaults 96 x 32 pixels, 120 frames, about 0.7 MB a movie).
+ * (defaults 128 x 64 pixels, 100 frames, about 1.6 MB a movie; smaller frames leave too few pixels away
+ * from the path to estimate the background).
  */
 public final class DemoStudy {
     private DemoStudy() {
@@ -34,9 +35,9 @@ public final class DemoStudy {
         }
         Path out = Path.of(args[0]);
         int n = Integer.parseInt(args[1]);
-        int w = args.length > 2 ? Integer.parseInt(args[2]) : 96;
-        int h = args.length > 3 ? Integer.parseInt(args[3]) : 32;
-        int frames = args.length > 4 ? Integer.parseInt(args[4]) : 120;
+        int w = args.length > 2 ? Integer.parseInt(args[2]) : 128;
+        int h = args.length > 3 ? Integer.parseInt(args[3]) : 64;
+        int frames = args.length > 4 ? Integer.parseInt(args[4]) : 100;
         write(out, n, w, h, frames, 20261201L);
         System.err.println("Wrote " + n + " sessions under " + out.toAbsolutePath());
     }

@@ -1,16 +1,14 @@
 package org.dendrokin.io.batch;
 
-import org.dendrokin.io.InputException;
+import org.dendrokin.io.SessionRunner;
 
 /** The session analysis a batch uses unless told otherwise. */
 public final class SessionAnalyzers {
     private SessionAnalyzers() {
     }
 
-    /** The same analysis as the {@code analyze} command. */
+    /** The same analysis as the {@code analyze} command ({@link SessionRunner#analyze}). */
     public static SessionAnalyzer standard() {
-        return (sessionDir, outDir, progress) -> {
-            throw new InputException(sessionDir, "the single-session analysis is not part of this build yet");
-        };
+        return SessionRunner::analyze;
     }
 }
