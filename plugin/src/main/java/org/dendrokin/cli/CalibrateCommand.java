@@ -59,8 +59,8 @@ final class CalibrateCommand implements Callable<Integer> {
                 w.println(String.format(Locale.ROOT, "  %-10s %.6g %s (95%% CI %.6g to %.6g)", e.name(), e.value(),
                         e.unit(), e.ci95Low(), e.ci95High()));
             }
-            w.println(String.format(Locale.ROOT, "  %d standards, residual SD %.4g", fit.dof() + StandardsFit.PARAMETERS,
-                    fit.residualSd()));
+            int m = fit.dof() + StandardsFit.PARAMETERS;
+            w.println(String.format(Locale.ROOT, "  %d standards, residual SD %.4g", m, fit.residualSd()));
         }
         built.warnings().forEach(s -> w.println("Warning: " + s));
         w.println("Wrote " + json + " and " + png);

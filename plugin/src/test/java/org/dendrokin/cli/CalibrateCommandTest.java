@@ -42,7 +42,8 @@ class CalibrateCommandTest {
         StringBuilder csv = new StringBuilder("concentration_uM,intensity\n");
         for (double c : new double[] {0, 0.03, 0.1, 0.3, 1, 3, 30}) {
             for (int r = 0; r < 3; r++) {
-                double f = 200 + 1800 * Math.pow(c, n) / (Math.pow(c, n) + Math.pow(k, n)) + noise * random.nextGaussian();
+                double bound = Math.pow(c, n) / (Math.pow(c, n) + Math.pow(k, n));
+                double f = 200 + 1800 * bound + noise * random.nextGaussian();
                 csv.append(String.format(Locale.ROOT, "%s,%.4f%n", c, f));
             }
         }

@@ -160,7 +160,8 @@ public final class CalibratedSessionGenerator {
             short[] pixels = new short[w * h];
             for (int k = 0; k < w * h; k++) {
                 double signal = profile[k] * INDICATOR.signal(concentrationMicromolar(arc[k], t));
-                double noisy = BACKGROUND + signal + Math.sqrt(signal + READ_NOISE * READ_NOISE) * random.nextGaussian();
+                double sd = Math.sqrt(signal + READ_NOISE * READ_NOISE);
+                double noisy = BACKGROUND + signal + sd * random.nextGaussian();
                 pixels[k] = (short) Math.max(0, Math.min(65535, Math.round(noisy)));
             }
             stack.addSlice(String.format(Locale.ROOT, "t=%.2f s", t), new ShortProcessor(w, h, pixels, null));

@@ -146,7 +146,8 @@ public final class SessionCalibration {
         o.addProperty("unit", cal.outputUnit().symbol());
         JsonObject constants = new JsonObject();
         for (Map.Entry<String, Double> e : cal.constants().entrySet()) {
-            constants.add(e.getKey(), Double.isFinite(e.getValue()) ? new JsonPrimitive(e.getValue()) : JsonNull.INSTANCE);
+            double v = e.getValue();
+            constants.add(e.getKey(), Double.isFinite(v) ? new JsonPrimitive(v) : JsonNull.INSTANCE);
         }
         o.add("constants", constants);
         o.add("source_file", setup.sourceFile() == null ? JsonNull.INSTANCE : new JsonPrimitive(setup.sourceFile()));

@@ -97,7 +97,8 @@ class CalibrationConfigTest {
         assertInstanceOf(MonotoneTable.class,
                 parse("{\"method\": \"standards\", \"table\": \"standards.csv\", \"monotone\": true}").calibration());
 
-        CalibrationBuilder.Built built = CalibrationBuilder.fromStandards(StandardsCsv.read(dir.resolve("standards.csv")),
+        Path table = dir.resolve("standards.csv");
+        CalibrationBuilder.Built built = CalibrationBuilder.fromStandards(StandardsCsv.read(table),
                 false, dir.resolve("standards.csv"), "standards.csv", null);
         CalibrationFile.write(built.json(), dir.resolve("calibration.json"));
         CalibrationSetup fromFile = parse("{\"method\": \"standards\", \"file\": \"calibration.json\"}");

@@ -41,7 +41,8 @@ class SessionCalibrationTest {
         assertEquals("single-wavelength", json.get("method").getAsString());
         assertEquals(0.345, json.getAsJsonObject("constants").get("kd_uM").getAsDouble(), 0.0);
         assertEquals(0.8, json.getAsJsonObject("thresholds").get("flag_saturation_above").getAsDouble(), 0.0);
-        assertEquals(1, json.getAsJsonObject("counts").get("nan_near_saturation").getAsLong(), "F = 960 is f = 0.956 > 0.95");
+        assertEquals(1, json.getAsJsonObject("counts").get("nan_near_saturation").getAsLong(),
+                "F = 960 is f = 0.956 > 0.95");
         assertTrue(json.get("uncertainty_propagated").getAsBoolean());
         assertTrue(SessionCalibration.sentence(s, a).startsWith("Single-wavelength calibration"));
     }
