@@ -83,16 +83,7 @@ public final class CalibratedSessionGenerator {
     /** Writes the four files into {@code dir}. */
     public static void write(Path dir) {
         writeTiff(render(), dir.resolve("dendrite.tif"));
-        float[] xs = new float[VX.length];
-        float[] ys = new float[VY.length];
-        for (int i = 0; i < xs.length; i++) {
-            xs[i] = (float) VX[i];
-            ys[i] = (float) VY[i];
-        }
-        PolygonRoi roi = new PolygonRoi(xs, ys, xs.length, Roi.POLYLINE);
-        roi.setName("dendrite");
-        byte[] roiBytes = RoiEncoder.saveAsByteArray(roi);
-        AtomicFiles.write(dir.resolve("dendrite.roi"), o -> o.write(roiBytes));
+        writeRoi(VX, VY, dir.resolve("dendrite.roi"));
         AtomicFiles.writeString(dir.resolve("standards.csv"), standards());
         AtomicFiles.writeString(dir.resolve("session.json"), String.format(Locale.ROOT, """
                 {
@@ -123,60 +114,139 @@ public final class CalibratedSessionGenerator {
         return csv.toString();
     }
 
-    private static ImagePlus render() {
-        int w = WIDTH_PX;
-        int h = HEIGHT_PX;
+    /**
+     * Arc length along the path (um) and relative dye brightness (flat top 1.4 um wide, Gaussian edges of SD
+     * 0.2 um) at each pixel centre of a w x h frame, row-major.
+     */
+    private static double[][] geometry(int w, int h, double[] vx, double[] vy) {
         double[] arc = new double[w * h];
         double[] profile = new double[w * h];
-        double[] cumulative = new double[VX.length];
-        for (int i = 1; i < VX.length; i++) {
-            cumulative[i] = cumulative[i - 1] + Math.hypot(VX[i] - VX[i - 1], VY[i] - VY[i - 1]);
+        double[] cumulative = new double[vx.length];
+        for (int i = 1; i < vx.length; i++) {
+            cumulative[i] = cumulative[i - 1] + Math.hypot(vx[i] - vx[i - 1], vy[i] - vy[i - 1]);
         }
         for (int j = 0; j < h; j++) {
             for (int i = 0; i < w; i++) {
                 double cx = i + 0.5;  // ImageJ pixel centre
                 double cy = j + 0.5;
                 double best = Double.POSITIVE_INFINITY;
-                for (int seg = 0; seg + 1 < VX.length; seg++) {
-                    double ex = VX[seg + 1] - VX[seg];
-                    double ey = VY[seg + 1] - VY[seg];
+                for (int seg = 0; seg + 1 < vx.length; seg++) {
+                    double ex = vx[seg + 1] - vx[seg];
+                    double ey = vy[seg + 1] - vy[seg];
                     double len2 = ex * ex + ey * ey;
-                    double u = Math.max(0, Math.min(1, ((cx - VX[seg]) * ex + (cy - VY[seg]) * ey) / len2));
-                    double d = Math.hypot(cx - VX[seg] - u * ex, cy - VY[seg] - u * ey);
+                    double u = Math.max(0, Math.min(1, ((cx - vx[seg]) * ex + (cy - vy[seg]) * ey) / len2));
+                    double d = Math.hypot(cx - vx[seg] - u * ex, cy - vy[seg] - u * ey);
                     if (d < best) {
                         best = d;
                         arc[j * w + i] = (cumulative[seg] + u * Math.sqrt(len2)) * PIXEL_UM;
                     }
                 }
-                double dUm = best * PIXEL_UM;
-                double edge = Math.max(0, dUm - 0.7);
+                double edge = Math.max(0, best * PIXEL_UM - 0.7);
                 profile[j * w + i] = Math.exp(-edge * edge / (2 * 0.2 * 0.2));
             }
         }
+        return new double[][] {arc, profile};
+    }
+
+    private static short noisyPixel(double signal, Random random) {
+        double sd = Math.sqrt(signal + READ_NOISE * READ_NOISE);
+        double noisy = BACKGROUND + signal + sd * random.nextGaussian();
+        return (short) Math.max(0, Math.min(65535, Math.round(noisy)));
+    }
+
+    private static ImagePlus render() {
+        int w = WIDTH_PX;
+        int h = HEIGHT_PX;
+        double[][] g = geometry(w, h, VX, VY);
         Random random = new Random(SEED);
         ImageStack stack = new ImageStack(w, h);
         for (int f = 0; f < FRAMES; f++) {
             double t = f * FRAME_S;
             short[] pixels = new short[w * h];
             for (int k = 0; k < w * h; k++) {
-                double signal = profile[k] * INDICATOR.signal(concentrationMicromolar(arc[k], t));
-                double sd = Math.sqrt(signal + READ_NOISE * READ_NOISE);
-                double noisy = BACKGROUND + signal + sd * random.nextGaussian();
-                pixels[k] = (short) Math.max(0, Math.min(65535, Math.round(noisy)));
+                pixels[k] = noisyPixel(g[1][k] * INDICATOR.signal(concentrationMicromolar(g[0][k], t)), random);
             }
             stack.addSlice(String.format(Locale.ROOT, "t=%.2f s", t), new ShortProcessor(w, h, pixels, null));
         }
-        ImagePlus imp = new ImagePlus("dendrite", stack);
-        imp.setDimensions(1, 1, FRAMES);
+        return calibrated(new ImagePlus("dendrite", stack), 1, FRAMES, FRAME_S);
+    }
+
+    /** The ratio indicator of {@link #writeRatio}: counts per unit brightness of free and bound dye. */
+    static final double FREE_1 = 150;
+    static final double BOUND_1 = 600;
+    static final double FREE_2 = 500;
+    static final double BOUND_2 = 100;
+    static final double RATIO_KD_UM = 0.224;
+
+    /**
+     * Writes a small two-channel session for the ratio method: the same concentration scenario seen through
+     * a ratiometric dye whose channel 1 brightens and channel 2 dims on binding (free and bound brightness
+     * 150 and 600 counts in channel 1, 500 and 100 in channel 2, Kd 0.224 uM; invented for the test), so that
+     * Rmin = 0.3, Rmax = 6 and beta = 5 exactly. 80 x 30 pixels, 40 frames; session.json uses the ratio method.
+     */
+    public static void writeRatio(Path dir) {
+        int w = 80;
+        int h = 30;
+        int frames = 40;
+        double[] vx = {4, 40, 76};
+        double[] vy = {15, 13, 16};
+        double[][] g = geometry(w, h, vx, vy);
+        Random random = new Random(SEED + 2);
+        ImageStack stack = new ImageStack(w, h);
+        for (int f = 0; f < frames; f++) {
+            double t = f * 0.1;
+            short[] c1 = new short[w * h];
+            short[] c2 = new short[w * h];
+            for (int k = 0; k < w * h; k++) {
+                double c = concentrationMicromolar(g[0][k], t);
+                double s = c / (c + RATIO_KD_UM);
+                c1[k] = noisyPixel(g[1][k] * (FREE_1 * (1 - s) + BOUND_1 * s), random);
+                c2[k] = noisyPixel(g[1][k] * (FREE_2 * (1 - s) + BOUND_2 * s), random);
+            }
+            stack.addSlice("c1", new ShortProcessor(w, h, c1, null));
+            stack.addSlice("c2", new ShortProcessor(w, h, c2, null));
+        }
+        ImagePlus imp = new ImagePlus("ratio", stack);
+        writeTiff(calibrated(imp, 2, frames, 0.1), dir.resolve("ratio.tif"));
+        writeRoi(vx, vy, dir.resolve("dendrite.roi"));
+        AtomicFiles.writeString(dir.resolve("session.json"), String.format(Locale.ROOT, """
+                {
+                  "movie": "ratio.tif",
+                  "path": "dendrite.roi",
+                  "frame_interval_s": 0.1,
+                  "background": {"value": %s},
+                  "bleach_correction": false,
+                  "stimulus": {"time_s": %s, "position_um": %s},
+                  "calibration": {"method": "ratio", "kd_uM": %s, "r_min": %s, "r_max": %s, "beta": %s}
+                }
+                """, BACKGROUND, STIMULUS_S, STIMULUS_AT_UM, RATIO_KD_UM, FREE_1 / FREE_2, BOUND_1 / BOUND_2,
+                FREE_2 / BOUND_2));
+    }
+
+    private static ImagePlus calibrated(ImagePlus imp, int channels, int frames, double frameIntervalS) {
+        imp.setDimensions(channels, 1, frames);
         imp.setOpenAsHyperStack(true);
         ij.measure.Calibration cal = new ij.measure.Calibration();
         cal.pixelWidth = PIXEL_UM;
         cal.pixelHeight = PIXEL_UM;
         cal.setUnit("micron");
-        cal.frameInterval = FRAME_S;
+        cal.frameInterval = frameIntervalS;
         cal.setTimeUnit("sec");
         imp.setCalibration(cal);
         return imp;
+    }
+
+    private static void writeRoi(double[] vx, double[] vy, Path target) {
+        float[] xs = new float[vx.length];
+        float[] ys = new float[vy.length];
+        for (int i = 0; i < xs.length; i++) {
+            xs[i] = (float) vx[i];
+            ys[i] = (float) vy[i];
+        }
+        PolygonRoi roi = new PolygonRoi(xs, ys, xs.length, Roi.POLYLINE);
+        roi.setName("dendrite");
+        byte[] roiBytes = RoiEncoder.saveAsByteArray(roi);
+        AtomicFiles.write(target, o -> o.write(roiBytes));
     }
 
     private static void writeTiff(ImagePlus imp, Path target) {
