@@ -18,6 +18,9 @@ import org.dendrokin.core.preprocess.BackgroundEstimator;
 import org.dendrokin.core.preprocess.BaselineChange;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.io.calib.CalibrationConfig;
+import org.dendrokin.io.calib.CalibrationSetup;
+import org.dendrokin.io.calib.SessionCalibration;
 import org.dendrokin.io.movie.Movie;
 import org.dendrokin.io.path.PathFiles;
 import org.dendrokin.io.session.ReportHtml;
@@ -86,7 +89,10 @@ public final class SessionRunner {
             throw new InputException(sessionDir, "is not a folder");
         }
         SessionConfig config = SessionConfig.read(sessionDir);
+        Path sessionFile = sessionDir.resolve(SessionConfig.FILE_NAME);
+        CalibrationSetup calibration = CalibrationConfig.parse(config.calibration(), sessionFile);
         List<String> warnings = new ArrayList<>(config.warnings());
+        warnings.addAll(calibration.warnings());
         Path movieFile = config.movie() != null ? sessionDir.resolve(config.movie()) : onlyFile(sessionDir,
                 "movie", "a TIFF movie", ".tif", ".tiff");
         if (!Files.isRegularFile(movieFile)) {
@@ -103,12 +109,15 @@ public final class SessionRunner {
         Inputs inputs;
         Extraction extraction;
         Preprocessing.Result pre;
+        Kymograph ratio = null;
         try (Movie movie = Movie.open(movieFile, config.pixelSizeUm(), config.frameIntervalS())) {
             warnings.addAll(movie.warnings());
             double px = movie.pixelSizeUm();
             double dt = movie.frameIntervalS();
-            FrameSource frames = movie.channel(0);
-            if (movie.channelCount() > 1) {
+            SessionCalibration.requireChannels(calibration, sessionFile, movieFile, movie.channelCount());
+            CalibrationSetup.RatioChannels channels = calibration.channels();
+            FrameSource frames = movie.channel(channels == null ? 0 : channels.numerator() - 1);
+            if (movie.channelCount() > 1 && channels == null) {
                 warnings.add(String.format(Locale.ROOT, "The movie has %d channels; the first was analysed.",
                         movie.channelCount()));
             }
@@ -121,37 +130,20 @@ public final class SessionRunner {
                 warnings.add(String.format(Locale.ROOT, "%.0f%% of the path lies outside the image; those positions "
                         + "are empty (NaN) in the kymograph.", 100 * extraction.fractionOutside()));
             }
-            double[] background = new double[movie.frameCount()];
-            String bgDescription;
-            double bgValue;
-            if (config.backgroundValue() != null) {
-                bgValue = config.backgroundValue();
-                java.util.Arrays.fill(background, bgValue);
-                bgDescription = "Given in session.json.";
-            } else if (config.backgroundRoi() != null) {
-                Path roiFile = sessionDir.resolve(config.backgroundRoi());
-                background = roiBackground(roiFile, frames, progress);
-                bgValue = org.dendrokin.core.preprocess.Robust.median(background);
-                bgDescription = "Mean of the pixels inside " + config.backgroundRoi()
-                        + ", frame by frame (the value shown is the median over frames).";
-            } else {
-                int n = movie.frameCount();
-                int span = Math.max(1, Math.min(n, Math.max(16, n / 4)));
-                int count = Math.min(16, span);
-                int[] picks = new int[count];
-                for (int i = 0; i < count; i++) {
-                    picks[i] = (int) Math.round(i * (span - 1.0) / Math.max(1, count - 1));
-                }
-                double minDistancePx = (config.pathWidthUm() / 2 + 3.0) / px;
-                BackgroundEstimator.Estimate est = BackgroundEstimator.fromFarPixels(frames, extraction.xPx(),
-                        extraction.yPx(), minDistancePx, picks, progress);
-                if (!Double.isFinite(est.value())) {
-                    throw new InputException(sessionDir.resolve(SessionConfig.FILE_NAME), est.description()
-                            + " Set key \"background\" to {\"value\": ...} or {\"roi\": \"file.roi\"}");
-                }
-                bgValue = est.value();
-                java.util.Arrays.fill(background, bgValue);
-                bgDescription = est.description();
+            Background bg = background(config, sessionDir, frames, extraction, px, progress);
+            double[] background = bg.perFrame();
+            double bgValue = bg.value();
+            String bgDescription = bg.description();
+            if (channels != null) {
+                FrameSource denominator = movie.channel(channels.denominator() - 1);
+                Kymograph denRaw = KymographExtractor.extract(denominator, path, px, dt, config.pathWidthUm(), px,
+                        progress).kymograph();
+                double[] numBg = channels.numeratorBackground() == null ? background
+                        : SessionCalibration.constant(channels.numeratorBackground(), movie.frameCount());
+                double[] denBg = channels.denominatorBackground() != null
+                        ? SessionCalibration.constant(channels.denominatorBackground(), movie.frameCount())
+                        : background(config, sessionDir, denominator, extraction, px, progress).perFrame();
+                ratio = SessionCalibration.ratio(extraction.kymograph(), numBg, denRaw, denBg);
             }
             Kymograph raw = extraction.kymograph();
             try {
@@ -166,7 +158,10 @@ public final class SessionRunner {
         }
         warnings.addAll(pre.warnings());
 
-        Kymograph signal = calibrate(config, pre, warnings);
+        SessionCalibration.Applied calibrated = SessionCalibration.apply(calibration, pre.bleach().corrected(),
+                pre.deltaF().kymograph(), ratio, pre.baselineFirst(), pre.baselineLast());
+        warnings.addAll(calibrated.warnings());
+        Kymograph signal = calibrated.signal();
         BaselineChange.Result change = BaselineChange.of(signal, pre.baselineFirst(), pre.baselineLast());
         SpreadAnalysis.Result spread = null;
         if (pre.stimulus().known()) {
@@ -184,30 +179,21 @@ public final class SessionRunner {
             throw new InputException(outDir, "cannot be created (" + e.getMessage() + ")", e);
         }
         KymographCsv.write(signal, outDir.resolve(KYMOGRAPH_CSV));
+        if (SessionCalibration.propagated(calibrated)) {
+            KymographCsv.write(calibrated.sdMicromolar(), outDir.resolve(SessionCalibration.SD_CSV));
+        }
         List<SessionPictures.Picture> pictures = SessionPictures.writeAll(outDir, inputs, pre, signal, spread);
         String session = sessionName(sessionDir);
         JsonObject results = ResultsJson.build(ToolVersion.get(), session, signal.signalUnit(),
                 KYMOGRAPH_CSV, signal.distanceStepUm(), signal.timeStepS(), fits, bestModel, spreadJson(spread),
-                extras(inputs, pre), warnings);
+                extras(inputs, pre, SessionCalibration.toJson(calibration, calibrated)), warnings);
         ResultsJson.write(results, outDir.resolve(RESULTS_JSON));
         Path report = outDir.resolve(REPORT_HTML);
-        ReportHtml.write(report, session, inputs, pre, signal, spread, fits, bestModel, pictures, warnings);
+        ReportHtml.write(report, session, inputs, pre, signal, SessionCalibration.sentence(calibration, calibrated),
+                spread, fits, bestModel, pictures, warnings);
         progress.report("writing results", 1, 1);
         return new Result(session, outDir, report, signal.signalUnit(), spread, pre.stimulus(), List.copyOf(fits),
                 bestModel, List.copyOf(warnings));
-    }
-
-    /**
-     * The single place where the calibration turns the corrected signal into the analysed one. Method
-     * {@code "none"}: the signal is dF/F0. The spread measures then work on the change from each position's
-     * baseline median, so a calibrated signal with a resting level needs nothing more here.
-     */
-    static Kymograph calibrate(SessionConfig config, Preprocessing.Result pre, List<String> warnings) {
-        if (!"none".equals(config.calibrationMethod())) {
-            warnings.add("Calibration method \"" + config.calibrationMethod() + "\" is not applied by this version; "
-                    + "the signal is reported as dF/F0.");
-        }
-        return pre.deltaF().kymograph();
     }
 
     /**
@@ -236,7 +222,7 @@ public final class SessionRunner {
         return o;
     }
 
-    private static JsonObject extras(Inputs in, Preprocessing.Result pre) {
+    private static JsonObject extras(Inputs in, Preprocessing.Result pre, JsonObject calibration) {
         JsonObject extra = new JsonObject();
         JsonObject movie = new JsonObject();
         movie.addProperty("file", in.sessionDir().relativize(in.movieFile()).toString());
@@ -278,8 +264,45 @@ public final class SessionRunner {
         bleach.add("time_constant", ResultsJson.estimate(pre.bleach().timeConstant()));
         extra.add("bleach_correction", bleach);
         extra.add("baseline_noise_sd_dF_F0", ResultsJson.finiteOrNull(pre.deltaF().typicalNoiseSd()));
-        extra.add("calibration", in.config().calibration());
+        extra.add("calibration", calibration);
         return extra;
+    }
+
+    /** Background of each frame (grey values), a representative value, and how it was found. */
+    private record Background(double[] perFrame, double value, String description) {
+    }
+
+    /** The session's background for one channel: given value, ROI mean frame by frame, or estimated. */
+    private static Background background(SessionConfig config, Path sessionDir, FrameSource frames,
+            Extraction extraction, double px, Progress progress) {
+        int n = frames.frameCount();
+        double[] background = new double[n];
+        if (config.backgroundValue() != null) {
+            java.util.Arrays.fill(background, config.backgroundValue());
+            return new Background(background, config.backgroundValue(), "Given in session.json.");
+        }
+        if (config.backgroundRoi() != null) {
+            Path roiFile = sessionDir.resolve(config.backgroundRoi());
+            background = roiBackground(roiFile, frames, progress);
+            return new Background(background, org.dendrokin.core.preprocess.Robust.median(background),
+                    "Mean of the pixels inside " + config.backgroundRoi()
+                    + ", frame by frame (the value shown is the median over frames).");
+        }
+        int span = Math.max(1, Math.min(n, Math.max(16, n / 4)));
+        int count = Math.min(16, span);
+        int[] picks = new int[count];
+        for (int i = 0; i < count; i++) {
+            picks[i] = (int) Math.round(i * (span - 1.0) / Math.max(1, count - 1));
+        }
+        double minDistancePx = (config.pathWidthUm() / 2 + 3.0) / px;
+        BackgroundEstimator.Estimate est = BackgroundEstimator.fromFarPixels(frames, extraction.xPx(),
+                extraction.yPx(), minDistancePx, picks, progress);
+        if (!Double.isFinite(est.value())) {
+            throw new InputException(sessionDir.resolve(SessionConfig.FILE_NAME), est.description()
+                    + " Set key \"background\" to {\"value\": ...} or {\"roi\": \"file.roi\"}");
+        }
+        java.util.Arrays.fill(background, est.value());
+        return new Background(background, est.value(), est.description());
     }
 
     private static float[] meanFrame(FrameSource frames, int first, int last) {

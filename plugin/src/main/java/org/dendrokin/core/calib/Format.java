@@ -23,6 +23,9 @@ final class Format {
     }
 
     static String percent(double fraction) {
+        if (fraction * 100 == Math.rint(fraction * 100)) {
+            return Math.round(fraction * 100) + "%";
+        }
         return String.format(Locale.ROOT, "%.2f%%", 100 * fraction);
     }
 }

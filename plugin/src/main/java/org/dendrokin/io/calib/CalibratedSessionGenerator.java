@@ -27,9 +27,9 @@ import ij.process.ShortProcessor;
  * <p>Scenario (our own, for demonstration; every number is invented): a dendrite with a flat-topped
  * cross-section 1.4 um wide is filled with a single-site indicator (K = 0.4 uM, n = 1) whose band-averaged,
  * background-subtracted brightness runs from Fmin = 60 to Fmax = 1500 counts. The resting concentration is
- * 0.06 uM. At 1.0 s a focal release at 12 um along the path adds a Gaussian of SD s0 = 1 um that spreads
+ * 0.06 uM. At 1.0 s a focal release at 12 um along the path adds a Gaussian of SD s0 = 1.5 um that spreads
  * by diffusion and decays at first order, c(s, t) = c0 + M / sqrt(2 pi (s0^2 + 2 D tau))
- * exp(-(s - s_stim)^2 / (2 (s0^2 + 2 D tau))) exp(-k tau) with D = 15 um^2/s and k = 1.5 1/s (Crank 1975;
+ * exp(-(s - s_stim)^2 / (2 (s0^2 + 2 D tau))) exp(-k tau) with D = 6 um^2/s and k = 1 1/s (Crank 1975;
  * sheet s2.2, s2.3). Its peak (3 uM) drives the indicator to 88% of its range, so the calibration flags the
  * centre of the response. The camera adds an offset of 100 counts, photon noise (variance = counts) and read
  * noise (SD 3 counts); there is no bleaching. The standards are the indicator's curve at nine concentrations
@@ -50,9 +50,9 @@ public final class CalibratedSessionGenerator {
     static final double RESTING_UM = 0.06;
     static final double STIMULUS_S = 1.0;
     static final double STIMULUS_AT_UM = 12;
-    static final double SIGMA0_UM = 1.0;
-    static final double D_UM2_PER_S = 15;
-    static final double K_PER_S = 1.5;
+    static final double SIGMA0_UM = 1.5;
+    static final double D_UM2_PER_S = 6;
+    static final double K_PER_S = 1.0;
     static final double PEAK_UM = 3.0;
     static final double[] VX = {8, 50, 100, 142};
     static final double[] VY = {22, 16, 24, 19};

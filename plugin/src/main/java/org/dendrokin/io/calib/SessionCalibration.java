@@ -2,6 +2,7 @@ package org.dendrokin.io.calib;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
@@ -27,7 +28,41 @@ import com.google.gson.JsonPrimitive;
  * the {@code calibration} object of results.json and the report's sentence. Used by the analyze pipeline.
  */
 public final class SessionCalibration {
+    /** The per-sample SD of the concentration, same layout as kymograph.csv, written when an SD was propagated. */
+    public static final String SD_CSV = "concentration_sd.csv";
+
     private SessionCalibration() {
+    }
+
+    /** An array of one value per frame. */
+    public static double[] constant(double value, int frames) {
+        double[] out = new double[frames];
+        Arrays.fill(out, value);
+        return out;
+    }
+
+    /**
+     * The ratio kymograph for the ratio method: each channel minus its background of that frame, numerator
+     * over denominator; NaN where the denominator is not positive.
+     *
+     * @param numerator   raw numerator-channel kymograph. Not modified.
+     * @param numBg       numerator background per frame. Not modified.
+     * @param denominator raw denominator-channel kymograph, same grid. Not modified.
+     * @param denBg       denominator background per frame. Not modified.
+     */
+    public static Kymograph ratio(Kymograph numerator, double[] numBg, Kymograph denominator, double[] denBg) {
+        return Calibrator.ratio(subtract(numerator, numBg), subtract(denominator, denBg));
+    }
+
+    private static Kymograph subtract(Kymograph k, double[] perFrame) {
+        int nx = k.positionCount();
+        double[] v = k.values();
+        for (int f = 0; f < k.frameCount(); f++) {
+            for (int p = 0; p < nx; p++) {
+                v[f * nx + p] -= perFrame[f];
+            }
+        }
+        return k.withValues(v, k.signalUnit());
     }
 
     /**
@@ -184,7 +219,7 @@ public final class SessionCalibration {
     }
 
     /** True when some sample got a positive SD from the calibration's own uncertainty. */
-    static boolean propagated(Applied applied) {
+    public static boolean propagated(Applied applied) {
         if (applied.sdMicromolar() == null) {
             return false;
         }

@@ -29,7 +29,7 @@ public final class ReportHtml {
 
     /** Writes the report. */
     public static void write(Path target, String session, SessionRunner.Inputs in, Preprocessing.Result pre,
-            Kymograph signal, SpreadAnalysis.Result spread, List<JsonObject> fits, String bestModel,
+            Kymograph signal, String calibration, SpreadAnalysis.Result spread, List<JsonObject> fits, String bestModel,
             List<SessionPictures.Picture> pictures, List<String> warnings) {
         StringBuilder h = new StringBuilder(16384);
         h.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<title>Dendrokin report: ")
@@ -71,7 +71,7 @@ public final class ReportHtml {
         row(h, "Baseline (F0)", String.format(Locale.ROOT, "median of frames %d to %d at each position",
                 pre.baselineFirst(), pre.baselineLast()));
         row(h, "Bleaching correction", bleach(in.config().bleachCorrection(), pre.bleach()));
-        row(h, "Calibration", esc(in.config().calibrationMethod()) + "; the signal is in " + esc(signal.signalUnit()));
+        row(h, "Calibration", esc(calibration) + " The analysed signal is in " + esc(signal.signalUnit()) + ".");
         h.append("</table>\n");
 
         h.append("<h2>Numbers</h2>\n<p>Model-free measures of the spread, read directly off the kymograph. The 95% "
