@@ -16,6 +16,9 @@ import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
+import com.google.gson.JsonObject;
+import com.google.gson.JsonParser;
+
 class AnalyzeCommandTest {
     private static final DemoSessionGenerator.Scenario TINY = new DemoSessionGenerator.Scenario(64, 32, 40, 0.25, 1.0,
             9.5, 6.0, 0.5, 0.05, 1.0, 1.5, 600, 100, 200, 3, 5L);
@@ -115,5 +118,24 @@ class AnalyzeCommandTest {
         assertEquals(Main.OK, r.status(), r.err());
         assertTrue(r.out().contains("Report: "), r.out());
         assertTrue(Files.isRegularFile(out.resolve("report.html")));
+    }
+
+    @Test
+    void settingsFromSessionJsonAreUsedAndReported() throws IOException {
+        Path s = copyWithSession("given", "{\"stimulus\": {\"time_s\": 9.5, \"position_um\": 6.0}, "
+                + "\"background\": {\"value\": 100}, \"baseline_frames\": [2, 8], \"bleach_correction\": false, "
+                + "\"colour\": \"green\"}");
+        Path out = dir.resolve("o-given");
+        Run r = run("analyze", s.toString(), "--out", out.toString());
+        assertEquals(Main.OK, r.status(), r.err());
+        JsonObject json = JsonParser.parseString(Files.readString(out.resolve("results.json"))).getAsJsonObject();
+        assertEquals("session.json", json.getAsJsonObject("stimulus").get("source").getAsString());
+        assertEquals(9.5, json.getAsJsonObject("stimulus").get("time_s").getAsDouble());
+        assertEquals(100.0, json.getAsJsonObject("background").get("value").getAsDouble());
+        assertEquals(2, json.getAsJsonArray("baseline_frames").get(0).getAsInt());
+        assertEquals(8, json.getAsJsonArray("baseline_frames").get(1).getAsInt());
+        assertFalse(json.getAsJsonObject("bleach_correction").get("applied").getAsBoolean());
+        assertTrue(json.getAsJsonArray("warnings").toString().contains("\\\"colour\\\""),
+                "unknown key reported: " + json.getAsJsonArray("warnings"));
     }
 }

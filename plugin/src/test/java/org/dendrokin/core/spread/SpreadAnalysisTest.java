@@ -82,4 +82,38 @@ class SpreadAnalysisTest {
         assertNull(r.decayTime());
         assertTrue(!r.warnings().isEmpty());
     }
+
+    private static double pulse(double x, double t, double x0) {
+        if (t < 1) {
+            return 0;
+        }
+        double var = 1 + 2 * 0.5 * (t - 1);
+        return 2 / Math.sqrt(var) * Math.exp(-Math.pow(x - x0, 2) / (2 * var)) * Math.exp(-0.1 * (t - 1));
+    }
+
+    @Test
+    void aStretchOfNaNIsSkippedWithoutHarm() {
+        Kymograph k = grid(200, 0.2, 120, 0.25, (x, t) -> x > 28 && x < 31 ? Double.NaN : pulse(x, t, 20));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, 20, 0.0);
+        // REF: Gaussian pulse variance s0^2 + 2 D t with D = 0.5 [published formula: Crank 1975]; sheet s2.2
+        assertEquals(0.5, r.apparentD().value(), 0.01, "apparent D with a NaN stretch, um^2/s");
+        assertTrue(r.frontSpeed() != null && r.lengthConstant() != null && r.decayTime() != null);
+    }
+
+    @Test
+    void aResponseAtTheVeryEndOfThePathIsMeasuredWithWarnings() {
+        Kymograph k = grid(100, 0.2, 120, 0.25, (x, t) -> pulse(x, t, 19.8));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, 19.8, 0.0);
+        assertNull(r.apparentD(), "no symmetric window at the path's end");
+        assertTrue(r.warnings().stream().anyMatch(w -> w.contains("end of the path")), r.warnings().toString());
+    }
+
+    @Test
+    void oneFrameAfterTheStimulusGivesNullsNotExceptions() {
+        Kymograph k = grid(100, 0.2, 20, 0.25, (x, t) -> pulse(x, t + 3.75, 10));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 4.75, 10, 0.01);
+        assertNull(r.frontSpeed());
+        assertNull(r.decayTime());
+        assertTrue(r.warnings().stream().anyMatch(w -> w.contains("too few")), r.warnings().toString());
+    }
 }
