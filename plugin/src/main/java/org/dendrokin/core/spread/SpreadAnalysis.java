@@ -223,9 +223,42 @@ public final class SpreadAnalysis {
             return null;
         }
         lines[0] = line.intercept();
+        slowingWarning(absD, arrival, warnings);
         double lo = Math.max(0, line.slopeLo95());
         return new Estimate(line.slope(), Unit.SPEED.symbol(), lo, line.slopeHi95(),
                 "Theil-Sen slope, Sen 1968 rank interval");
+    }
+
+    /**
+     * Compares the speed over the nearer and the farther half of the positions (Theil-Sen on each); a front that
+     * slows by more than half (as passive diffusion does, arrival growing with distance squared) or speeds up
+     * as much is not described by one speed.
+     */
+    private static void slowingWarning(double[] absD, double[] arrival, List<String> warnings) {
+        double[] sorted = absD.clone();
+        Arrays.sort(sorted);
+        double split = sorted[sorted.length / 2];
+        List<double[]> near = new ArrayList<>();
+        List<double[]> far = new ArrayList<>();
+        for (int i = 0; i < absD.length; i++) {
+            (absD[i] < split ? near : far).add(new double[] {arrival[i], absD[i]});
+        }
+        if (near.size() < 4 || far.size() < 4) {
+            return;
+        }
+        try {
+            double vNear = TheilSen.fit(column(near, 0), column(near, 1)).slope();
+            double vFar = TheilSen.fit(column(far, 0), column(far, 1)).slope();
+            if (vNear > 0 && vFar > 0 && (vNear / vFar > 1.5 || vFar / vNear > 1.5)) {
+                warnings.add(String.format(Locale.ROOT, "The front %s: about %.3g um/s over the nearer half of the "
+                        + "positions and %.3g um/s over the farther half. One front speed does not describe it; %s",
+                        vNear > vFar ? "slows down with distance" : "speeds up with distance", vNear, vFar,
+                        vNear > vFar ? "passive diffusion behaves this way (arrival time grows with the square of "
+                                + "the distance)." : "check for a regenerative wave or an effect of the path's end."));
+            }
+        } catch (IllegalArgumentException e) {
+            // too few distinct distances on one side: no comparison
+        }
     }
 
     private static Estimate lengthConstant(double[] distance, double[] peak, double[] lines, List<String> warnings) {

@@ -60,7 +60,7 @@ public final class ReportHtml {
                 + " um long; averaged over a band " + number(in.config().pathWidthUm()) + " um wide; "
                 + signal.positionCount() + " positions every " + number(signal.distanceStepUm())
                 + " um from the first vertex");
-        row(h, "Background", number(in.backgroundValue()) + " grey values. " + esc(in.backgroundDescription()));
+        row(h, "Background", String.format(Locale.ROOT, "%.1f", in.backgroundValue()) + " grey values. " + esc(in.backgroundDescription()));
         Preprocessing.Stimulus s = pre.stimulus();
         String stim = s.known() ? "t = " + number(s.timeS()) + " s at " + number(s.positionUm())
                 + " um along the path (" + esc(s.source()) + ")" : "none given or found";

@@ -119,18 +119,27 @@ public final class SessionPictures {
                     + "exponential decay after the peak gives the decay time."));
         }
         if (spread.apparentD() != null) {
-            double[] line = new double[spread.timesS().length];
+            int from = -1;
+            int to = -1;
+            for (int i = 0; i < spread.variance().length; i++) {
+                if (Double.isFinite(spread.variance()[i])) {
+                    from = from < 0 ? i : from;
+                    to = i;
+                }
+            }
+            double[] t = Arrays.copyOfRange(spread.timesS(), from, to + 1);
+            double[] var = Arrays.copyOfRange(spread.variance(), from, to + 1);
+            double[] line = new double[t.length];
             for (int i = 0; i < line.length; i++) {
-                line[i] = Double.isFinite(spread.variance()[i])
-                        ? spread.lines()[2] + 2 * spread.apparentD().value() * spread.timesS()[i] : Double.NaN;
+                line[i] = spread.lines()[2] + 2 * spread.apparentD().value() * t[i];
             }
             LinePlot p = new LinePlot("Spatial variance of the profile", "time after the stimulus (s)",
-                    "variance (um^2)").points("variance", spread.timesS(), spread.variance())
+                    "variance (um^2)").points("variance of the fitted Gaussian", t, var)
                     .line(String.format(Locale.ROOT, "s0^2 + 2 D t, D = %s um^2/s", fmt(spread.apparentD().value())),
-                            spread.timesS(), line);
+                            t, line);
             Pictures.savePng(p.render(W, H), outDir.resolve("spatial-variance.png"));
-            out.add(new Picture("spatial-variance.png", "Spatial variance", "Variance of the profile about its "
-                    + "centre over the frames used; under diffusion it grows by 2 D per second."));
+            out.add(new Picture("spatial-variance.png", "Spatial variance", "Variance of a Gaussian fitted to each "
+                    + "frame's profile, over the frames used; under diffusion it grows by 2 D per second."));
         }
         return out;
     }

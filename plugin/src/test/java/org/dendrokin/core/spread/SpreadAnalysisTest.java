@@ -40,6 +40,18 @@ class SpreadAnalysisTest {
         assertTrue(r.frontSpeed().lo95() <= v && v <= r.frontSpeed().hi95(), "interval holds the speed");
         assertTrue(r.warnings().stream().anyMatch(w -> w.contains("end of the path")),
                 "a front that runs off the path is flagged: " + r.warnings());
+        assertTrue(r.warnings().stream().noneMatch(w -> w.contains("slows down")), "a steady front does not slow");
+    }
+
+    @Test
+    void aFrontWhoseArrivalGrowsWithDistanceSquaredIsFlaggedAsSlowing() {
+        double x0 = 10;
+        // Half-maximum passes distance d at t = 1 + d^2 / 4, the diffusive law t ~ d^2 / (4 D) with D = 1.
+        Kymograph k = grid(121, 0.25, 400, 0.05,
+                (x, t) -> 1 / (1 + Math.exp(-(t - 1 - Math.pow(x - x0, 2) / 4) / 0.1)));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, x0, 0.0);
+        // REF: diffusive spreading: arrival time grows with distance squared [common practice]; sheet s2.5
+        assertTrue(r.warnings().stream().anyMatch(w -> w.contains("slows down")), r.warnings().toString());
     }
 
     @Test
@@ -70,6 +82,7 @@ class SpreadAnalysisTest {
         assertTrue(r.varianceWindowS()[1] > r.varianceWindowS()[0], "a time window is reported");
         // REF: total amount decays as exp(-k t) under first-order decay [published: Crank 1975]; sheet s2.3
         assertEquals(1 / kPerS, r.decayTime().value(), 1e-6, "decay time, s");
+
     }
 
     @Test
