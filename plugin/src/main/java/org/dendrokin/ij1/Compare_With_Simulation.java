@@ -19,6 +19,8 @@ import ij.process.FloatProcessor;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.compare.ModelComparison;
+import org.dendrokin.io.compare.ModelComparison.Comparison;
 import org.dendrokin.io.plot.ColourScale;
 import org.dendrokin.io.plot.Heatmap;
 
@@ -30,11 +32,6 @@ import org.dendrokin.io.plot.Heatmap;
  */
 public class Compare_With_Simulation implements PlugIn {
     static final String COMMAND = "Compare with Simulation";
-
-    /** What a comparison produced. */
-    record Comparison(Kymograph measured, Kymograph simulated, Kymograph residual, double rmse,
-            SpreadAnalysis.Result measuredSpread, SpreadAnalysis.Result simulatedSpread) {
-    }
 
     @Override
     public void run(String arg) {
@@ -53,9 +50,9 @@ public class Compare_With_Simulation implements PlugIn {
             if (!d.show()) {
                 return;
             }
-            ModelSettings model = ModelSettings.read(d);
+            ModelComparison.Settings model = ModelSettings.read(d);
             String folder = d.nextText();
-            Comparison c = compare(measured, model, progress);
+            Comparison c = ModelComparison.compare(measured, model, progress);
             ImagePlus stack = stack(c, current.getShortTitle() + " vs " + model.model());
             ResultsTable table = table(c, model);
             if (!folder.isEmpty()) {
@@ -74,45 +71,6 @@ public class Compare_With_Simulation implements PlugIn {
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
         }
-    }
-
-    /** Simulates on the measured grid and measures both the same way. */
-    static Comparison compare(Kymograph measured, ModelSettings model, org.dendrokin.core.Progress progress) {
-        Kymograph simulated = model.simulateOn(measured, progress);
-        double[] m = measured.values();
-        double[] s = simulated.values();
-        double[] r = new double[m.length];
-        double sum = 0;
-        int n = 0;
-        for (int i = 0; i < m.length; i++) {
-            r[i] = m[i] - s[i];
-            if (Double.isFinite(r[i])) {
-                sum += r[i] * r[i];
-                n++;
-            }
-        }
-        Kymograph residual = measured.withValues(r, measured.signalUnit());
-        double noise = baselineSd(measured, model.stimulusTimeS());
-        SpreadAnalysis.Result ms = SpreadAnalysis.measure(measured, model.stimulusTimeS(), model.stimulusUm(), noise);
-        SpreadAnalysis.Result ss = SpreadAnalysis.measure(simulated, model.stimulusTimeS(), model.stimulusUm(), noise);
-        return new Comparison(measured, simulated, residual, n > 0 ? Math.sqrt(sum / n) : Double.NaN, ms, ss);
-    }
-
-    /** Standard deviation of the finite samples before the stimulus (NaN if there are fewer than two). */
-    static double baselineSd(Kymograph k, double stimulusTimeS) {
-        double sum = 0;
-        double sum2 = 0;
-        int n = 0;
-        for (int f = 0; f < k.frameCount() && k.timeS(f) < stimulusTimeS; f++) {
-            for (double v : k.row(f)) {
-                if (Double.isFinite(v)) {
-                    sum += v;
-                    sum2 += v * v;
-                    n++;
-                }
-            }
-        }
-        return n > 1 ? Math.sqrt(Math.max(0, (sum2 - sum * sum / n) / (n - 1))) : Double.NaN;
     }
 
     /** Measured, simulated and residual as one three-slice stack with one display range. */
@@ -135,7 +93,7 @@ public class Compare_With_Simulation implements PlugIn {
     }
 
     /** The numbers a user compares: residual norm, front speed and length constant of each. */
-    static ResultsTable table(Comparison c, ModelSettings model) {
+    static ResultsTable table(Comparison c, ModelComparison.Settings model) {
         ResultsTable t = Tables.quantities();
         String unit = c.measured().signalUnit();
         Tables.add(t, "measured - simulated", "RMSE", c.rmse(), unit, Double.NaN, Double.NaN, "root mean square of"
@@ -158,7 +116,7 @@ public class Compare_With_Simulation implements PlugIn {
     }
 
     /** Profiles along the path at four times after the stimulus: measured as points, simulated as lines. */
-    static Plot profilePlot(Comparison c, ModelSettings model) {
+    static Plot profilePlot(Comparison c, ModelComparison.Settings model) {
         Kymograph m = c.measured();
         Plot plot = new Plot("Profiles: measured (points) and " + model.model() + " (lines)",
                 "distance along the path (um)", "signal (" + m.signalUnit() + ")");

@@ -7,6 +7,7 @@ import ij.plugin.PlugIn;
 
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.path.DendritePath;
+import org.dendrokin.io.compare.ModelComparison;
 
 /**
  * Plugins > Dendrokin > Simulate Along Line: runs a built-in reaction-diffusion model along the dendrite and
@@ -33,9 +34,9 @@ public class Simulate_Along_Line implements PlugIn {
             if (!d.show()) {
                 return;
             }
-            ModelSettings model = ModelSettings.read(d);
+            ModelComparison.Settings model = ModelSettings.read(d);
             String folder = d.nextText();
-            Kymograph simulated = model.simulateOn(grid, progress);
+            Kymograph simulated = ModelComparison.simulateOn(grid, model, progress);
             ImagePlus image = KymographImage.toImage(simulated, current.getShortTitle() + " simulated " + model.model());
             image.setProp("dendrokin.model", model.toString());
             if (!folder.isEmpty()) {
