@@ -128,9 +128,9 @@ public final class BatchReport {
     }
 
     private static void sessionSection(StringBuilder html, Path out, SummaryTable table) {
-        html.append("<h2>Sessions</h2>\n<table><tr><th>session</th><th>group</th><th>status</th>")
-                .append("<th>best model</th><th>fitted parameters (95% interval)</th><th>front speed</th>")
-                .append("<th>length constant</th><th>warnings</th><th>pictures</th></tr>\n");
+        html.append("<h2 id=\"sessions\">Sessions</h2>\n<table><tr><th>session</th><th>group</th><th>status</th>")
+                .append("<th>best model</th><th>its parameters (95% interval)</th><th>front speed (95% interval)</th>")
+                .append("<th>length constant (95% interval)</th><th>warnings</th><th>kymograph and fits</th></tr>\n");
         Map<String, Map<String, String>> rowsById = new TreeMap<>();
         for (Map<String, String> r : table.rows()) {
             rowsById.put(r.get("session"), r);
@@ -182,9 +182,9 @@ public final class BatchReport {
                 String suffix = unit.isEmpty() ? "" : " [" + unit + "]";
                 String lo = row.getOrDefault(prefix + rest + " ci95 low" + suffix, "");
                 String hi = row.getOrDefault(prefix + rest + " ci95 high" + suffix, "");
-                s.append(esc(rest)).append(" = ").append(esc(c.getValue()));
+                s.append(esc(rest)).append(" = ").append(shortNumber(c.getValue()));
                 if (!lo.isEmpty()) {
-                    s.append(" (").append(esc(lo)).append(", ").append(esc(hi)).append(")");
+                    s.append(" (").append(shortNumber(lo)).append(", ").append(shortNumber(hi)).append(")");
                 }
                 s.append(unit.isEmpty() ? "" : " " + esc(unit)).append("<br>");
             }
@@ -196,15 +196,47 @@ public final class BatchReport {
         for (Map.Entry<String, String> c : row.entrySet()) {
             if ((c.getKey().equals(name) || c.getKey().startsWith(name + " [")) && !c.getValue().isEmpty()) {
                 int b = c.getKey().indexOf(" [");
-                return esc(c.getValue()) + (b >= 0 ? " " + esc(c.getKey().substring(b + 2, c.getKey().length() - 1))
-                        : "");
+                String unit = b >= 0 ? c.getKey().substring(b + 2, c.getKey().length() - 1) : "";
+                String suffix = unit.isEmpty() ? "" : " [" + unit + "]";
+                String lo = row.getOrDefault(name + " ci95 low" + suffix, "");
+                String hi = row.getOrDefault(name + " ci95 high" + suffix, "");
+                return shortNumber(c.getValue()) + (lo.isEmpty() ? "" : " (" + shortNumber(lo) + ", "
+                        + shortNumber(hi) + ")") + (unit.isEmpty() ? "" : " " + esc(unit));
             }
         }
         return "";
     }
 
-    /** PNG files of a session's results, the kymograph first. */
+    /** A number from the table to 4 significant digits for reading; anything else as it is. */
+    private static String shortNumber(String text) {
+        try {
+            double v = Double.parseDouble(text);
+            return Double.isFinite(v) ? num(v) : esc(text);
+        } catch (NumberFormatException e) {
+            return esc(text);
+        }
+    }
+
+    /**
+     * The pictures shown as thumbnails: the session's kymograph ({@code kymograph.png}) and every picture of a
+     * fit (a name containing "fit"); the session's own report shows the rest.
+     */
     static List<String> pictures(Path dir) {
+        List<String> all = allPictures(dir);
+        List<String> shown = new ArrayList<>();
+        for (String name : all) {
+            if (name.equals("kymograph.png") || name.contains("fit")) {
+                shown.add(name);
+            }
+        }
+        if (shown.isEmpty() && !all.isEmpty()) {
+            shown.add(all.get(0));
+        }
+        return shown;
+    }
+
+    /** PNG files of a session's results, the kymograph first. */
+    static List<String> allPictures(Path dir) {
         List<String> names = new ArrayList<>();
         if (!java.nio.file.Files.isDirectory(dir)) {
             return names;
