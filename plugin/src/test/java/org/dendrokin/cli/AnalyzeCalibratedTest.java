@@ -103,6 +103,20 @@ class AnalyzeCalibratedTest {
         assertEquals(0.06, restingMedian(k, 8), 0.009, "resting concentration (uM) through the ratio");
     }
 
+    @Test
+    void aSavedCalibrationFileIsUsedByReference() throws IOException {
+        Path s = session("{\"method\": \"file\", \"file\": \"calibration.json\"}");
+        assertEquals(0, run("calibrate", s.resolve("standards.csv").toString(), "--out", s.toString()), stderr());
+        Path o = dir.resolve("out");
+        assertEquals(0, run("analyze", s.toString(), "--out", o.toString()), stderr());
+        JsonObject cal = JsonParser.parseString(Files.readString(o.resolve("results.json"))).getAsJsonObject()
+                .getAsJsonObject("calibration");
+        assertEquals("calibration.json", cal.get("source_file").getAsString());
+        // Same fit as from the table itself (K = 0.399 uM on the shipped standards), read back from the file.
+        assertEquals(0.399, cal.getAsJsonObject("constants").get("k_half_uM").getAsDouble(), 0.001);
+        assertTrue(cal.get("uncertainty_propagated").getAsBoolean(), "covariance read from the file");
+    }
+
     private void assertBad(Path session, String... fragments) {
         assertEquals(2, run("analyze", session.toString(), "--out", dir.resolve("bad-out").toString()), stderr());
         String e = stderr();
