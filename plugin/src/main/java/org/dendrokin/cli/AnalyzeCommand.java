@@ -27,7 +27,8 @@ final class AnalyzeCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        SessionRunner.Result result = DemoCommand.run(sessionDir.toPath(), outDir.toPath(), System.err);
+        SessionRunner.Result result = DemoCommand.run(sessionDir.toPath(), outDir.toPath(),
+                spec.commandLine().getErr());
         spec.commandLine().getOut().println(DemoCommand.summary(result));
         return Main.OK;
     }

@@ -2,7 +2,7 @@ package org.dendrokin.cli;
 
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.PrintStream;
+import java.io.PrintWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
@@ -51,7 +51,7 @@ final class DemoCommand implements Callable<Integer> {
             unpack(session);
         }
         try {
-            SessionRunner.Result result = run(session, outDir, System.err);
+            SessionRunner.Result result = run(session, outDir, spec.commandLine().getErr());
             spec.commandLine().getOut().println(summary(result));
         } finally {
             if (temp != null) {
@@ -62,7 +62,7 @@ final class DemoCommand implements Callable<Integer> {
     }
 
     /** Runs one analysis with a progress line on {@code err}. */
-    static SessionRunner.Result run(Path session, Path out, PrintStream err) {
+    static SessionRunner.Result run(Path session, Path out, PrintWriter err) {
         TerminalProgress progress = new TerminalProgress(err);
         try {
             return SessionRunner.analyze(session, out, progress);

@@ -1,6 +1,6 @@
 package org.dendrokin.cli;
 
-import java.io.PrintStream;
+import java.io.PrintWriter;
 import java.util.Locale;
 
 import org.dendrokin.core.Progress;
@@ -11,12 +11,12 @@ import org.dendrokin.core.Progress;
  */
 final class TerminalProgress implements Progress {
     private static final long MIN_INTERVAL_NS = 200_000_000L;
-    private final PrintStream err;
+    private final PrintWriter err;
     private long lastNs;
     private String lastStage = "";
     private boolean dirty;
 
-    TerminalProgress(PrintStream err) {
+    TerminalProgress(PrintWriter err) {
         this.err = err;
     }
 

@@ -94,13 +94,13 @@ public final class SessionRunner {
         List<String> warnings = new ArrayList<>(config.warnings());
         warnings.addAll(calibration.warnings());
         Path movieFile = config.movie() != null ? sessionDir.resolve(config.movie()) : onlyFile(sessionDir,
-                "movie", "a TIFF movie", ".tif", ".tiff");
+                "movie", "a TIFF movie", null, ".tif", ".tiff");
         if (!Files.isRegularFile(movieFile)) {
             throw new InputException(sessionDir.resolve(SessionConfig.FILE_NAME),
                     "key \"movie\" names " + config.movie() + ", which is not in the session folder");
         }
         Path pathFile = config.path() != null ? sessionDir.resolve(config.path()) : onlyFile(sessionDir, "path",
-                "an ImageJ .roi path", ".roi");
+                "an ImageJ .roi path", config.backgroundRoi(), ".roi");
         if (!Files.isRegularFile(pathFile)) {
             throw new InputException(sessionDir.resolve(SessionConfig.FILE_NAME),
                     "key \"path\" names " + config.path() + ", which is not in the session folder");
@@ -361,11 +361,15 @@ public final class SessionRunner {
         return out;
     }
 
-    private static Path onlyFile(Path dir, String key, String what, String... suffixes) {
+    /** The only file with one of the suffixes, leaving out {@code exclude} (a name another key already uses). */
+    private static Path onlyFile(Path dir, String key, String what, String exclude, String... suffixes) {
         List<Path> found;
         try (Stream<Path> files = Files.list(dir)) {
             found = files.filter(Files::isRegularFile).filter(p -> {
                 String name = p.getFileName().toString().toLowerCase(Locale.ROOT);
+                if (exclude != null && p.getFileName().toString().equals(exclude)) {
+                    return false;
+                }
                 for (String s : suffixes) {
                     if (name.endsWith(s) && !name.startsWith(".")) {
                         return true;

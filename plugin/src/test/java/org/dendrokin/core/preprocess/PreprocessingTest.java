@@ -154,4 +154,15 @@ class PreprocessingTest {
         assertTrue(r.deltaF().unusable() > 0);
         assertTrue(r.warnings().stream().anyMatch(w -> w.contains("zero or negative")), r.warnings().toString());
     }
+
+    @Test
+    void aGivenTimeIsKeptAndOnlyThePositionIsDetected() {
+        Kymograph k = raw(100, Double.POSITIVE_INFINITY, 1.0, 5.0, 9);
+        Preprocessing.Result r = Preprocessing.run(k, constant(100), new Preprocessing.Options(19.0, null, null, false));
+        assertEquals("session.json and detected", r.stimulus().source());
+        assertEquals(19.0, r.stimulus().timeS(), 0.0, "the given time, s");
+        // REF: the generating pulse is centred at 7 um [common practice: synthetic truth]
+        assertEquals(7.0, r.stimulus().positionUm(), DX, "detected position, um");
+        assertEquals(37, r.baselineLast(), "frames before 19 s");
+    }
 }
