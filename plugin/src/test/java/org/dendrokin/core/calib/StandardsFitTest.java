@@ -7,6 +7,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.Random;
 
+import org.junit.jupiter.api.Tag;
 import org.junit.jupiter.api.Test;
 
 class StandardsFitTest {
@@ -57,12 +58,29 @@ class StandardsFitTest {
         assertTrue(covered[1] >= 180, "n inside its 95% interval in " + covered[1] + " of 200");
     }
 
+    @Tag("slow")
+    @Test
+    void coverageStaysNearNominalOverAThousandReplicatesAndTwoDesigns() {
+        for (int replicatesPerLevel : new int[] {1, 3}) {
+            int[] covered = coverage(1000, 77L + replicatesPerLevel, replicatesPerLevel, 0.3);
+            // Binomial SD of 95% coverage over 1000 fits is 0.7%: 92% to 97.5% allows for the linearisation.
+            for (int k = 0; k < 2; k++) {
+                assertTrue(covered[k] >= 920 && covered[k] <= 975, (k == 0 ? "K" : "n") + " covered in "
+                        + covered[k] + " of 1000 with " + replicatesPerLevel + " replicate(s) per level");
+            }
+        }
+    }
+
     /** Counts, over seeded replicates, how often K and n lie inside their 95% intervals. */
     static int[] coverage(int replicates, long seed) {
+        return coverage(replicates, seed, 3, 0.15);
+    }
+
+    static int[] coverage(int replicates, long seed, int perLevel, double noiseSd) {
         Random random = new Random(seed);
         int[] covered = new int[2];
         for (int r = 0; r < replicates; r++) {
-            StandardsFit.Result fit = StandardsFit.fit(synthetic(TRUTH, LEVELS, 3, 0.15, random));
+            StandardsFit.Result fit = StandardsFit.fit(synthetic(TRUTH, LEVELS, perLevel, noiseSd, random));
             assertNotNull(fit.calibration(), "replicate " + r + " produced a fit");
             StandardsFit.Estimate k = fit.estimates().get(2);
             StandardsFit.Estimate n = fit.estimates().get(3);
