@@ -1,5 +1,6 @@
 package org.dendrokin.io.calib;
 
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -146,6 +147,7 @@ public final class CalibrationConfig {
             throw k.bad("file", "cannot be given together with calibration.table; give one of them");
         }
         if (fileName != null) {
+            k.requireFile("file", dir.resolve(fileName));
             Calibration c = CalibrationFile.read(dir.resolve(fileName));
             return new CalibrationSetup(c, limits, fileName, null, warnings);
         }
@@ -156,6 +158,7 @@ public final class CalibrationConfig {
                     + "calibration file written by the calibrate command");
         }
         Path table = dir.resolve(tableName);
+        k.requireFile("table", table);
         Standards standards = StandardsCsv.read(table);
         boolean monotone = k.bool("monotone");
         CalibrationBuilder.Built built = CalibrationBuilder.fromStandards(standards, monotone, table, tableName,
@@ -173,6 +176,13 @@ public final class CalibrationConfig {
         Keys(Path file, JsonObject block) {
             this.file = file;
             this.block = block;
+        }
+
+        void requireFile(String key, Path path) {
+            if (!Files.isRegularFile(path)) {
+                throw new InputException(file, "key \"calibration." + key + "\" names " + block.get(key)
+                        + ", which is not in the session folder");
+            }
         }
 
         String fileName() {

@@ -53,6 +53,15 @@ class CalibratorTest {
     }
 
     @Test
+    void signalNoiseAddsInQuadratureToTheCalibrationSd() {
+        double signal = 700;
+        double fromKd = cal.concentrationSdMicromolar(signal);
+        double fromSignal = cal.derivative(signal) * 12;
+        // REF: independent errors add in quadrature, sd^2 = sd_cal^2 + (dc/dF sd_F)^2 [common practice]
+        assertEquals(Math.hypot(fromKd, fromSignal), cal.concentrationSdMicromolar(signal, 12), 1e-15);
+    }
+
+    @Test
     void summariesAddUp() {
         CalibrationSummary a = Calibrator.apply(cal, SaturationLimits.DEFAULT, new double[] {550, 1500}).summary();
         CalibrationSummary b = Calibrator.apply(cal, SaturationLimits.DEFAULT, new double[] {865}).summary();

@@ -128,6 +128,16 @@ class CalibrationConfigTest {
     }
 
     @Test
+    void aMissingTableOrFileNamesTheKey() {
+        InputException e = bad("{\"method\": \"standards\", \"table\": \"absent.csv\"}");
+        assertTrue(e.getMessage().contains("session.json") && e.getMessage().contains("calibration.table")
+                && e.getMessage().contains("absent.csv"), e.getMessage());
+        e = bad("{\"method\": \"file\", \"file\": \"absent.json\"}");
+        assertTrue(e.getMessage().contains("calibration.file") && e.getMessage().contains("absent.json"),
+                e.getMessage());
+    }
+
+    @Test
     void aBrokenCalibrationFileNamesItsKey() throws IOException {
         Files.writeString(dir.resolve("calibration.json"), "{\"dendrokin_calibration\": 1, \"method\": \"standards\", "
                 + "\"form\": \"hill\", \"constants\": {\"f_min\": 1, \"f_max\": 10, \"n\": 2}}");
