@@ -5,11 +5,11 @@ import java.io.InputStream;
 import java.io.PrintWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.util.Locale;
 import java.util.concurrent.Callable;
 
 import org.dendrokin.core.spread.Estimate;
+import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.SessionRunner;
 import org.dendrokin.io.session.ReportHtml;
@@ -21,8 +21,8 @@ import picocli.CommandLine.Model.CommandSpec;
 
 /**
  * {@code demo [--out OUT_DIR]}: analyses the demo session shipped in {@code test-images/demo-session} (looked for
- * under the working directory, else the copy inside the jar, unpacked to a temporary folder) and prints where
- * the report is.
+ * under the working directory, else the copy inside the jar, unpacked into {@code OUT_DIR/demo-session}) and
+ * prints where the report is.
  */
 @Command(name = "demo", mixinStandardHelpOptions = true,
         description = "Analyse the demo session shipped with Dendrokin and print where the report is.")
@@ -41,23 +41,15 @@ final class DemoCommand implements Callable<Integer> {
     @Override
     public Integer call() throws IOException {
         Path local = Path.of(DEMO_DIR);
-        Path session;
-        Path temp = null;
-        if (Files.isRegularFile(local.resolve("session.json"))) {
-            session = local;
-        } else {
-            temp = Files.createTempDirectory("dendrokin-demo-session");
-            session = temp.resolve("demo-session");
+        Path session = local;
+        if (!Files.isRegularFile(local.resolve("session.json"))) {
+            // Away from the repository: unpack the copy inside the jar into the output folder, so that nothing is
+            // written outside it and the analysed inputs stay beside the report.
+            session = outDir.resolve("demo-session");
             unpack(session);
         }
-        try {
-            SessionRunner.Result result = run(session, outDir, spec.commandLine().getErr());
-            spec.commandLine().getOut().println(summary(result));
-        } finally {
-            if (temp != null) {
-                deleteTree(temp);
-            }
-        }
+        SessionRunner.Result result = run(session, outDir, spec.commandLine().getErr());
+        spec.commandLine().getOut().println(summary(result));
         return Main.OK;
     }
 
@@ -102,16 +94,10 @@ final class DemoCommand implements Callable<Integer> {
                     throw new InputException(null, "the demo session is missing from this build (" + name
                             + "); run the command from the repository's root folder");
                 }
-                Files.copy(in, dir.resolve(name), StandardCopyOption.REPLACE_EXISTING);
+                byte[] bytes = in.readAllBytes();
+                AtomicFiles.write(dir.resolve(name), o -> o.write(bytes));
             }
         }
     }
 
-    private static void deleteTree(Path root) throws IOException {
-        try (var walk = Files.walk(root)) {
-            for (Path p : walk.sorted(java.util.Comparator.reverseOrder()).toList()) {
-                Files.deleteIfExists(p);
-            }
-        }
-    }
 }

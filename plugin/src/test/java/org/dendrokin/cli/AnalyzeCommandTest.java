@@ -122,6 +122,7 @@ class AnalyzeCommandTest {
         assertEquals(Main.OK, r.status(), r.err());
         assertTrue(r.out().contains("Report: "), r.out());
         assertTrue(Files.isRegularFile(out.resolve("report.html")));
+        assertTrue(Files.isRegularFile(out.resolve("demo-session/session.json")), "inputs unpacked inside --out");
     }
 
     @Test

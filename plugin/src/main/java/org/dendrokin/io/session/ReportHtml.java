@@ -64,7 +64,10 @@ public final class ReportHtml {
         Preprocessing.Stimulus s = pre.stimulus();
         String stim = s.known() ? "t = " + number(s.timeS()) + " s at " + number(s.positionUm())
                 + " um along the path (" + esc(s.source()) + ")" : "none given or found";
-        if (s.detection() != null) {
+        if (s.detection() != null && s.known()) {
+            stim += String.format(Locale.ROOT, "; the rise at the onset was %.1f times the noise standard deviation",
+                    s.detection().strength());
+        } else if (s.detection() != null) {
             stim += ". " + esc(s.detection().describe());
         }
         row(h, "Stimulus", stim);
