@@ -163,6 +163,7 @@ public final class SessionRunner {
         warnings.addAll(calibrated.warnings());
         Kymograph signal = calibrated.signal();
         BaselineChange.Result change = BaselineChange.of(signal, pre.baselineFirst(), pre.baselineLast());
+        progress.checkCancelled();
         SpreadAnalysis.Result spread = null;
         if (pre.stimulus().known()) {
             spread = SpreadAnalysis.measure(change.kymograph(), pre.stimulus().timeS(), pre.stimulus().positionUm(),
@@ -172,6 +173,7 @@ public final class SessionRunner {
         List<JsonObject> fits = new ArrayList<>();
         String bestModel = fitModels(config, signal, pre, spread, fits, warnings);
 
+        progress.checkCancelled();
         progress.report("writing results", 0, 1);
         try {
             Files.createDirectories(outDir);
