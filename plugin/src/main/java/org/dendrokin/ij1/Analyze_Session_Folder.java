@@ -44,7 +44,7 @@ public class Analyze_Session_Folder implements PlugIn {
             SessionRunner.Result result = SessionRunner.analyze(sessionDir, outDir, progress);
             result.warnings().forEach(w -> IJ.log(COMMAND + " (" + result.session() + "): " + w));
             Kymograph k = KymographCsv.read(outDir.resolve(SessionRunner.KYMOGRAPH_CSV), result.signalUnit());
-            ImagePlus image = KymographImage.toImage(k, result.session() + " " + result.signalUnit());
+            ImagePlus image = KymographImage.toImage(k, result.session());
             Display.showKymograph(image);
             Tables.show(table(result), "Dendrokin session " + result.session());
             progress.finish(COMMAND + ": results in " + outDir);

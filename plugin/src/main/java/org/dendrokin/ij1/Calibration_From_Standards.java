@@ -182,9 +182,19 @@ public class Calibration_From_Standards implements PlugIn {
         }
         plot.setLogScaleX();
         if (built.fit() != null) {
+            // both edges of the band as one series, broken by NaN, so that the legend names it once
+            double[] bx = new double[2 * n + 1];
+            double[] by = new double[2 * n + 1];
+            for (int i = 0; i < n; i++) {
+                bx[i] = x[i];
+                by[i] = bandLo[i];
+                bx[n + 1 + i] = x[i];
+                by[n + 1 + i] = bandHi[i];
+            }
+            bx[n] = Double.NaN;
+            by[n] = Double.NaN;
             plot.setColor(new Color(150, 180, 230));
-            plot.add("line", x, bandLo);
-            plot.add("line", x, bandHi);
+            plot.add("line", bx, by);
         }
         plot.setColor(new Color(210, 90, 30));
         plot.setLineWidth(2);
@@ -202,7 +212,7 @@ public class Calibration_From_Standards implements PlugIn {
         plot.add("circle", px.stream().mapToDouble(Double::doubleValue).toArray(),
                 py.stream().mapToDouble(Double::doubleValue).toArray());
         plot.setColor(Color.BLACK);
-        plot.addLegend(built.fit() == null ? "curve\nstandards" : "95% band\n \nfitted Hill curve\nstandards");
+        plot.addLegend(built.fit() == null ? "curve\nstandards" : "95% band of the curve\nfitted Hill curve\nstandards");
         plot.setFrameSize(520, 320);
         return plot;
     }

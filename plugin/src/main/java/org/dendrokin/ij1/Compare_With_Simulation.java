@@ -53,7 +53,8 @@ public class Compare_With_Simulation implements PlugIn {
             ModelComparison.Settings model = ModelSettings.read(d);
             String folder = d.nextText();
             Comparison c = ModelComparison.compare(measured, model, progress);
-            ImagePlus stack = stack(c, current.getShortTitle() + " vs " + model.model());
+            ImagePlus stack = stack(c, current.getShortTitle() + " vs " + model.model() + " (" + measured.signalUnit()
+                    + ")");
             ResultsTable table = table(c, model);
             if (!folder.isEmpty()) {
                 Path dir = Path.of(folder);

@@ -100,7 +100,7 @@ public class Convert_To_Concentration implements PlugIn {
                 if (channels) {
                     d.number("Numerator channel", 1, 0);
                     d.number("Denominator channel", 2, 0);
-                    d.number("Denominator background (intensity)", 0, 3);
+                    d.number("Offset subtracted from the denominator (intensity)", 0, 3);
                 }
             }
             case "calibration file" -> d.file("Calibration (JSON written by Calibration from Standards)", "");
@@ -188,7 +188,7 @@ public class Convert_To_Concentration implements PlugIn {
         }
         Calibrator.CalibratedKymograph c = Calibrator.apply(calibration, limits, k.withValues(v, k.signalUnit()));
         log(c.summary(), calibration, image.getTitle());
-        ImagePlus out = KymographImage.toImage(c.values(), image.getShortTitle() + " uM");
+        ImagePlus out = KymographImage.toImage(c.values(), image.getShortTitle() + " concentration");
         out.setProp("dendrokin.calibration", calibration.description());
         return out;
     }

@@ -37,12 +37,31 @@ final class Display {
         placeBeside(image.getWindow(), source == null ? null : source.getWindow());
     }
 
-    /** Adds ImageJ's calibration bar as an overlay at the upper right, scaled back for the zoom. */
+    /**
+     * Adds ImageJ's calibration bar as an overlay at the upper right (early frames far from the stimulus, the
+     * least telling corner), small enough to leave the data visible; its text is sized for the zoom so it reads
+     * at about 12 screen pixels. The unit is in the window title.
+     */
     static void calibrationBar(ImagePlus image, double zoom) {
-        double barZoom = Math.max(0.5, Math.min(1.0, image.getHeight() / 260.0));
+        double barZoom = Math.max(0.4, Math.min(1.0, 0.55 * image.getHeight() / 128.0));
+        double range = image.getDisplayRangeMax() - image.getDisplayRangeMin();
+        int decimals = range >= 100 ? 0 : range >= 10 ? 1 : range >= 1 ? 2 : 3;
         IJ.run(image, "Calibration Bar...", String.format(Locale.ROOT,
-                "location=[Upper Right] fill=White label=Black number=5 decimal=2 font=%d zoom=%.2f overlay show",
-                Math.max(7, (int) Math.round(12 / zoom)), barZoom));
+                "location=[Upper Right] fill=White label=Black number=3 decimal=%d font=%d zoom=%.2f overlay",
+                decimals, Math.max(6, (int) Math.round(12 / zoom)), barZoom));
+    }
+
+    /** Opens a dialog to the right of the image's window, so that a preview drawn on the image stays visible. */
+    static void besideImage(ij.gui.GenericDialog dialog, ImagePlus image) {
+        ImageWindow w = image.getWindow();
+        if (w == null) {
+            return;
+        }
+        Rectangle b = w.getBounds();
+        if (b.x + b.width + 660 <= IJ.getScreenSize().width) {
+            dialog.centerDialog(false);
+            dialog.setLocation(b.x + b.width + 8, b.y);
+        }
     }
 
     /** Moves {@code window} to the right of {@code anchor} if it fits on the screen, else below it. */

@@ -41,7 +41,7 @@ public final class KymographImage {
         FloatProcessor fp = new FloatProcessor(w, h, pixels);
         fp.setLut(lut(scale));
         fp.setMinAndMax(range[0], range[1]);
-        ImagePlus image = new ImagePlus(title, fp);
+        ImagePlus image = new ImagePlus(title + " (" + (k.signalUnit().isEmpty() ? "no unit" : k.signalUnit()) + ")", fp);
         image.setCalibration(calibration(k));
         image.setProp(PROPERTY, "distance (um) across, time (s) down, values in " + k.signalUnit());
         return image;

@@ -80,13 +80,14 @@ public class Kymograph_Along_Line implements PlugIn {
             List<LineSelection> lines = LineSelection.collect(movie, settings.source());
             for (LineSelection line : lines) {
                 Extraction extraction = extract(movie, line, settings, progress);
-                ImagePlus image = KymographImage.toImage(extraction.kymograph(), title(movie, line, lines.size()));
+                String title = title(movie, line, lines.size());
+                ImagePlus image = KymographImage.toImage(extraction.kymograph(), title);
                 if (extraction.samplesOutside() > 0) {
                     IJ.log(COMMAND + ": " + String.format(Locale.ROOT, "%.0f%%", 100 * extraction.fractionOutside())
                             + " of the path '" + line.name() + "' lies outside the image; those columns are NaN.");
                 }
                 if (!settings.saveFolder().isEmpty()) {
-                    save(image, extraction, Path.of(settings.saveFolder()));
+                    save(title, image, extraction, Path.of(settings.saveFolder()));
                 }
                 Display.showKymograph(image);
             }
@@ -110,7 +111,7 @@ public class Kymograph_Along_Line implements PlugIn {
         LineSelection.Source suggested = LineSelection.suggestedSource(movie);
         double lineWidthPx = 1;
         if (movie.getRoi() != null && LineSelection.isPath(movie.getRoi())) {
-            lineWidthPx = Math.max(1, movie.getRoi().getStrokeWidth());
+            lineWidthPx = LineSelection.of(movie.getRoi(), "selection").widthPx();
         }
         double band = pixel > 0 ? lineWidthPx * pixel : 1.0;
         OptionsDialog d = new OptionsDialog(COMMAND, "kymograph");
@@ -131,6 +132,7 @@ public class Kymograph_Along_Line implements PlugIn {
                 return true;
             });
             previewBand(d.generic(), movie, outline);
+            Display.besideImage(d.generic(), movie);
         }
         boolean ok;
         try {
@@ -181,8 +183,8 @@ public class Kymograph_Along_Line implements PlugIn {
     }
 
     /** Writes the kymograph as the contract's CSV and as a calibrated TIFF, each through a temporary name. */
-    static void save(ImagePlus image, Extraction extraction, Path folder) {
-        String stem = image.getTitle().replaceAll("[^A-Za-z0-9._ ()-]", "_").replace(' ', '_');
+    static void save(String title, ImagePlus image, Extraction extraction, Path folder) {
+        String stem = title.replaceAll("[^A-Za-z0-9._()-]", "_");
         KymographCsv.write(extraction.kymograph(), folder.resolve(stem + ".csv"));
         saveTiff(image, folder.resolve(stem + ".tif"));
     }

@@ -62,7 +62,9 @@ public record LineSelection(String name, Roi roi, double widthPx) {
                     + " selection"));
         }
         String name = roi.getName() != null ? roi.getName() : fallbackName;
-        double width = Math.max(1.0, roi.getStrokeWidth());
+        // a line's own width, else ImageJ's line width setting (Edit > Options > Line Width), as its profiles do
+        double stroke = roi.getStrokeWidth();
+        double width = Math.max(1.0, stroke > 1 ? stroke : Line.getWidth());
         return new LineSelection(name, roi, width);
     }
 

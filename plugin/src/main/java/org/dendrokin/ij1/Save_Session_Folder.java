@@ -103,8 +103,7 @@ public class Save_Session_Folder implements PlugIn {
         if (movieFile == null) {
             json.addProperty("movie", "movie.tif");
         } else {
-            json.addProperty("movie", dir.relativize(movieFile.toAbsolutePath().normalize()).toString()
-                    .replace('\\', '/'));
+            json.addProperty("movie", reference(dir, movieFile));
         }
         json.addProperty("path", "path.roi");
         json.addProperty("path_width_um", bandWidthUm);
@@ -134,7 +133,7 @@ public class Save_Session_Folder implements PlugIn {
                 throw new IllegalArgumentException("the calibration file " + calFile + " does not exist");
             }
             cal.addProperty("method", "standards");
-            cal.addProperty("file", dir.relativize(calFile).toString().replace('\\', '/'));
+            cal.addProperty("file", reference(dir, calFile));
         }
         json.add("calibration", cal);
 
@@ -146,6 +145,22 @@ public class Save_Session_Folder implements PlugIn {
         // session.json last: the folder counts as a session only once everything it names is there
         AtomicFiles.writeString(sessionJson, new GsonBuilder().setPrettyPrinting().create().toJson(json) + "\n");
         SessionConfig.read(dir);
+    }
+
+    /**
+     * How session.json names a file: relative to the session folder when it lies in the folder or next to it
+     * (so the folders can move together), else its absolute path.
+     */
+    static String reference(Path dir, Path file) {
+        Path abs = file.toAbsolutePath().normalize();
+        Path rel = dir.relativize(abs);
+        int ups = 0;
+        for (Path part : rel) {
+            if (part.toString().equals("..")) {
+                ups++;
+            }
+        }
+        return (ups <= 1 ? rel : abs).toString().replace('\\', '/');
     }
 
     private static double number(String text, String what) {

@@ -23,7 +23,7 @@ final class Tables {
     /** A new table with the columns our rows use. */
     static ResultsTable quantities() {
         ResultsTable table = new ResultsTable();
-        table.setPrecision(-4);
+        table.setPrecision(4);
         table.showRowNumbers(false);
         table.setNaNEmptyCells(true);
         return table;

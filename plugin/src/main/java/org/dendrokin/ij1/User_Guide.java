@@ -5,7 +5,6 @@ import java.util.Map;
 import ij.IJ;
 import ij.gui.HTMLDialog;
 import ij.plugin.PlugIn;
-import ij.text.TextWindow;
 
 /**
  * Plugins > Dendrokin > User Guide: shows a chapter of the user guide from the jar in a text window.
@@ -43,7 +42,7 @@ public class User_Guide implements PlugIn {
             if (OptionsDialog.headless()) {
                 IJ.log(text);
             } else {
-                new TextWindow("Dendrokin guide: " + title, text, 760, 640);
+                new HTMLDialog("Dendrokin guide: " + title, GuideHtml.toHtml(text), false);
             }
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);

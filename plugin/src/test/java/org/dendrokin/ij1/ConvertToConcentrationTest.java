@@ -62,6 +62,24 @@ class ConvertToConcentrationTest {
     }
 
     @Test
+    void twoChannelMovieByTheRatioMethod() {
+        ImageStack stack = new ImageStack(1, 1);
+        for (int t = 0; t < 2; t++) {
+            stack.addSlice(new FloatProcessor(1, 1, new float[] {150}));
+            stack.addSlice(new FloatProcessor(1, 1, new float[] {110}));
+        }
+        ImagePlus movie = new ImagePlus("two channels", stack);
+        movie.setDimensions(2, 1, 2);
+        ImagePlus out = runOn(movie, "method=ratio background=0 flag=0.8 reject=0.95 kd=0.224 rmin=0.3 rmax=6"
+                + " beta=5 numerator=1 denominator=2 offset=10");
+        float[] t1 = (float[]) out.getStack().getProcessor(1).getPixels();
+        // R = 150 / (110 - 10) = 1.5
+        // REF: Grynkiewicz, Poenie & Tsien 1985, ratio form, Kd 224 nM, Rmin 0.3, Rmax 6.0, beta 5, R 1.5 ->
+        // 298.6667 nM [published: GPT85]; sheet s1.2
+        assertEquals(0.2986667, t1[0], 1e-6, "concentration, uM");
+    }
+
+    @Test
     void ratioOnASingleChannelMovieIsRefusedInOneSentence() {
         ImageStack stack = new ImageStack(2, 1);
         stack.addSlice(new FloatProcessor(2, 1));

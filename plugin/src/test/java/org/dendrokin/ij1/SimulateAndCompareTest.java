@@ -65,7 +65,7 @@ class SimulateAndCompareTest {
         Kymograph g = grid(0);
         ImagePlus result = runOn(KymographImage.toImage(g, "measured"), "Simulate Along Line...", MODEL);
         assertNotSame(null, result);
-        assertEquals("measured simulated nagumo", result.getTitle());
+        assertEquals("measured simulated nagumo (dF/F0)", result.getTitle());
         Kymograph simulated = KymographImage.fromImage(result);
         assertArrayEquals(g.distancesUm(), simulated.distancesUm(), 1e-12, "distances, um");
         assertArrayEquals(g.timesS(), simulated.timesS(), 1e-12, "times, s");

@@ -1,0 +1,2 @@
+run("User Guide...", "chapter=[Working in ImageJ]");
+run("About Dendrokin");

@@ -1,0 +1,2 @@
+openDemoWithSegmentedLine();
+call("MenuOpener.openLater", "Plugins", "Dendrokin");
