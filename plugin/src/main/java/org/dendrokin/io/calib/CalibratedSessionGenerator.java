@@ -12,6 +12,7 @@ import org.dendrokin.io.AtomicFiles;
 
 import ij.ImagePlus;
 import ij.ImageStack;
+import ij.Prefs;
 import ij.gui.PolygonRoi;
 import ij.gui.Roi;
 import ij.io.FileSaver;
@@ -254,13 +255,17 @@ public final class CalibratedSessionGenerator {
             Path dir = target.toAbsolutePath().getParent();
             Files.createDirectories(dir);
             Path tmp = Files.createTempFile(dir, ".dendrite.", ".tif");
+            // ImageJ's byte order is a global preference; fix it so that the same scenario gives the same bytes.
+            boolean intel = Prefs.intelByteOrder;
             try {
+                Prefs.intelByteOrder = true;
                 if (!new FileSaver(imp).saveAsTiffStack(tmp.toString())) {
                     throw new IOException("ImageJ could not save the stack");
                 }
                 byte[] bytes = Files.readAllBytes(tmp);
                 AtomicFiles.write(target, o -> o.write(bytes));
             } finally {
+                Prefs.intelByteOrder = intel;
                 Files.deleteIfExists(tmp);
             }
         } catch (IOException e) {
