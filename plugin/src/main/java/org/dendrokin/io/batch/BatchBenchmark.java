@@ -14,8 +14,10 @@ import org.dendrokin.core.Progress;
  * Benchmark (run by hand, not a test): analyses every session under STUDY once per thread count, each time
  * into a fresh output folder with every session forced, after a warm-up pass over 6 small demo sessions of
  * its own (in OUT_BASE/warm-up-study; skipped with --no-warm-up), and prints wall time,
- * sessions per second, the peak Java heap (sum of the heap pools' peaks, reset before each pass) and the
- * process's peak resident memory so far (VmHWM).
+ * sessions per second, the peak Java heap (sum of the heap pools' peaks, reset before each pass), the peaks of
+ * the process's anonymous and file-backed resident memory during the pass (RssAnon, RssFile, sampled every
+ * 50 ms; file-backed pages are movie pages mapped from the page cache, which the system can drop at any time)
+ * and the process's peak resident memory so far (VmHWM).
  *
  * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.batch.BatchBenchmark STUDY OUT_BASE THREADS...
  * [--no-warm-up]}
@@ -55,10 +57,26 @@ public final class BatchBenchmark {
         for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
             pool.resetPeakUsage();
         }
+        long[] peakRss = new long[2];  // anonymous, file-backed (kB), sampled every 50 ms
+        Thread sampler = new Thread(() -> {
+            while (!Thread.currentThread().isInterrupted()) {
+                long[] now = rss();
+                peakRss[0] = Math.max(peakRss[0], now[0]);
+                peakRss[1] = Math.max(peakRss[1], now[1]);
+                try {
+                    Thread.sleep(50);
+                } catch (InterruptedException e) {
+                    return;
+                }
+            }
+        });
+        sampler.setDaemon(true);
+        sampler.start();
         long t0 = System.nanoTime();
         BatchOutcome o = BatchRunner.run(BatchOptions.of(study, out, threads).withForce(true),
                 SessionAnalyzers.standard(), Progress.NONE, s -> { });
         double seconds = (System.nanoTime() - t0) * 1e-9;
+        sampler.interrupt();
         long peak = 0;
         for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
             if (pool.getType() == MemoryType.HEAP && pool.getPeakUsage() != null) {
@@ -66,8 +84,26 @@ public final class BatchBenchmark {
             }
         }
         System.out.printf(Locale.ROOT, "%-12s %d analysed, %d failed: %.2f s, %.2f sessions/s, peak heap %d MB, "
-                        + "peak RSS so far %s%n", label, o.analysed(), o.failed(), seconds, sessions / seconds,
-                peak >> 20, vmHwm());
+                        + "peak anonymous RSS %d MB, peak file-backed RSS %d MB (mapped movie pages), "
+                        + "process peak RSS so far %s%n", label, o.analysed(), o.failed(), seconds, sessions / seconds,
+                peak >> 20, peakRss[0] >> 10, peakRss[1] >> 10, vmHwm());
+    }
+
+    /** RssAnon and RssFile of this process, kB (0 where /proc is not there). */
+    private static long[] rss() {
+        long[] out = new long[2];
+        try {
+            for (String line : Files.readAllLines(Path.of("/proc/self/status"))) {
+                if (line.startsWith("RssAnon:")) {
+                    out[0] = Long.parseLong(line.replaceAll("[^0-9]", ""));
+                } else if (line.startsWith("RssFile:")) {
+                    out[1] = Long.parseLong(line.replaceAll("[^0-9]", ""));
+                }
+            }
+        } catch (IOException | RuntimeException e) {
+            return out;
+        }
+        return out;
     }
 
     private static String vmHwm() {
