@@ -23,7 +23,11 @@ final class Display {
 
     /** Shows a kymograph image: zoomed so that its longer side is about 420 screen pixels, with a colour bar. */
     static void showKymograph(ImagePlus image) {
-        ImagePlus source = WindowManager.getCurrentImage();
+        showKymograph(image, WindowManager.getCurrentImage());
+    }
+
+    /** As {@link #showKymograph(ImagePlus)}, placed beside {@code source} (e.g. the previous kymograph). */
+    static void showKymograph(ImagePlus image, ImagePlus source) {
         image.show();
         if (OptionsDialog.headless() || image.getWindow() == null) {
             return;
@@ -43,12 +47,15 @@ final class Display {
      * at about 12 screen pixels. The unit is in the window title.
      */
     static void calibrationBar(ImagePlus image, double zoom) {
-        double barZoom = Math.max(0.4, Math.min(1.0, 0.55 * image.getHeight() / 128.0));
+        // the bar's size follows the image's smaller side, so a narrow kymograph keeps most of its width
+        double barZoom = Math.max(0.3, Math.min(1.0, Math.min(0.55 * image.getHeight() / 128.0,
+                0.3 * image.getWidth() / 64.0)));
+        int screenFont = image.getWidth() < 120 ? 10 : 12;
         double range = image.getDisplayRangeMax() - image.getDisplayRangeMin();
         int decimals = range >= 100 ? 0 : range >= 10 ? 1 : range >= 1 ? 2 : 3;
         IJ.run(image, "Calibration Bar...", String.format(Locale.ROOT,
                 "location=[Upper Right] fill=White label=Black number=3 decimal=%d font=%d zoom=%.2f overlay",
-                decimals, Math.max(6, (int) Math.round(12 / zoom)), barZoom));
+                decimals, Math.max(5, (int) Math.round(screenFont / zoom)), barZoom));
     }
 
     /** Opens a dialog to the right of the image's window, so that a preview drawn on the image stays visible. */

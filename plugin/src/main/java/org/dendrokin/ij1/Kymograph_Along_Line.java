@@ -78,6 +78,7 @@ public class Kymograph_Along_Line implements PlugIn {
                 return;
             }
             List<LineSelection> lines = LineSelection.collect(movie, settings.source());
+            ImagePlus previous = movie;
             for (LineSelection line : lines) {
                 Extraction extraction = extract(movie, line, settings, progress);
                 String title = title(movie, line, lines.size());
@@ -89,7 +90,9 @@ public class Kymograph_Along_Line implements PlugIn {
                 if (!settings.saveFolder().isEmpty()) {
                     save(title, image, extraction, Path.of(settings.saveFolder()));
                 }
-                Display.showKymograph(image);
+                // several kymographs go side by side rather than on top of each other
+                Display.showKymograph(image, previous);
+                previous = image;
             }
             progress.finish(COMMAND + ": " + lines.size() + (lines.size() == 1 ? " kymograph" : " kymographs") + " made.");
         } catch (RuntimeException e) {
