@@ -67,7 +67,7 @@ public final class BatchRunner {
         List<SessionFolder> mine = found;
         if (options.shard() != null) {
             ShardPlan plan = ShardPlan.read(out);
-            if (plan == null || !plan.root().equals(root.toString())) {
+            if (plan == null || !plan.root().equals(root.toString()) || plan.count() != options.shard().count()) {
                 plan = ShardPlan.split(root, found, options.shard().count());
             }
             mine = plan.select(found, options.shard());

@@ -105,6 +105,22 @@ class ShardAndMergeTest {
     }
 
     @Test
+    void shardsOfAnotherCountThanThePlanSplitAfresh(@TempDir Path tmp) {
+        Path root = tmp.resolve("study");
+        for (int i = 0; i < 5; i++) {
+            BatchFixtures.session(root, "cell" + i, "a", 0.5, 0.2);
+        }
+        Path out = tmp.resolve("out");
+        SlurmPlan.write(root, out, 3, new SlurmPlan.Resources(0, 0, 0, null, null, null), Path.of("x.jar"), "java");
+        int total = 0;
+        for (int i = 1; i <= 2; i++) {
+            total += BatchRunner.run(BatchOptions.of(root, out, 1).withShard(new Shard(i, 2)),
+                    BatchFixtures::fakeAnalyze, Progress.NONE, s -> { }).total();
+        }
+        assertEquals(5, total, "two shards cover the five sessions although the saved plan had three");
+    }
+
+    @Test
     void aMergeBeforeEveryShardHasRunShowsTheMissingSessions(@TempDir Path tmp) throws Exception {
         Path root = tmp.resolve("study");
         for (int i = 0; i < 4; i++) {
