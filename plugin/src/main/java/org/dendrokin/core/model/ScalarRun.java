@@ -80,6 +80,7 @@ public final class ScalarRun {
     private final double[][] cacheInvPivot;
     private int cacheNext;
     private long lastStepCount;
+    private double[] initial;
 
     private ScalarRun(Model model, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
             List<Stimulus> stimuli, SolverSettings settings) {
@@ -200,6 +201,17 @@ public final class ScalarRun {
         return n;
     }
 
+    /**
+     * Replaces the zero initial state by the given node values (for checks against closed forms that start
+     * from a profile rather than from a stimulus). Not part of the model JSON.
+     *
+     * @param values one value per grid node, or null for zero. Copied.
+     */
+    void setInitialState(double[] values) {
+        Checks.require(values == null || values.length == n, "initial state needs one value per node (" + n + ")");
+        initial = values == null ? null : values.clone();
+    }
+
     /** Number of time steps the last solve took. */
     public long lastStepCount() {
         return lastStepCount;
@@ -253,7 +265,11 @@ public final class ScalarRun {
             default -> throw new IllegalStateException();
         }
         boolean withSens = sensOut != null;
-        Arrays.fill(u, 0);
+        if (initial != null) {
+            System.arraycopy(initial, 0, u, 0, n);
+        } else {
+            Arrays.fill(u, 0);
+        }
         Arrays.fill(source, 0);
         Arrays.fill(injectionOn, false);
         Arrays.fill(clampOn, false);
