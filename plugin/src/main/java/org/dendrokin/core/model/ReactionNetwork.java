@@ -1,0 +1,269 @@
+package org.dendrokin.core.model;
+
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+
+import org.dendrokin.core.Checks;
+
+/**
+ * A reaction network on the cable: species with their own diffusion coefficients and resting (initial)
+ * concentrations, and reactions, each with a stoichiometry and a rate expression v(c). At every node
+ * <pre>
+ *   dc_s/dt = D_s d2c_s/dx2 + sum_r N[s][r] v_r(c)
+ * </pre>
+ * Concentrations are in the model's unit (uM by convention), D in um^2/s, rates in concentration per s.
+ * Built from our JSON network format or from SBML (io layer), or by the built-in multi-species models.
+ * The rate laws of the JSON format are built by {@link #massAction}, {@link #michaelisMenten} and
+ * {@link #hill}. Immutable.
+ */
+public final class ReactionNetwork {
+    /** One reaction: its net stoichiometry (products minus reactants, per species) and its rate. */
+    public record Reaction(String name, double[] netStoichiometry, Expression rate, double rateScalePerS) {
+        public Reaction {
+            Checks.nonNegativeFinite(rateScalePerS, "rate scale of reaction " + name);
+            netStoichiometry = netStoichiometry.clone();
+        }
+
+        @Override
+        public double[] netStoichiometry() {
+            return netStoichiometry.clone();
+        }
+    }
+
+    private final List<String> species;
+    private final double[] diffusionUm2PerS;
+    private final double[] initial;
+    private final List<Reaction> reactions;
+    private final double[][] stoich;
+    private final Expression[] rates;
+    private final Expression[][] rateDerivatives;
+    private final double rateScalePerS;
+
+    /**
+     * @param species          species names, unique
+     * @param diffusionUm2PerS diffusion coefficient of each species, um^2/s, zero or positive
+     * @param initial          resting concentration of each species (the initial state and fixed-end value)
+     * @param reactions        the reactions; stoichiometry vectors must have one entry per species
+     */
+    public ReactionNetwork(List<String> species, double[] diffusionUm2PerS, double[] initial, List<Reaction> reactions) {
+        int m = species.size();
+        Checks.require(m > 0, "a network needs at least one species");
+        Checks.require(diffusionUm2PerS.length == m && initial.length == m,
+                "a network needs one diffusion coefficient and one initial value per species");
+        Checks.require(species.stream().distinct().count() == m, "species names must be unique");
+        for (int s = 0; s < m; s++) {
+            Checks.nonNegativeFinite(diffusionUm2PerS[s], "diffusion coefficient of species " + species.get(s));
+            Checks.finite(initial[s], "initial value of species " + species.get(s));
+        }
+        this.species = List.copyOf(species);
+        this.diffusionUm2PerS = diffusionUm2PerS.clone();
+        this.initial = initial.clone();
+        this.reactions = List.copyOf(reactions);
+        stoich = new double[reactions.size()][];
+        rates = new Expression[reactions.size()];
+        rateDerivatives = new Expression[reactions.size()][m];
+        double scale = 0;
+        for (int r = 0; r < reactions.size(); r++) {
+            Reaction reaction = reactions.get(r);
+            Checks.require(reaction.netStoichiometry.length == m, "reaction " + reaction.name()
+                    + " needs one stoichiometry entry per species");
+            stoich[r] = reaction.netStoichiometry;
+            rates[r] = reaction.rate();
+            for (int s = 0; s < m; s++) {
+                rateDerivatives[r][s] = reaction.rate().derivative(s);
+            }
+            scale = Math.max(scale, reaction.rateScalePerS());
+        }
+        rateScalePerS = scale;
+    }
+
+    public List<String> species() {
+        return species;
+    }
+
+    public int speciesCount() {
+        return species.size();
+    }
+
+    public int indexOf(String name) {
+        return species.indexOf(name);
+    }
+
+    public double[] diffusionUm2PerS() {
+        return diffusionUm2PerS.clone();
+    }
+
+    public double[] initial() {
+        return initial.clone();
+    }
+
+    public List<Reaction> reactions() {
+        return Collections.unmodifiableList(reactions);
+    }
+
+    /** The fastest first-order rate in the network, 1/s, for the step rule of {@link SolverSettings}. */
+    public double rateScalePerS() {
+        return rateScalePerS;
+    }
+
+    /** out[s] = sum_r N[s][r] v_r(c): the reaction part of dc/dt at one node. Allocation-free. */
+    public void rates(double[] c, double[] out) {
+        java.util.Arrays.fill(out, 0);
+        for (int r = 0; r < rates.length; r++) {
+            double v = rates[r].value(c);
+            double[] n = stoich[r];
+            for (int s = 0; s < n.length; s++) {
+                if (n[s] != 0) {
+                    out[s] += n[s] * v;
+                }
+            }
+        }
+    }
+
+    /** jac[s * m + q] = d(rate of change of species s)/d c_q at one node. Allocation-free. */
+    public void jacobian(double[] c, double[] jac) {
+        int m = species.size();
+        java.util.Arrays.fill(jac, 0);
+        for (int r = 0; r < rates.length; r++) {
+            double[] n = stoich[r];
+            for (int q = 0; q < m; q++) {
+                Expression d = rateDerivatives[r][q];
+                if (d.isZero()) {
+                    continue;
+                }
+                double dv = d.value(c);
+                for (int s = 0; s < m; s++) {
+                    if (n[s] != 0) {
+                        jac[s * m + q] += n[s] * dv;
+                    }
+                }
+            }
+        }
+    }
+
+    /** Propensity of reaction r for the well-mixed stochastic mode: its rate expression, in concentration/s. */
+    double rateOf(int r, double[] c) {
+        return rates[r].value(c);
+    }
+
+    double[][] stoichiometry() {
+        return stoich;
+    }
+
+    // ---- rate laws of the JSON network format ----
+
+    /**
+     * Mass action: v = kf prod_i c_i^(n_i) - kr prod_j c_j^(m_j) over reactants i and products j.
+     *
+     * @param reactantOrders order of each species as a reactant (stoichiometric coefficient; 0 if absent)
+     * @param productOrders  the same for the products (used by the reverse term)
+     * @param kf             forward constant, (conc)^(1 - order) / s, zero or positive
+     * @param kr             reverse constant, zero for an irreversible reaction
+     */
+    public static Expression massAction(double[] reactantOrders, double[] productOrders, double kf, double kr) {
+        Checks.nonNegativeFinite(kf, "forward rate constant");
+        Checks.nonNegativeFinite(kr, "reverse rate constant");
+        Expression forward = monomial(kf, reactantOrders);
+        Expression reverse = kr == 0 ? Expression.constant(0) : monomial(kr, productOrders);
+        return Expression.subtract(forward, reverse);
+    }
+
+    private static Expression monomial(double k, double[] orders) {
+        Expression e = Expression.constant(k);
+        for (int s = 0; s < orders.length; s++) {
+            if (orders[s] != 0) {
+                e = Expression.multiply(e, Expression.power(Expression.species(s), Expression.constant(orders[s])));
+            }
+        }
+        return e;
+    }
+
+    /**
+     * Michaelis-Menten: v = vmax S / (Km + S), or with an enzyme species E, v = kcat E S / (Km + S).
+     *
+     * @param substrate index of S
+     * @param enzyme    index of E, or -1 to use {@code vmaxOrKcat} as vmax (conc/s)
+     */
+    public static Expression michaelisMenten(int substrate, int enzyme, double vmaxOrKcat, double km) {
+        Checks.nonNegativeFinite(vmaxOrKcat, "vmax (or kcat)");
+        Checks.positiveFinite(km, "Km");
+        Expression s = Expression.species(substrate);
+        Expression top = Expression.multiply(Expression.constant(vmaxOrKcat), s);
+        if (enzyme >= 0) {
+            top = Expression.multiply(top, Expression.species(enzyme));
+        }
+        return Expression.divide(top, Expression.add(Expression.constant(km), s));
+    }
+
+    /**
+     * Hill: v = vmax A^n / (K^n + A^n) for an activating species A.
+     */
+    public static Expression hill(int activator, double vmax, double k, double n) {
+        Checks.nonNegativeFinite(vmax, "vmax");
+        Checks.positiveFinite(k, "Hill constant K");
+        Checks.positiveFinite(n, "Hill coefficient n");
+        Expression an = Expression.power(Expression.species(activator), Expression.constant(n));
+        return Expression.divide(Expression.multiply(Expression.constant(vmax), an),
+                Expression.add(Expression.constant(Math.pow(k, n)), an));
+    }
+
+    /** A convenience for building: a stoichiometry vector from (species, coefficient) pairs. */
+    public static double[] stoichiometry(List<String> species, Object... pairs) {
+        double[] n = new double[species.size()];
+        for (int i = 0; i < pairs.length; i += 2) {
+            int s = species.indexOf((String) pairs[i]);
+            Checks.require(s >= 0, "unknown species " + pairs[i]);
+            n[s] += ((Number) pairs[i + 1]).doubleValue();
+        }
+        return n;
+    }
+
+    /** Built-in FitzHugh-Nagumo (Keener-Sneyd form, sheet s5.3): v_t = D v_xx + v(1-v)(v-alpha) - w, w_t = eps (v - gamma w). */
+    public static ReactionNetwork fitzHughNagumo(double dUm2PerS, double alpha, double eps, double gamma,
+            double timeScalePerS) {
+        Checks.nonNegativeFinite(dUm2PerS, "D");
+        Checks.finite(alpha, "alpha");
+        Checks.nonNegativeFinite(eps, "eps");
+        Checks.nonNegativeFinite(gamma, "gamma");
+        Checks.positiveFinite(timeScalePerS, "k");
+        List<String> names = List.of("v", "w");
+        Expression v = Expression.species(0);
+        Expression w = Expression.species(1);
+        Expression k = Expression.constant(timeScalePerS);
+        Expression cubic = Expression.multiply(Expression.multiply(v, Expression.subtract(Expression.constant(1), v)),
+                Expression.subtract(v, Expression.constant(alpha)));
+        Expression fv = Expression.multiply(k, Expression.subtract(cubic, w));
+        Expression fw = Expression.multiply(Expression.constant(timeScalePerS * eps),
+                Expression.subtract(v, Expression.multiply(Expression.constant(gamma), w)));
+        List<Reaction> reactions = new ArrayList<>();
+        reactions.add(new Reaction("excitation", new double[] {1, 0}, fv, timeScalePerS));
+        reactions.add(new Reaction("recovery", new double[] {0, 1}, fw, timeScalePerS * eps * Math.max(1, gamma)));
+        return new ReactionNetwork(names, new double[] {dUm2PerS, 0}, new double[] {0, 0}, reactions);
+    }
+
+    /**
+     * Built-in buffered diffusion, exact form: Ca + B &lt;-&gt; CaB with kon (1/(uM s)) and koff = kon Kd (1/s),
+     * extrusion of free Ca at rate k (1/s); total buffer bTotal (uM) uniform at rest, Ca at rest 0.
+     */
+    public static ReactionNetwork bufferedDiffusion(double dCa, double dBuffer, double bTotalMicromolar,
+            double kdMicromolar, double konPerMicromolarS, double kPerS) {
+        Checks.nonNegativeFinite(dCa, "D_ca");
+        Checks.nonNegativeFinite(dBuffer, "D_buffer");
+        Checks.nonNegativeFinite(bTotalMicromolar, "B_total");
+        Checks.positiveFinite(kdMicromolar, "Kd");
+        Checks.positiveFinite(konPerMicromolarS, "kon");
+        Checks.nonNegativeFinite(kPerS, "k");
+        List<String> names = List.of("Ca", "B", "CaB");
+        double koff = konPerMicromolarS * kdMicromolar;
+        Expression binding = massAction(new double[] {1, 1, 0}, new double[] {0, 0, 1}, konPerMicromolarS, koff);
+        List<Reaction> reactions = new ArrayList<>();
+        // Binding is usually far faster than everything else; it is left to the L-stable Rosenbrock step
+        // (which relaxes it to equilibrium correctly) rather than forcing the step down to 1/(kon B + koff).
+        reactions.add(new Reaction("binding", stoichiometry(names, "Ca", -1, "B", -1, "CaB", 1), binding, 0));
+        reactions.add(new Reaction("extrusion", stoichiometry(names, "Ca", -1),
+                massAction(new double[] {1, 0, 0}, new double[3], kPerS, 0), kPerS));
+        return new ReactionNetwork(names, new double[] {dCa, dBuffer, dBuffer},
+                new double[] {0, bTotalMicromolar, 0}, reactions);
+    }
+}

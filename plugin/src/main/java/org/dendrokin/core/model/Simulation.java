@@ -1,0 +1,196 @@
+package org.dendrokin.core.model;
+
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Objects;
+
+import org.dendrokin.core.Checks;
+import org.dendrokin.core.Progress;
+import org.dendrokin.core.kymo.Kymograph;
+
+/**
+ * One model run as the {@code simulate} command describes it: a built-in model or a network, on a domain,
+ * sampled every output interval from 0 to the duration, deterministic or stochastic. Pure: no files.
+ */
+public final class Simulation {
+    /** Built-in model names: the scalar ones plus the multi-species ones. */
+    public static final List<String> BUILT_IN = List.of("diffusion-decay", "nagumo", "fisher-kpp",
+            "buffered-diffusion", "buffered-diffusion-rapid", "fitzhugh-nagumo");
+
+    private Simulation() {
+    }
+
+    /**
+     * What to run.
+     *
+     * @param model             a built-in name or "network" (then {@code network} is given)
+     * @param parameters        model parameters by name (built-in models)
+     * @param network           the reaction network, or null for a built-in model
+     * @param observed          species shown in the kymograph (networks); null for the model's default
+     * @param domain            the cable
+     * @param durationS         simulated time, s
+     * @param outputIntervalS   time between frames, s
+     * @param outputPositionsUm kymograph columns, um
+     * @param stimuli           protocol
+     * @param settings          time-step rule
+     * @param stochastic        settings of the stochastic mode, or null for deterministic
+     */
+    public record Spec(String model, Map<String, Double> parameters, ReactionNetwork network, String observed,
+            Domain domain, double durationS, double outputIntervalS, double[] outputPositionsUm,
+            List<Stimulus> stimuli, SolverSettings settings, StochasticSettings stochastic) {
+        public Spec {
+            Objects.requireNonNull(model, "model");
+            parameters = Map.copyOf(parameters);
+            Objects.requireNonNull(domain, "domain");
+            Checks.positiveFinite(durationS, "duration_s");
+            Checks.positiveFinite(outputIntervalS, "output_interval_s");
+            Checks.require(outputIntervalS <= durationS, "the output interval must not exceed the duration");
+            outputPositionsUm = outputPositionsUm.clone();
+            stimuli = List.copyOf(stimuli);
+            Objects.requireNonNull(settings, "settings");
+        }
+
+        /** Frame times 0, dt, 2 dt, ... up to the duration. */
+        public double[] outputTimesS() {
+            int count = (int) Math.floor(durationS / outputIntervalS + 1e-9) + 1;
+            double[] t = new double[count];
+            for (int i = 0; i < count; i++) {
+                t[i] = i * outputIntervalS;
+            }
+            return t;
+        }
+    }
+
+    /**
+     * What a run gives.
+     *
+     * @param kymograph  the observed species (the ensemble mean in stochastic mode)
+     * @param spread     standard deviation over the ensemble (stochastic mode), else null
+     * @param species    the species shown
+     * @param steps      time steps taken (deterministic) or events simulated (stochastic, all runs)
+     * @param frontSpeedUmPerS measured front speed, NaN when nothing travels
+     * @param solverInfo settings and figures for the summary, by name
+     */
+    public record Result(Kymograph kymograph, Kymograph spread, String species, long steps, double frontSpeedUmPerS,
+            Map<String, Object> solverInfo) {
+    }
+
+    /** Parameters each built-in model takes, in order. */
+    public static List<String> parameterNames(String model) {
+        return switch (model) {
+            case "diffusion-decay" -> List.of("D", "k");
+            case "nagumo" -> List.of("D", "k", "a");
+            case "fisher-kpp" -> List.of("D", "r");
+            case "buffered-diffusion", "buffered-diffusion-rapid" ->
+                    List.of("D_ca", "D_buffer", "B_total", "Kd", "kon", "k");
+            case "fitzhugh-nagumo" -> List.of("D", "k", "alpha", "eps", "gamma");
+            default -> throw new IllegalArgumentException("unknown model '" + model + "'; known: " + BUILT_IN
+                    + " or a network");
+        };
+    }
+
+    /** The network behind a multi-species built-in model, or the spec's own network. */
+    public static ReactionNetwork networkOf(Spec spec) {
+        Map<String, Double> p = spec.parameters();
+        return switch (spec.model()) {
+            case "buffered-diffusion" -> ReactionNetwork.bufferedDiffusion(p.get("D_ca"), p.get("D_buffer"),
+                    p.get("B_total"), p.get("Kd"), p.get("kon"), p.get("k"));
+            case "fitzhugh-nagumo" -> ReactionNetwork.fitzHughNagumo(p.get("D"), p.get("alpha"), p.get("eps"),
+                    p.get("gamma"), p.get("k"));
+            case "network" -> Objects.requireNonNull(spec.network(), "network");
+            default -> null;
+        };
+    }
+
+    /** The species a kymograph shows by default. */
+    public static String defaultObserved(Spec spec) {
+        return switch (spec.model()) {
+            case "buffered-diffusion" -> "Ca";
+            case "fitzhugh-nagumo" -> "v";
+            case "network" -> spec.network().species().get(0);
+            default -> "u";
+        };
+    }
+
+    /** Runs the spec. */
+    public static Result run(Spec spec, Progress progress) {
+        double[] times = spec.outputTimesS();
+        double[] x = spec.outputPositionsUm();
+        Map<String, Object> info = new LinkedHashMap<>();
+        info.put("scheme", "Strang splitting: Crank-Nicolson diffusion, Rosenbrock (ROS2) or exact reactions");
+        info.put("grid_nodes", spec.domain().nodeCount());
+        info.put("dx_um", spec.domain().spacingUm());
+        info.put("step_factor", spec.settings().stepFactor());
+        if (spec.settings().fixedStepS() > 0) {
+            info.put("fixed_step_s", spec.settings().fixedStepS());
+        }
+        double origin = spec.stimuli().isEmpty() ? 0 : spec.stimuli().get(0).positionUm();
+        String model = spec.model();
+        if (ScalarRun.MODELS.contains(model) || model.equals("buffered-diffusion-rapid")) {
+            Checks.require(spec.stochastic() == null, "the stochastic mode needs a network or a multi-species model;"
+                    + " give the model as a network to simulate it stochastically");
+            List<String> names = parameterNames(model);
+            double[] p = new double[names.size()];
+            for (int i = 0; i < p.length; i++) {
+                Double v = spec.parameters().get(names.get(i));
+                Checks.require(v != null, "parameter " + names.get(i) + " is missing");
+                p[i] = v;
+            }
+            String scalarModel = model;
+            List<Stimulus> stimuli = spec.stimuli();
+            if (model.equals("buffered-diffusion-rapid")) {
+                // Rapid buffer approximation, linearised at rest (c << Kd): Wagner & Keizer 1994, sheet s3.2.
+                double kappa = p[2] / p[3];
+                double dEff = (p[0] + kappa * p[1]) / (1 + kappa);
+                double kEff = p[5] / (1 + kappa);
+                info.put("buffer_capacity", kappa);
+                info.put("effective_D_um2_per_s", dEff);
+                info.put("effective_k_per_s", kEff);
+                scalarModel = "diffusion-decay";
+                List<Stimulus> scaled = new ArrayList<>();
+                for (Stimulus s : stimuli) {
+                    // total calcium added splits into free and bound; the free part is 1 / (1 + kappa)
+                    double amount = s.kind() == Stimulus.Kind.CLAMP ? s.amount() : s.amount() / (1 + kappa);
+                    scaled.add(new Stimulus(s.timeS(), s.positionUm(), s.widthUm(), amount, s.kind(), s.durationS(),
+                            null));
+                }
+                stimuli = scaled;
+                p = new double[] {dEff, kEff};
+            }
+            ScalarRun run = ScalarRun.prepare(scalarModel, spec.domain(), times, x, stimuli, spec.settings());
+            double[] out = new double[times.length * x.length];
+            run.solve(p, out);
+            progress.report("simulation", 1, 1);
+            info.put("time_steps", run.lastStepCount());
+            Kymograph k = new Kymograph(x, times, out, "model units");
+            String shown = model.equals("buffered-diffusion-rapid") ? "Ca" : "u";
+            return new Result(k, null, shown, run.lastStepCount(), FrontSpeed.measure(k, origin), info);
+        }
+        ReactionNetwork network = networkOf(spec);
+        String observed = spec.observed() != null ? spec.observed() : defaultObserved(spec);
+        Checks.require(network.indexOf(observed) >= 0, "the observed species '" + observed
+                + "' is not in the model " + network.species());
+        if (spec.stochastic() != null) {
+            StochasticEnsemble.Summary summary = StochasticEnsemble.run(network, spec.domain(), times, x,
+                    spec.stimuli(), observed, spec.stochastic(), progress);
+            info.put("method", "next-subvolume (spatial Gillespie)");
+            info.put("runs", spec.stochastic().runs());
+            info.put("seed", spec.stochastic().seed());
+            info.put("events", summary.events());
+            Kymograph mean = new Kymograph(x, times, summary.mean(), "model units");
+            Kymograph sd = new Kymograph(x, times, summary.sd(), "model units");
+            return new Result(mean, sd, observed, summary.events(), FrontSpeed.measure(mean, origin), info);
+        }
+        NetworkRun run = NetworkRun.prepare(network, spec.domain(), times, x, spec.stimuli(), spec.settings(),
+                observed);
+        double[][] out = new double[network.speciesCount()][];
+        out[network.indexOf(observed)] = new double[times.length * x.length];
+        run.solve(out);
+        progress.report("simulation", 1, 1);
+        info.put("time_steps", run.lastStepCount());
+        Kymograph k = new Kymograph(x, times, out[network.indexOf(observed)], "model units");
+        return new Result(k, null, observed, run.lastStepCount(), FrontSpeed.measure(k, origin), info);
+    }
+}

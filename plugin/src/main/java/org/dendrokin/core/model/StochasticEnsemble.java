@@ -1,0 +1,465 @@
+package org.dendrokin.core.model;
+
+import java.util.Arrays;
+import java.util.List;
+import java.util.SplittableRandom;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.ArrayList;
+
+import org.dendrokin.core.Checks;
+import org.dendrokin.core.Progress;
+
+/**
+ * The stochastic mode: the next-subvolume method (Elf &amp; Ehrenberg 2004; sheet s7.3), a spatial Gillespie
+ * simulation (Gillespie 1976, 1977; sheet s7.1). Each grid node is a voxel holding whole molecules; its
+ * volume is the node's control volume (cross-section x length share, um^3), and counts are concentration x
+ * volume x {@link StochasticSettings#moleculesPerUnitUm3()}. Events per voxel:
+ * <ul>
+ * <li>a reaction r, with propensity v_r(c) x V x scale (the deterministic rate turned into molecules per
+ * second; every reaction must have a non-negative rate, so a reversible reaction is two reactions);</li>
+ * <li>a jump of one molecule of species s to a neighbour, at rate D_s x (L coefficient) x n, where the
+ * coefficient is the one of the deterministic grid ({@link CableGrid}), e.g. D/h^2 per molecule and
+ * direction on a uniform cable; the ensemble mean therefore follows the same discretised equation.</li>
+ * </ul>
+ * Next event times sit in an indexed binary heap; after an event only the voxels it touched get new
+ * times (valid because waiting times are memoryless). At a fixed end, molecules that arrive are removed
+ * and the resting level feeds molecules in. Pulses and injections add molecules (amounts rounded up or
+ * down at random, without bias); clamps reset counts. Runs are independent, seeded from (seed, run), and
+ * spread over threads; the mean and the standard deviation over runs are returned.
+ */
+public final class StochasticEnsemble {
+    private StochasticEnsemble() {
+    }
+
+    /**
+     * @param mean   ensemble mean, {@code [frame * positions + position]}, concentration units
+     * @param sd     ensemble standard deviation (n - 1 denominator; 0 for one run)
+     * @param events total number of events over all runs
+     */
+    public record Summary(double[] mean, double[] sd, long events) {
+    }
+
+    /** Runs the ensemble and returns its mean and spread at the output times and positions. */
+    public static Summary run(ReactionNetwork network, Domain domain, double[] outputTimesS,
+            double[] outputPositionsUm, List<Stimulus> stimuli, String observed, StochasticSettings settings,
+            Progress progress) {
+        int size = outputTimesS.length * outputPositionsUm.length;
+        double[][] samples = new double[settings.runs()][];
+        AtomicLong events = new AtomicLong();
+        AtomicLong done = new AtomicLong();
+        ExecutorService pool = Executors.newFixedThreadPool(Math.min(settings.threads(), settings.runs()));
+        try {
+            List<Future<?>> futures = new ArrayList<>();
+            for (int r = 0; r < settings.runs(); r++) {
+                final int run = r;
+                futures.add(pool.submit(() -> {
+                    progress.checkCancelled();
+                    Voxels v = new Voxels(network, domain, outputTimesS, outputPositionsUm, stimuli, observed,
+                            settings.moleculesPerUnitUm3(), seedOf(settings.seed(), run));
+                    samples[run] = v.simulate(progress);
+                    events.addAndGet(v.events);
+                    progress.report("stochastic runs", done.incrementAndGet(), settings.runs());
+                }));
+            }
+            for (Future<?> f : futures) {
+                f.get();
+            }
+        } catch (ExecutionException e) {
+            if (e.getCause() instanceof RuntimeException re) {
+                throw re;
+            }
+            throw new IllegalStateException(e.getCause());
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new Progress.CancelledException();
+        } finally {
+            pool.shutdownNow();
+        }
+        double[] mean = new double[size];
+        double[] sd = new double[size];
+        for (double[] s : samples) {
+            for (int i = 0; i < size; i++) {
+                mean[i] += s[i];
+            }
+        }
+        for (int i = 0; i < size; i++) {
+            mean[i] /= samples.length;
+        }
+        if (samples.length > 1) {
+            for (double[] s : samples) {
+                for (int i = 0; i < size; i++) {
+                    double dv = s[i] - mean[i];
+                    sd[i] += dv * dv;
+                }
+            }
+            for (int i = 0; i < size; i++) {
+                sd[i] = Math.sqrt(sd[i] / (samples.length - 1));
+            }
+        }
+        return new Summary(mean, sd, events.get());
+    }
+
+    /** The seed of one run: a SplitMix64-style mix of the base seed and the run index. */
+    static long seedOf(long seed, int run) {
+        long z = seed + 0x9E3779B97F4A7C15L * (run + 1);
+        z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
+        z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
+        return z ^ (z >>> 31);
+    }
+
+    /** One run of the next-subvolume method. */
+    static final class Voxels {
+        private final ReactionNetwork network;
+        private final CableGrid grid;
+        private final int n;
+        private final int m;
+        private final int reactions;
+        private final double[] d;
+        private final double[] scale;      // molecules per concentration unit, per voxel
+        private final int[][] count;       // [species][voxel]
+        private final double[] restCount;  // fixed ends: resting molecules per voxel volume, per species
+        private final double[][] stoich;
+        private final Timeline timeline;
+        private final List<Stimulus> stimuli;
+        private final int[] stimulusSpecies;
+        private final double[][] profile;
+        private final boolean[][] clampMask;
+        private final boolean[] injectionOn;
+        private final boolean[] clampOn;
+        private final double[] outputTimes;
+        private final int positions;
+        private final int[] sampleIndex;
+        private final double[] sampleWeight;
+        private final int observed;
+        private final SplittableRandom random;
+        private final double[] conc;
+        private final double[] propensity;   // [voxel * slots + slot]
+        private final int slots;
+        private final double[] total;
+        private final double[] eventTime;
+        private final int[] heap;
+        private final int[] heapPos;
+        private long events;
+
+        Voxels(ReactionNetwork network, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
+                List<Stimulus> stimuli, String observedName, double perUnitUm3, long seed) {
+            this.network = network;
+            this.grid = new CableGrid(domain);
+            this.n = grid.n;
+            this.m = network.speciesCount();
+            this.reactions = network.reactions().size();
+            this.d = network.diffusionUm2PerS();
+            this.stoich = network.stoichiometry();
+            this.stimuli = stimuli;
+            this.timeline = new Timeline(outputTimesS, stimuli);
+            this.outputTimes = outputTimesS;
+            this.positions = outputPositionsUm.length;
+            this.observed = network.indexOf(observedName);
+            this.random = new SplittableRandom(seed);
+            scale = new double[n];
+            for (int i = 0; i < n; i++) {
+                scale[i] = grid.volume[i] * perUnitUm3;
+            }
+            count = new int[m][n];
+            restCount = network.initial();
+            double[] init = network.initial();
+            for (int s = 0; s < m; s++) {
+                for (int i = 0; i < n; i++) {
+                    count[s][i] = roundUnbiased(init[s] * scale[i]);
+                }
+            }
+            sampleIndex = new int[positions];
+            sampleWeight = new double[positions];
+            for (int p = 0; p < positions; p++) {
+                double sx = Math.min(Math.max(outputPositionsUm[p] / grid.h, 0), n - 1);
+                int i = Math.min((int) Math.floor(sx), n - 2);
+                sampleIndex[p] = i;
+                sampleWeight[p] = sx - i;
+            }
+            int k = stimuli.size();
+            stimulusSpecies = new int[k];
+            profile = new double[k][];
+            clampMask = new boolean[k][];
+            for (int s = 0; s < k; s++) {
+                Stimulus st = stimuli.get(s);
+                stimulusSpecies[s] = network.indexOf(st.species() == null ? observedName : st.species());
+                Checks.require(stimulusSpecies[s] >= 0, "a stimulus names a species the network does not have");
+                if (st.kind() == Stimulus.Kind.CLAMP) {
+                    clampMask[s] = new boolean[n];
+                    for (int i = 0; i < n; i++) {
+                        clampMask[s][i] = !(grid.fixedEnds && (i == 0 || i == n - 1)) && st.clamps(grid.x(i));
+                    }
+                } else {
+                    profile[s] = new double[n];
+                    for (int i = 0; i < n; i++) {
+                        profile[s][i] = grid.fixedEnds && (i == 0 || i == n - 1) ? 0 : st.profile(grid.x(i));
+                    }
+                }
+            }
+            injectionOn = new boolean[k];
+            clampOn = new boolean[k];
+            conc = new double[m];
+            // slots: reactions, then for each species a jump left and a jump right, then injection births
+            // and the fixed-end feed (one slot per species)
+            slots = reactions + 2 * m + m + m;
+            propensity = new double[n * slots];
+            total = new double[n];
+            eventTime = new double[n];
+            heap = new int[n];
+            heapPos = new int[n];
+        }
+
+        private int roundUnbiased(double x) {
+            double fl = Math.floor(x);
+            return (int) fl + (random.nextDouble() < x - fl ? 1 : 0);
+        }
+
+        private boolean fixedEnd(int i) {
+            return grid.fixedEnds && (i == 0 || i == n - 1);
+        }
+
+        double[] simulate(Progress progress) {
+            double[] out = new double[outputTimes.length * positions];
+            double[][] source = new double[m][n];
+            double t = 0;
+            int nb = timeline.breakCount();
+            for (int j = 0; j < nb; j++) {
+                double tb = timeline.breaksS[j];
+                if (j > 0) {
+                    t = advance(t, tb, source, progress);
+                }
+                boolean injChanged = false;
+                for (int e = timeline.eventStart[j]; e < timeline.eventStart[j + 1]; e++) {
+                    int s = timeline.eventStimulus[e];
+                    switch (timeline.eventType[e]) {
+                        case Timeline.INJECTION_OFF, Timeline.INJECTION_ON -> {
+                            injectionOn[s] = timeline.eventType[e] == Timeline.INJECTION_ON;
+                            injChanged = true;
+                        }
+                        case Timeline.CLAMP_OFF, Timeline.CLAMP_ON ->
+                                clampOn[s] = timeline.eventType[e] == Timeline.CLAMP_ON;
+                        case Timeline.PULSE -> {
+                            double a = stimuli.get(s).amount();
+                            int[] target = count[stimulusSpecies[s]];
+                            for (int i = 0; i < n; i++) {
+                                target[i] = Math.max(0, target[i] + roundUnbiased(a * profile[s][i] * scale[i]));
+                            }
+                        }
+                        default -> throw new IllegalStateException();
+                    }
+                }
+                if (injChanged) {
+                    for (double[] row : source) {
+                        Arrays.fill(row, 0);
+                    }
+                    for (int s = 0; s < injectionOn.length; s++) {
+                        if (injectionOn[s]) {
+                            Stimulus st = stimuli.get(s);
+                            for (int i = 0; i < n; i++) {
+                                source[stimulusSpecies[s]][i] += st.amount() / st.durationS() * profile[s][i];
+                            }
+                        }
+                    }
+                }
+                applyClamps();
+                for (int o = timeline.outputStart[j]; o < timeline.outputStart[j + 1]; o++) {
+                    int frame = timeline.outputFrame[o];
+                    int base = frame * positions;
+                    int[] c = count[observed];
+                    for (int q = 0; q < positions; q++) {
+                        int i = sampleIndex[q];
+                        double w = sampleWeight[q];
+                        double a = c[i] / scale[i];
+                        double b = c[i + 1] / scale[i + 1];
+                        out[base + q] = a + w * (b - a);
+                    }
+                }
+            }
+            return out;
+        }
+
+        private void applyClamps() {
+            for (int s = 0; s < clampOn.length; s++) {
+                if (clampOn[s]) {
+                    int[] row = count[stimulusSpecies[s]];
+                    for (int i = 0; i < n; i++) {
+                        if (clampMask[s][i]) {
+                            row[i] = roundUnbiased(stimuli.get(s).amount() * scale[i]);
+                        }
+                    }
+                }
+            }
+        }
+
+        /** Simulates from t to tEnd with the sources given (constant in between); returns tEnd. */
+        private double advance(double t, double tEnd, double[][] source, Progress progress) {
+            for (int i = 0; i < n; i++) {
+                updateRates(i, source);
+                eventTime[i] = t + waiting(total[i]);
+                heap[i] = i;
+                heapPos[i] = i;
+            }
+            for (int i = n / 2 - 1; i >= 0; i--) {
+                siftDown(i);
+            }
+            long local = 0;
+            while (true) {
+                int i = heap[0];
+                double te = eventTime[i];
+                if (!(te <= tEnd)) {
+                    break;
+                }
+                if ((++local & 0xFFFFF) == 0) {
+                    progress.checkCancelled();
+                }
+                fire(i, source, te);
+            }
+            events += local;
+            return tEnd;
+        }
+
+        private double waiting(double rate) {
+            if (!(rate > 0)) {
+                return Double.POSITIVE_INFINITY;
+            }
+            return -Math.log(1 - random.nextDouble()) / rate;
+        }
+
+        private void fire(int i, double[][] source, double t) {
+            double pick = random.nextDouble() * total[i];
+            int base = i * slots;
+            int slot = 0;
+            double acc = 0;
+            for (; slot < slots - 1; slot++) {
+                acc += propensity[base + slot];
+                if (pick < acc) {
+                    break;
+                }
+            }
+            int other = -1;
+            if (slot < reactions) {
+                double[] nu = stoich[slot];
+                for (int s = 0; s < m; s++) {
+                    count[s][i] += (int) nu[s];
+                    if (count[s][i] < 0) {
+                        count[s][i] = 0;
+                    }
+                }
+            } else if (slot < reactions + 2 * m) {
+                int s = (slot - reactions) / 2;
+                boolean right = ((slot - reactions) & 1) == 1;
+                other = right ? i + 1 : i - 1;
+                count[s][i]--;
+                if (!fixedEnd(other)) {
+                    count[s][other]++;
+                } else {
+                    other = -1;
+                }
+            } else if (slot < reactions + 3 * m) {
+                count[slot - reactions - 2 * m][i]++;
+            } else {
+                count[slot - reactions - 3 * m][i]++;
+            }
+            updateRates(i, source);
+            eventTime[i] = t + waiting(total[i]);
+            siftDown(heapPos[i]);
+            siftUp(heapPos[i]);
+            if (other >= 0) {
+                updateRates(other, source);
+                eventTime[other] = t + waiting(total[other]);
+                siftDown(heapPos[other]);
+                siftUp(heapPos[other]);
+            }
+        }
+
+        private void updateRates(int i, double[][] source) {
+            int base = i * slots;
+            double sum = 0;
+            if (fixedEnd(i)) {
+                for (int q = 0; q < slots; q++) {
+                    propensity[base + q] = 0;
+                }
+                total[i] = 0;
+                return;
+            }
+            for (int s = 0; s < m; s++) {
+                conc[s] = count[s][i] / scale[i];
+            }
+            for (int r = 0; r < reactions; r++) {
+                double a = network.rateOf(r, conc) * scale[i];
+                if (a < 0) {
+                    throw new IllegalArgumentException("reaction " + network.reactions().get(r).name()
+                            + " has a negative rate; the stochastic mode needs each direction as its own reaction");
+                }
+                // a reaction may not consume a species that is absent
+                double[] nu = stoich[r];
+                for (int s = 0; s < m; s++) {
+                    if (nu[s] < 0 && count[s][i] + nu[s] < 0) {
+                        a = 0;
+                    }
+                }
+                propensity[base + r] = a;
+                sum += a;
+            }
+            for (int s = 0; s < m; s++) {
+                double left = i > 0 ? d[s] * grid.lower[i] * count[s][i] : 0;
+                double right = i < n - 1 ? d[s] * grid.upper[i] * count[s][i] : 0;
+                propensity[base + reactions + 2 * s] = left;
+                propensity[base + reactions + 2 * s + 1] = right;
+                double birth = source[s][i] * scale[i];
+                propensity[base + reactions + 2 * m + s] = birth;
+                double feed = 0;
+                if (grid.fixedEnds && (i == 1 || i == n - 2)) {
+                    // the resting level held at the end feeds molecules in at D x (coefficient) x c_rest x V
+                    double coefficient = i == 1 ? grid.lower[i] : grid.upper[i];
+                    feed = d[s] * coefficient * restCount[s] * scale[i];
+                }
+                propensity[base + reactions + 3 * m + s] = feed;
+                sum += left + right + birth + feed;
+            }
+            total[i] = sum;
+        }
+
+        private void siftUp(int pos) {
+            int item = heap[pos];
+            double key = eventTime[item];
+            while (pos > 0) {
+                int parent = (pos - 1) >> 1;
+                int p = heap[parent];
+                if (eventTime[p] <= key) {
+                    break;
+                }
+                heap[pos] = p;
+                heapPos[p] = pos;
+                pos = parent;
+            }
+            heap[pos] = item;
+            heapPos[item] = pos;
+        }
+
+        private void siftDown(int pos) {
+            int item = heap[pos];
+            double key = eventTime[item];
+            int half = n >> 1;
+            while (pos < half) {
+                int child = 2 * pos + 1;
+                int right = child + 1;
+                if (right < n && eventTime[heap[right]] < eventTime[heap[child]]) {
+                    child = right;
+                }
+                if (key <= eventTime[heap[child]]) {
+                    break;
+                }
+                heap[pos] = heap[child];
+                heapPos[heap[pos]] = pos;
+                pos = child;
+            }
+            heap[pos] = item;
+            heapPos[item] = pos;
+        }
+    }
+}

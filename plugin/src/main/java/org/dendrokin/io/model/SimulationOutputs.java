@@ -1,0 +1,137 @@
+package org.dendrokin.io.model;
+
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+import org.dendrokin.core.Progress;
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.model.Simulation;
+import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.InputException;
+import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.plot.Heatmap;
+import org.dendrokin.io.plot.Pictures;
+
+import com.google.gson.GsonBuilder;
+
+/**
+ * Runs a model file and writes its results into an output folder: {@code kymograph.csv} (the contract's
+ * kymograph format), {@code kymograph.png}, {@code summary.json} and, as asked, {@code kymograph_sd.csv} /
+ * {@code kymograph_sd.png} (stochastic spread) and the synthetic movie. Nothing is written elsewhere.
+ */
+public final class SimulationOutputs {
+    private SimulationOutputs() {
+    }
+
+    /** What a run wrote, for callers that show it. */
+    public record Written(Simulation.Result result, List<Path> files, List<String> warnings) {
+    }
+
+    public static Written simulate(Path modelFile, Path outDir, String toolVersion, Progress progress) {
+        ModelFile.Parsed parsed = ModelFile.read(modelFile);
+        Simulation.Spec spec = parsed.spec();
+        Simulation.Result result;
+        try {
+            result = Simulation.run(spec, progress);
+        } catch (IllegalArgumentException e) {
+            throw new InputException(modelFile, e.getMessage());
+        }
+        String unit = ScalarUnit.of(spec.model());
+        Kymograph k = result.kymograph().withValues(result.kymograph().values(), unit);
+        List<Path> files = new ArrayList<>();
+        List<String> warnings = new ArrayList<>();
+        Path csv = outDir.resolve("kymograph.csv");
+        KymographCsv.write(k, csv);
+        files.add(csv);
+        String title = spec.model() + (result.spread() != null ? " (stochastic mean of "
+                + spec.stochastic().runs() + " runs)" : "") + ": " + result.species();
+        Path png = outDir.resolve("kymograph.png");
+        Pictures.savePng(Heatmap.of(k, title).render(k), png);
+        files.add(png);
+        if (result.spread() != null) {
+            Kymograph sd = result.spread().withValues(result.spread().values(), unit);
+            Path sdCsv = outDir.resolve("kymograph_sd.csv");
+            KymographCsv.write(sd, sdCsv);
+            files.add(sdCsv);
+            Path sdPng = outDir.resolve("kymograph_sd.png");
+            Pictures.savePng(Heatmap.of(sd, spec.model() + ": standard deviation over runs").render(sd), sdPng);
+            files.add(sdPng);
+        }
+        if (parsed.movie() != null) {
+            Path movie = outDir.resolve(parsed.movie().fileName());
+            SyntheticMovie.write(k, parsed.movie(), movie);
+            files.add(movie);
+        }
+        Map<String, Object> summary = new LinkedHashMap<>();
+        summary.put("tool_version", toolVersion);
+        summary.put("model_file", modelFile.getFileName().toString());
+        summary.put("model", spec.model());
+        summary.put("species", result.species());
+        summary.put("signal_unit", unit);
+        if (!spec.parameters().isEmpty()) {
+            Map<String, Object> params = new LinkedHashMap<>();
+            for (String name : Simulation.parameterNames(spec.model())) {
+                params.put(name, Map.of("value", spec.parameters().get(name), "unit", ScalarUnit.parameter(name)));
+            }
+            summary.put("parameters", params);
+        }
+        if (spec.network() != null) {
+            summary.put("network_species", spec.network().species());
+            List<String> reactions = new ArrayList<>();
+            spec.network().reactions().forEach(r -> reactions.add(r.name()));
+            summary.put("network_reactions", reactions);
+        }
+        Map<String, Object> domain = new LinkedHashMap<>();
+        domain.put("length_um", spec.domain().lengthUm());
+        domain.put("dx_um", spec.domain().spacingUm());
+        domain.put("boundary", spec.domain().boundary() == org.dendrokin.core.model.Boundary.FIXED ? "fixed" : "no-flux");
+        domain.put("uniform_cross_section", spec.domain().crossSection().isUniform());
+        summary.put("domain", domain);
+        Map<String, Object> time = new LinkedHashMap<>();
+        time.put("duration_s", spec.durationS());
+        time.put("output_interval_s", spec.outputIntervalS());
+        time.put("frames", k.frameCount());
+        summary.put("time", time);
+        summary.put("solver", result.solverInfo());
+        if (Double.isFinite(result.frontSpeedUmPerS())) {
+            summary.put("front_speed", Map.of("value", result.frontSpeedUmPerS(), "unit", "um/s"));
+        } else {
+            summary.put("front_speed", null);
+            warnings.add("No travelling front was found: the half-maximum position did not advance steadily across"
+                    + " the cable, so no front speed is given.");
+        }
+        summary.put("warnings", warnings);
+        Path json = outDir.resolve("summary.json");
+        String text = new GsonBuilder().setPrettyPrinting().serializeNulls().create().toJson(summary);
+        AtomicFiles.writeString(json, text + "\n");
+        files.add(json);
+        return new Written(result, files, warnings);
+    }
+
+    /** Units of the built-in models' values and parameters. */
+    static final class ScalarUnit {
+        private ScalarUnit() {
+        }
+
+        static String of(String model) {
+            return switch (model) {
+                case "nagumo", "fisher-kpp", "fitzhugh-nagumo" -> "u";
+                case "diffusion-decay" -> "u";
+                default -> "uM";
+            };
+        }
+
+        static String parameter(String name) {
+            return switch (name) {
+                case "D", "D_ca", "D_buffer" -> "um^2/s";
+                case "k", "r" -> "1/s";
+                case "B_total", "Kd" -> "uM";
+                case "kon" -> "1/(uM s)";
+                default -> "";
+            };
+        }
+    }
+}
