@@ -55,19 +55,24 @@ public final class NetworkRun {
     private final double[][] cacheLower;
     private final double[][] cacheCPrime;
     private final double[][] cacheInvPivot;
+    private final double[][] cachePLower;
+    private final double[][] cachePDiag;
+    private final double[][] cachePUpper;
+    private final double[] work;
+    private final double[][] cPrev;
     private int cacheNext;
     private long lastStepCount;
 
     private NetworkRun(ReactionNetwork network, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
             List<Stimulus> stimuli, SolverSettings settings, String observedDefault) {
         this.network = network;
-        this.grid = new CableGrid(domain);
+        this.grid = new CableGrid(domain, settings.spatialOrder());
         this.n = grid.n;
         this.m = network.speciesCount();
         this.settings = settings;
         this.d = network.diffusionUm2PerS();
         this.stimuli = List.copyOf(stimuli);
-        this.timeline = new Timeline(outputTimesS, this.stimuli);
+        this.timeline = new Timeline(outputTimesS, this.stimuli, false);
         this.frames = outputTimesS.length;
         this.positions = outputPositionsUm.length;
         Checks.require(positions > 0, "at least one output position is needed");
@@ -131,6 +136,11 @@ public final class NetworkRun {
         cacheLower = new double[CACHE * m][n];
         cacheCPrime = new double[CACHE * m][n];
         cacheInvPivot = new double[CACHE * m][n];
+        cachePLower = new double[CACHE * m][n];
+        cachePDiag = new double[CACHE * m][n];
+        cachePUpper = new double[CACHE * m][n];
+        work = new double[n];
+        cPrev = new double[m][n];
     }
 
     /**
@@ -187,6 +197,7 @@ public final class NetworkRun {
         double dtMax = settings.maxStep(network.rateScalePerS(), grid.h, dMax, minWidthUm);
         boolean smooth = false;
         long steps = 0;
+        int interior = 0;
         Timeline tl = timeline;
         int nb = tl.breakCount();
         for (int j = 0; j < nb; j++) {
@@ -229,6 +240,11 @@ public final class NetworkRun {
                         }
                     }
                 }
+                // sources enter as B q, like the time derivative (B = I unless compact)
+                for (double[] row : source) {
+                    System.arraycopy(row, 0, work, 0, n);
+                    grid.applyMass(work, row);
+                }
             }
             boolean anyClamp = false;
             for (boolean on : clampOn) {
@@ -252,7 +268,17 @@ public final class NetworkRun {
             double target = settings.fixedStepS() > 0 ? settings.fixedStepS() : dtMax;
             long count = Math.max(1, (long) Math.ceil(gap / target - 1e-9));
             double dt = gap / count;
+            double t = tl.breaksS[j];
             for (long step = 0; step < count; step++) {
+                double tNext = step == count - 1 ? tl.breaksS[j + 1] : tl.breaksS[j] + (step + 1) * dt;
+                boolean interpolate = interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext;
+                if (interpolate) {
+                    for (int s = 0; s < m; s++) {
+                        if (out[s] != null) {
+                            System.arraycopy(c[s], 0, cPrev[s], 0, n);
+                        }
+                    }
+                }
                 react(0.5 * dt);
                 for (int s = 0; s < m; s++) {
                     diffuse(s, dt, smooth && settings.smoothing());
@@ -262,6 +288,18 @@ public final class NetworkRun {
                 if (anyClamp) {
                     applyClamps();
                 }
+                while (interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext) {
+                    // outputs between steps: linear in time, second order like the scheme
+                    double w = (tl.interiorTimeS[interior] - t) / (tNext - t);
+                    int frame = tl.interiorFrame[interior];
+                    for (int s = 0; s < m; s++) {
+                        if (out[s] != null) {
+                            blend(cPrev[s], c[s], w, out[s], frame);
+                        }
+                    }
+                    interior++;
+                }
+                t = tNext;
             }
             steps += count;
         }
@@ -274,6 +312,18 @@ public final class NetworkRun {
             int i = sampleIndex[q];
             double wt = sampleWeight[q];
             target[base + q] = field[i] + wt * (field[i + 1] - field[i]);
+        }
+    }
+
+    private void blend(double[] before, double[] after, double w, double[] target, int frame) {
+        int base = frame * positions;
+        double v = 1 - w;
+        for (int q = 0; q < positions; q++) {
+            int i = sampleIndex[q];
+            double x = sampleWeight[q];
+            double a = before[i] + x * (before[i + 1] - before[i]);
+            double b = after[i] + x * (after[i + 1] - after[i]);
+            target[base + q] = v * a + w * b;
         }
     }
 
@@ -292,6 +342,7 @@ public final class NetworkRun {
         }
     }
 
+    /** Cache slot of A = B - cc L (factored) and P = B + cc L for one species; computed on a miss. */
     private int factorisation(int species, double cc) {
         for (int k = 0; k < CACHE; k++) {
             if (cacheC[species * CACHE + k] == cc) {
@@ -301,33 +352,40 @@ public final class NetworkRun {
         int slot = species * CACHE + cacheNext;
         cacheNext = (cacheNext + 1) % CACHE;
         double[] lower = cacheLower[slot];
-        double[] diag = rhs;   // scratch: rhs is rebuilt before each use
+        double[] diag = rhs;    // scratch: rhs is rebuilt before each use
+        double[] upper = work;  // scratch: work is only used when sources change
         for (int i = 0; i < n; i++) {
-            lower[i] = -cc * grid.lower[i];
-            diag[i] = 1 - cc * grid.diag[i];
+            lower[i] = grid.massLower[i] - cc * grid.lower[i];
+            diag[i] = grid.massDiag[i] - cc * grid.diag[i];
+            upper[i] = grid.massUpper[i] - cc * grid.upper[i];
+            cachePLower[slot][i] = grid.massLower[i] + cc * grid.lower[i];
+            cachePDiag[slot][i] = grid.massDiag[i] + cc * grid.diag[i];
+            cachePUpper[slot][i] = grid.massUpper[i] + cc * grid.upper[i];
         }
-        double[] cPrime = cacheCPrime[slot];
-        double[] invPivot = cacheInvPivot[slot];
-        // upper = -cc * grid.upper, folded into the factorisation directly
-        double p = diag[0];
-        invPivot[0] = 1 / p;
-        cPrime[0] = -cc * grid.upper[0] * invPivot[0];
-        for (int i = 1; i < n; i++) {
-            p = diag[i] - lower[i] * cPrime[i - 1];
-            invPivot[i] = 1 / p;
-            cPrime[i] = -cc * grid.upper[i] * invPivot[i];
-        }
+        TridiagonalSolver.factor(lower, diag, upper, cacheCPrime[slot], cacheInvPivot[slot]);
         cacheC[slot] = cc;
         return slot;
     }
 
+    /** Crank-Nicolson (B - c L) u1 = (B + c L) u0 + dt B q for one species, or two backward-Euler half steps. */
     private void diffuse(int s, double dt, boolean rannacher) {
         double ds = d[s];
+        double[] u = c[s];
+        double[] q = source[s];
         if (ds == 0) {
-            double[] q = source[s];
-            double[] row = c[s];
-            for (int i = 0; i < n; i++) {
-                row[i] += dt * q[i];
+            if (grid.compact) {
+                // B u_t = B q: an immobile species just accumulates its source
+                for (int i = 0; i < n; i++) {
+                    work[i] = dt * q[i];
+                }
+                TridiagonalSolver.solve(grid.massLower, grid.massDiag, grid.massUpper, work, work, rhs);
+                for (int i = 0; i < n; i++) {
+                    u[i] += work[i];
+                }
+            } else {
+                for (int i = 0; i < n; i++) {
+                    u[i] += dt * q[i];
+                }
             }
             return;
         }
@@ -336,27 +394,26 @@ public final class NetworkRun {
         double[] lower = cacheLower[slot];
         double[] cPrime = cacheCPrime[slot];
         double[] invPivot = cacheInvPivot[slot];
-        double[] u = c[s];
-        double[] q = source[s];
         if (rannacher) {
             double half = 0.5 * dt;
             for (int sub = 0; sub < 2; sub++) {
+                grid.applyMass(u, rhs);
                 for (int i = 0; i < n; i++) {
-                    rhs[i] = u[i] + half * q[i];
+                    rhs[i] += half * q[i];
                 }
                 TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
             }
             return;
         }
-        double[] gl = grid.lower;
-        double[] gd = grid.diag;
-        double[] gu = grid.upper;
+        double[] pl = cachePLower[slot];
+        double[] pd = cachePDiag[slot];
+        double[] pu = cachePUpper[slot];
         int last = n - 1;
-        rhs[0] = u[0] + cc * (gd[0] * u[0] + gu[0] * u[1]) + dt * q[0];
+        rhs[0] = pd[0] * u[0] + pu[0] * u[1] + dt * q[0];
         for (int i = 1; i < last; i++) {
-            rhs[i] = u[i] + cc * (gl[i] * u[i - 1] + gd[i] * u[i] + gu[i] * u[i + 1]) + dt * q[i];
+            rhs[i] = pl[i] * u[i - 1] + pd[i] * u[i] + pu[i] * u[i + 1] + dt * q[i];
         }
-        rhs[last] = u[last] + cc * (gl[last] * u[last - 1] + gd[last] * u[last]) + dt * q[last];
+        rhs[last] = pl[last] * u[last - 1] + pd[last] * u[last] + dt * q[last];
         TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
     }
 

@@ -74,10 +74,15 @@ public final class ScalarRun {
     private final boolean[] clampOn;
     private final double[][] sens;
     private final double[] sensRhs;
+    private final double[] uPrev;
+    private final double[][] sensPrev;
     private final double[] cacheC = new double[CACHE];
     private final double[][] cacheLower;
     private final double[][] cacheCPrime;
     private final double[][] cacheInvPivot;
+    private final double[][] cachePLower;
+    private final double[][] cachePDiag;
+    private final double[][] cachePUpper;
     private int cacheNext;
     private long lastStepCount;
     private double[] initial;
@@ -85,11 +90,11 @@ public final class ScalarRun {
     private ScalarRun(Model model, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
             List<Stimulus> stimuli, SolverSettings settings) {
         this.model = model;
-        this.grid = new CableGrid(domain);
+        this.grid = new CableGrid(domain, settings.spatialOrder());
         this.n = grid.n;
         this.settings = settings;
         this.stimuli = List.copyOf(stimuli);
-        this.timeline = new Timeline(outputTimesS, this.stimuli);
+        this.timeline = new Timeline(outputTimesS, this.stimuli, false);
         this.frames = outputTimesS.length;
         this.positions = outputPositionsUm.length;
         Checks.require(positions > 0, "at least one output position is needed");
@@ -140,9 +145,14 @@ public final class ScalarRun {
         clampOn = new boolean[count];
         sens = new double[model.parameters.size()][n];
         sensRhs = new double[n];
+        uPrev = new double[n];
+        sensPrev = new double[model.parameters.size()][n];
         cacheLower = new double[CACHE][n];
         cacheCPrime = new double[CACHE][n];
         cacheInvPivot = new double[CACHE][n];
+        cachePLower = new double[CACHE][n];
+        cachePDiag = new double[CACHE][n];
+        cachePUpper = new double[CACHE][n];
         Arrays.fill(cacheC, Double.NaN);
     }
 
@@ -210,6 +220,11 @@ public final class ScalarRun {
     void setInitialState(double[] values) {
         Checks.require(values == null || values.length == n, "initial state needs one value per node (" + n + ")");
         initial = values == null ? null : values.clone();
+    }
+
+    /** The spatial order actually used (4 only on a uniform cross-section). */
+    public int spatialOrder() {
+        return grid.compact ? 4 : 2;
     }
 
     /** Number of time steps the last solve took. */
@@ -282,6 +297,7 @@ public final class ScalarRun {
         boolean smooth = false;
         boolean anyClamp = false;
         long steps = 0;
+        int interior = 0;
         Timeline tl = timeline;
         int nb = tl.breakCount();
         for (int j = 0; j < nb; j++) {
@@ -317,17 +333,19 @@ public final class ScalarRun {
                 }
             }
             if (injectionsChanged) {
-                Arrays.fill(source, 0);
+                // the source enters as B q, like the time derivative (B = I unless compact)
+                Arrays.fill(rhs, 0);
                 for (int s = 0; s < injectionOn.length; s++) {
                     if (injectionOn[s]) {
                         Stimulus st = stimuli.get(s);
                         double r = st.amount() / st.durationS();
                         double[] g = profile[s];
                         for (int i = 0; i < n; i++) {
-                            source[i] += r * g[i];
+                            rhs[i] += r * g[i];
                         }
                     }
                 }
+                grid.applyMass(rhs, source);
             }
             anyClamp = false;
             for (boolean c : clampOn) {
@@ -353,14 +371,43 @@ public final class ScalarRun {
             long count = Math.max(1, (long) Math.ceil(gap / target - 1e-9));
             double dt = gap / count;
             int slot = factorisation(0.5 * dt * d);
+            double t = tl.breaksS[j];
             for (long step = 0; step < count; step++) {
-                react(p, 0.5 * dt, withSens);
-                diffuse(slot, dt, d, smooth && settings.smoothing(), withSens);
+                double tNext = step == count - 1 ? tl.breaksS[j + 1] : tl.breaksS[j] + (step + 1) * dt;
+                boolean interpolate = interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext;
+                if (interpolate) {
+                    System.arraycopy(u, 0, uPrev, 0, n);
+                    if (withSens) {
+                        for (int q = 0; q < sens.length; q++) {
+                            System.arraycopy(sens[q], 0, sensPrev[q], 0, n);
+                        }
+                    }
+                }
+                boolean rannacher = smooth && settings.smoothing();
+                if (!withSens && !rannacher) {
+                    fusedStep(p, slot, dt);
+                } else {
+                    react(p, 0.5 * dt, withSens);
+                    diffuse(slot, dt, d, rannacher, withSens);
+                    react(p, 0.5 * dt, withSens);
+                }
                 smooth = false;
-                react(p, 0.5 * dt, withSens);
                 if (anyClamp) {
                     applyClamps(withSens);
                 }
+                while (interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext) {
+                    // outputs between steps: linear in time, second order like the scheme
+                    double w = (tl.interiorTimeS[interior] - t) / (tNext - t);
+                    int frame = tl.interiorFrame[interior];
+                    blend(uPrev, u, w, out, frame);
+                    if (withSens) {
+                        for (int q = 0; q < sens.length; q++) {
+                            blend(sensPrev[q], sens[q], w, sensOut[q], frame);
+                        }
+                    }
+                    interior++;
+                }
+                t = tNext;
             }
             steps += count;
         }
@@ -373,6 +420,18 @@ public final class ScalarRun {
             int i = sampleIndex[q];
             double w = sampleWeight[q];
             target[base + q] = field[i] + w * (field[i + 1] - field[i]);
+        }
+    }
+
+    private void blend(double[] before, double[] after, double w, double[] target, int frame) {
+        int base = frame * positions;
+        double v = 1 - w;
+        for (int q = 0; q < positions; q++) {
+            int i = sampleIndex[q];
+            double x = sampleWeight[q];
+            double a = before[i] + x * (before[i + 1] - before[i]);
+            double b = after[i] + x * (after[i + 1] - after[i]);
+            target[base + q] = v * a + w * b;
         }
     }
 
@@ -395,7 +454,10 @@ public final class ScalarRun {
         }
     }
 
-    /** Returns the cache slot holding the factorisation of A = I - c L, computing it on a miss. */
+    /**
+     * Returns the cache slot holding, for c = dt D / 2, the factorisation of A = B - c L and the coefficients
+     * of P = B + c L; computes them on a miss.
+     */
     private int factorisation(double c) {
         for (int k = 0; k < CACHE; k++) {
             if (cacheC[k] == c) {
@@ -408,9 +470,12 @@ public final class ScalarRun {
         double[] diag = rhs;          // scratch: rhs is rebuilt before each use
         double[] upper = lapU0;       // scratch as well
         for (int i = 0; i < n; i++) {
-            lower[i] = -c * grid.lower[i];
-            diag[i] = 1 - c * grid.diag[i];
-            upper[i] = -c * grid.upper[i];
+            lower[i] = grid.massLower[i] - c * grid.lower[i];
+            diag[i] = grid.massDiag[i] - c * grid.diag[i];
+            upper[i] = grid.massUpper[i] - c * grid.upper[i];
+            cachePLower[k][i] = grid.massLower[i] + c * grid.lower[i];
+            cachePDiag[k][i] = grid.massDiag[i] + c * grid.diag[i];
+            cachePUpper[k][i] = grid.massUpper[i] + c * grid.upper[i];
         }
         TridiagonalSolver.factor(lower, diag, upper, cacheCPrime[k], cacheInvPivot[k]);
         cacheC[k] = c;
@@ -418,9 +483,10 @@ public final class ScalarRun {
     }
 
     /**
-     * One diffusion step of length dt: Crank-Nicolson (I - c L) u1 = (I + c L) u0 + dt q with c = dt D / 2,
-     * or, when {@code rannacher}, two backward-Euler half steps (I - c L) u' = u + (dt/2) q, which use the
-     * same matrix. Sensitivities follow the differentiated equations; only D appears in them.
+     * One diffusion step of length dt: Crank-Nicolson (B - c L) u1 = (B + c L) u0 + dt B q with c = dt D / 2,
+     * or, when {@code rannacher}, two backward-Euler half steps (B - c L) u' = B u + (dt/2) B q, which use the
+     * same matrix. B is the mass matrix of {@link CableGrid} (I for the standard Laplacian). Sensitivities
+     * follow the differentiated equations; only D appears in them.
      */
     private void diffuse(int slot, double dt, double d, boolean rannacher, boolean withSens) {
         double[] lower = cacheLower[slot];
@@ -430,17 +496,21 @@ public final class ScalarRun {
         if (rannacher) {
             double half = 0.5 * dt;
             for (int sub = 0; sub < 2; sub++) {
+                grid.applyMass(u, rhs);
                 for (int i = 0; i < n; i++) {
-                    rhs[i] = u[i] + half * source[i];
+                    rhs[i] += half * source[i];
                 }
                 TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
                 if (withSens) {
-                    // d/dD of (I - c L) u' = ...: (I - c L) s' = s + (dt/2) L u'
+                    // d/dD of (B - c L) u' = ...: (B - c L) s' = B s + (dt/2) L u'
                     grid.apply(u, lapU0);
                     for (int q = 0; q < sens.length; q++) {
                         double[] s = sens[q];
-                        for (int i = 0; i < n; i++) {
-                            sensRhs[i] = q == 0 ? s[i] + half * lapU0[i] : s[i];
+                        grid.applyMass(s, sensRhs);
+                        if (q == 0) {
+                            for (int i = 0; i < n; i++) {
+                                sensRhs[i] += half * lapU0[i];
+                            }
                         }
                         TridiagonalSolver.solveFactored(lower, cPrime, invPivot, sensRhs, s);
                     }
@@ -448,37 +518,125 @@ public final class ScalarRun {
             }
             return;
         }
-        double[] gl = grid.lower;
-        double[] gd = grid.diag;
-        double[] gu = grid.upper;
+        if (withSens) {
+            grid.apply(u, lapU0);
+        }
+        double[] pl = cachePLower[slot];
+        double[] pd = cachePDiag[slot];
+        double[] pu = cachePUpper[slot];
         int last = n - 1;
         double[] uu = u;
-        double lap = gd[0] * uu[0] + gu[0] * uu[1];
-        lapU0[0] = lap;
-        rhs[0] = uu[0] + c * lap + dt * source[0];
+        rhs[0] = pd[0] * uu[0] + pu[0] * uu[1] + dt * source[0];
         for (int i = 1; i < last; i++) {
-            lap = gl[i] * uu[i - 1] + gd[i] * uu[i] + gu[i] * uu[i + 1];
-            lapU0[i] = lap;
-            rhs[i] = uu[i] + c * lap + dt * source[i];
+            rhs[i] = pl[i] * uu[i - 1] + pd[i] * uu[i] + pu[i] * uu[i + 1] + dt * source[i];
         }
-        lap = gl[last] * uu[last - 1] + gd[last] * uu[last];
-        lapU0[last] = lap;
-        rhs[last] = uu[last] + c * lap + dt * source[last];
+        rhs[last] = pl[last] * uu[last - 1] + pd[last] * uu[last] + dt * source[last];
         TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
         if (withSens) {
-            // d/dD: (I - c L) s1 = (I + c L) s0 + (dt/2) L (u0 + u1)
+            // d/dD: (B - c L) s1 = (B + c L) s0 + (dt/2) L (u0 + u1)
             grid.apply(u, rhs);
             for (int i = 0; i < n; i++) {
                 lapU0[i] += rhs[i];
             }
             for (int q = 0; q < sens.length; q++) {
                 double[] s = sens[q];
-                grid.apply(s, sensRhs);
-                for (int i = 0; i < n; i++) {
-                    sensRhs[i] = s[i] + c * sensRhs[i] + (q == 0 ? 0.5 * dt * lapU0[i] : 0);
+                sensRhs[0] = pd[0] * s[0] + pu[0] * s[1];
+                for (int i = 1; i < last; i++) {
+                    sensRhs[i] = pl[i] * s[i - 1] + pd[i] * s[i] + pu[i] * s[i + 1];
+                }
+                sensRhs[last] = pl[last] * s[last - 1] + pd[last] * s[last];
+                if (q == 0) {
+                    for (int i = 0; i < n; i++) {
+                        sensRhs[i] += 0.5 * dt * lapU0[i];
+                    }
                 }
                 TridiagonalSolver.solveFactored(lower, cPrime, invPivot, sensRhs, s);
             }
+        }
+    }
+
+    /**
+     * One Strang step without sensitivities, fused into two sweeps: the ascending sweep applies the first
+     * reaction half step, forms the Crank-Nicolson right-hand side and does the Thomas forward elimination;
+     * the descending sweep does the back substitution and the second reaction half step. The arithmetic is
+     * exactly that of {@link #react}, {@link #diffuse}, {@link #react}; only the order of the loops differs,
+     * which lets the reaction work overlap the Thomas recurrences.
+     */
+    private void fusedStep(double[] p, int slot, double dt) {
+        double[] lower = cacheLower[slot];
+        double[] cPrime = cacheCPrime[slot];
+        double[] invPivot = cacheInvPivot[slot];
+        double[] pl = cachePLower[slot];
+        double[] pd = cachePDiag[slot];
+        double[] pu = cachePUpper[slot];
+        double[] src = source;
+        double[] dp = rhs;
+        double[] uu = u;
+        int last = n - 1;
+        double tau = 0.5 * dt;
+        // reaction constants: mode 0 = none, 1 = linear factor e, 2 = logistic (e, em1), 3 = Nagumo ROS2
+        int mode;
+        double e = 0;
+        double em1 = 0;
+        double k = 0;
+        double a = 0;
+        switch (model) {
+            case DIFFUSION_DECAY -> {
+                mode = p[1] == 0 ? 0 : 1;
+                e = Math.exp(-p[1] * tau);
+            }
+            case FISHER_KPP -> {
+                mode = p[1] == 0 ? 0 : 2;
+                e = Math.exp(p[1] * tau);
+                em1 = Math.expm1(p[1] * tau);
+            }
+            default -> {
+                mode = p[1] == 0 ? 0 : 3;
+                k = p[1];
+                a = p[2];
+            }
+        }
+        double gt = GAMMA * tau;
+        double vCur = reaction(mode, uu[0], e, em1, k, a, tau, gt);
+        double vNext = reaction(mode, uu[1], e, em1, k, a, tau, gt);
+        double prev = (pd[0] * vCur + pu[0] * vNext + dt * src[0]) * invPivot[0];
+        dp[0] = prev;
+        for (int i = 1; i < last; i++) {
+            double vPrev = vCur;
+            vCur = vNext;
+            vNext = reaction(mode, uu[i + 1], e, em1, k, a, tau, gt);
+            double r = pl[i] * vPrev + pd[i] * vCur + pu[i] * vNext + dt * src[i];
+            prev = (r - lower[i] * prev) * invPivot[i];
+            dp[i] = prev;
+        }
+        double r = pl[last] * vCur + pd[last] * vNext + dt * src[last];
+        double x = (r - lower[last] * prev) * invPivot[last];
+        uu[last] = reaction(mode, x, e, em1, k, a, tau, gt);
+        for (int i = last - 1; i >= 0; i--) {
+            x = dp[i] - cPrime[i] * x;
+            uu[i] = reaction(mode, x, e, em1, k, a, tau, gt);
+        }
+    }
+
+    private static double reaction(int mode, double v, double e, double em1, double k, double a, double tau,
+            double gt) {
+        switch (mode) {
+            case 1:
+                return v * e;
+            case 2:
+                return v * e / (1 + v * em1);
+            case 3: {
+                double f = k * v * (1 - v) * (v - a);
+                double jac = k * ((-3 * v + 2 * (1 + a)) * v - a);
+                double w = 1 / (1 - gt * jac);
+                double k1 = f * w;
+                double v2 = v + tau * k1;
+                double f2 = k * v2 * (1 - v2) * (v2 - a);
+                double k2 = (f2 - 2 * k1) * w;
+                return v + tau * (1.5 * k1 + 0.5 * k2);
+            }
+            default:
+                return v;
         }
     }
 

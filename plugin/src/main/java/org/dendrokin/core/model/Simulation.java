@@ -123,6 +123,7 @@ public final class Simulation {
         info.put("grid_nodes", spec.domain().nodeCount());
         info.put("dx_um", spec.domain().spacingUm());
         info.put("step_factor", spec.settings().stepFactor());
+        info.put("smoothing", spec.settings().smoothing());
         if (spec.settings().fixedStepS() > 0) {
             info.put("fixed_step_s", spec.settings().fixedStepS());
         }
@@ -163,6 +164,7 @@ public final class Simulation {
             double[] out = new double[times.length * x.length];
             run.solve(p, out);
             progress.report("simulation", 1, 1);
+            info.put("spatial_order", run.spatialOrder());
             info.put("time_steps", run.lastStepCount());
             Kymograph k = new Kymograph(x, times, out, "model units");
             String shown = model.equals("buffered-diffusion-rapid") ? "Ca" : "u";

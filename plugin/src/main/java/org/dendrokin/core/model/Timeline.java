@@ -28,7 +28,20 @@ final class Timeline {
     final int[] outputStart;
     final int[] outputFrame;
 
+    /** Outputs strictly between breakpoints (only when outputs are not breakpoints), sorted by time. */
+    final double[] interiorTimeS;
+    final int[] interiorFrame;
+
     Timeline(double[] outputTimesS, List<Stimulus> stimuli) {
+        this(outputTimesS, stimuli, true);
+    }
+
+    /**
+     * @param outputsAreBreakpoints true: every output time is a breakpoint (the solver steps exactly to it);
+     *                              false: only 0, stimulus times and the last output time are, and outputs
+     *                              in between are listed in {@link #interiorTimeS} for interpolation
+     */
+    Timeline(double[] outputTimesS, List<Stimulus> stimuli, boolean outputsAreBreakpoints) {
         Checks.require(outputTimesS.length > 0, "at least one output time is needed");
         double end = 0;
         for (double t : outputTimesS) {
@@ -59,8 +72,12 @@ final class Timeline {
         for (double[] e : events) {
             times.add(e[0]);
         }
-        for (double t : outputTimesS) {
-            times.add(t);
+        if (outputsAreBreakpoints) {
+            for (double t : outputTimesS) {
+                times.add(t);
+            }
+        } else {
+            times.add(end);
         }
         times.sort(Double::compare);
         List<Double> unique = new ArrayList<>();
@@ -90,16 +107,36 @@ final class Timeline {
         }
         java.util.Arrays.sort(order, Comparator.comparingDouble(f -> outputTimesS[f]));
         outputStart = new int[nb + 1];
-        outputFrame = new int[order.length];
+        int aligned = 0;
+        for (Integer f : order) {
+            if (java.util.Arrays.binarySearch(breaksS, outputTimesS[f]) >= 0) {
+                aligned++;
+            }
+        }
+        outputFrame = new int[aligned];
         int m = 0;
+        int next = 0;
         for (int j = 0; j < nb; j++) {
             outputStart[j] = m;
-            while (m < order.length && outputTimesS[order[m]] == breaksS[j]) {
-                outputFrame[m] = order[m];
-                m++;
+            while (next < order.length && outputTimesS[order[next]] <= breaksS[j]) {
+                if (outputTimesS[order[next]] == breaksS[j]) {
+                    outputFrame[m++] = order[next];
+                }
+                next++;
             }
         }
         outputStart[nb] = m;
+        int interior = order.length - aligned;
+        interiorTimeS = new double[interior];
+        interiorFrame = new int[interior];
+        int q = 0;
+        for (Integer f : order) {
+            if (java.util.Arrays.binarySearch(breaksS, outputTimesS[f]) < 0) {
+                interiorTimeS[q] = outputTimesS[f];
+                interiorFrame[q] = f;
+                q++;
+            }
+        }
     }
 
     int breakCount() {

@@ -155,7 +155,7 @@ public final class ModelFile {
         SolverSettings settings = SolverSettings.DEFAULT;
         if (root.has("solver")) {
             JsonObject s = object(root, "solver", "solver");
-            keys(s, "solver.", Set.of("step_factor", "max_step_s", "fixed_step_s", "smoothing"));
+            keys(s, "solver.", Set.of("step_factor", "max_step_s", "fixed_step_s", "smoothing", "spatial_order"));
             if (s.has("step_factor")) {
                 settings = settings.withStepFactor(positive(s, "step_factor", "solver.step_factor"));
             }
@@ -164,6 +164,13 @@ public final class ModelFile {
             }
             if (s.has("fixed_step_s")) {
                 settings = settings.withFixedStepS(positive(s, "fixed_step_s", "solver.fixed_step_s"));
+            }
+            if (s.has("spatial_order")) {
+                double order = number(s, "spatial_order", "solver.spatial_order");
+                if (order != 2 && order != 4) {
+                    throw fail("solver.spatial_order must be 2 or 4, got " + num(order));
+                }
+                settings = settings.withSpatialOrder((int) order);
             }
             if (s.has("smoothing")) {
                 settings = settings.withSmoothing(bool(s, "smoothing", "solver.smoothing"));

@@ -1,0 +1,18 @@
+#!/usr/bin/env bash
+# Reaction-diffusion engine benchmark (by hand, not CI): the SciPy method-of-lines runs and the fine-grid
+# references (engine_scipy.py), then the engine on the same problems (EngineBenchmark), one thread each.
+# Figures go into docs/benchmarks.md, section "Reaction-diffusion engine", with the uptime lines printed here.
+#
+# Usage: bench/engine/run-engine-benchmark.sh [WORK]   (WORK holds the references; default /tmp/dendrokin-engine-bench)
+set -euo pipefail
+ROOT="$(cd "$(dirname "$0")/../.." && pwd)"
+WORK="${1:-/tmp/dendrokin-engine-bench}"
+mkdir -p "$WORK"
+cd "$ROOT"
+mvn -B -q test-compile
+uptime
+python3 bench/engine/engine_scipy.py "$WORK"
+uptime
+mvn -B -q -pl plugin exec:exec -Dexec.executable=java -Dexec.classpathScope=test \
+    -Dexec.args="-cp %classpath org.dendrokin.bench.EngineBenchmark $WORK"
+uptime

@@ -1,0 +1,117 @@
+package org.dendrokin.core.model;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.List;
+
+import org.dendrokin.core.Progress;
+import org.junit.jupiter.api.Test;
+
+class StochasticEnsembleTest {
+    private static double[] nodes(Domain d) {
+        double[] x = new double[d.nodeCount()];
+        for (int i = 0; i < x.length; i++) {
+            x[i] = d.nodeUm(i);
+        }
+        return x;
+    }
+
+    @Test
+    void birthDeathIsPoissonWithMeanAndVarianceKbOverKd() {
+        double kb = 10;
+        double kd = 1;
+        List<String> names = List.of("X");
+        ReactionNetwork net = new ReactionNetwork(names, new double[] {0}, new double[] {0}, List.of(
+                new ReactionNetwork.Reaction("birth", new double[] {1}, Expression.constant(kb), 0),
+                new ReactionNetwork.Reaction("death", new double[] {-1},
+                        ReactionNetwork.massAction(new double[] {1}, new double[1], kd, 0), kd)));
+        // 1 molecule per unit per um^3 and dx = 1 um: every inner voxel holds 1 um^3, so counts = values.
+        Domain domain = new Domain(100, 1, Boundary.NO_FLUX);
+        double[] x = nodes(domain);
+        double[] times = new double[11];
+        for (int f = 0; f < times.length; f++) {
+            times[f] = 10 + 3 * f;
+        }
+        int runs = 2;
+        StochasticSettings settings = new StochasticSettings(runs, 77, 2, 1.0);
+        // Keep every run: the ensemble mean alone would hide the distribution.
+        double sum = 0;
+        double sumSq = 0;
+        int count = 0;
+        for (int r = 0; r < runs; r++) {
+            StochasticEnsemble.Voxels v = new StochasticEnsemble.Voxels(net, domain, times, x, List.of(), "X", 1.0,
+                    StochasticEnsemble.seedOf(settings.seed(), r));
+            double[] out = v.simulate(Progress.NONE);
+            for (int f = 0; f < times.length; f++) {
+                for (int i = 1; i < x.length - 1; i++) {
+                    double c = out[f * x.length + i];
+                    assertEquals(Math.rint(c), c, 1e-12, "whole molecules");
+                    sum += c;
+                    sumSq += c * c;
+                    count++;
+                }
+            }
+        }
+        double mean = sum / count;
+        double var = (sumSq - count * mean * mean) / (count - 1);
+        // Frames 3 s apart: correlation exp(-3) = 0.05, so the samples are nearly independent.
+        double seMean = Math.sqrt(kb / kd / count);
+        // Poisson: var(sample variance) ~ (mu4 - sigma^4)/N with mu4 = lambda + 3 lambda^2.
+        double seVar = Math.sqrt((kb / kd + 2 * Math.pow(kb / kd, 2)) / count);
+        // REF: Gillespie 1977; immigration-death stationary law Poisson(kb/kd), mean = variance = 10 [published]; sheet s7.2
+        assertEquals(10.0, mean, 4.5 * seMean, "stationary mean count");
+        // REF: as above, variance = kb/kd = 10 [published]; sheet s7.2
+        assertEquals(10.0, var, 4.5 * seVar, "stationary variance of the count");
+    }
+
+    @Test
+    void ensembleMeanOfStochasticDiffusionMatchesTheDeterministicProfile() {
+        List<String> names = List.of("X");
+        ReactionNetwork net = new ReactionNetwork(names, new double[] {1.0}, new double[] {0}, List.of());
+        Domain domain = new Domain(20, 0.5, Boundary.NO_FLUX);
+        double[] x = nodes(domain);
+        double[] times = {1.5};
+        List<Stimulus> pulse = List.of(Stimulus.pulse(0, 10, 1.5, 40));
+        int runs = 300;
+        StochasticEnsemble.Summary s = StochasticEnsemble.run(net, domain, times, x, pulse, "X",
+                new StochasticSettings(runs, 5, 2, 1.0), Progress.NONE);
+        NetworkRun det = NetworkRun.prepare(net, domain, times, x, pulse,
+                SolverSettings.DEFAULT.withFixedStepS(1e-3).withSmoothing(false).withSpatialOrder(2), "X");
+        double[][] out = {new double[x.length]};
+        det.solve(out);
+        int outside = 0;
+        for (int i = 0; i < x.length; i++) {
+            // Independent walkers give a count with variance at most its mean (Poisson-binomial); where every run
+            // saw nothing the sample sd is 0, so the expected variance (count / voxel volume^2) bounds it instead.
+            double volume = (i == 0 || i == x.length - 1) ? 0.25 : 0.5;
+            double variance = Math.max(s.sd()[i] * s.sd()[i], out[0][i] / volume);
+            double se = Math.sqrt(variance / runs);
+            if (Math.abs(s.mean()[i] - out[0][i]) > 4.5 * se) {
+                outside++;
+            }
+        }
+        // REF: the next-subvolume jump rates D/h^2 make the mean obey the discretised diffusion equation
+        // [published: Elf & Ehrenberg 2004, from memory: fairly sure]; sheet s7.3. 4.5 standard errors per point.
+        assertEquals(0, outside, "points where the ensemble mean is more than 4.5 standard errors off");
+    }
+
+    @Test
+    void theSameSeedGivesTheSameEnsembleWhateverTheThreads() {
+        List<String> names = List.of("X");
+        ReactionNetwork net = new ReactionNetwork(names, new double[] {0.5}, new double[] {0}, List.of(
+                new ReactionNetwork.Reaction("death", new double[] {-1},
+                        ReactionNetwork.massAction(new double[] {1}, new double[1], 0.3, 0), 0.3)));
+        Domain domain = new Domain(10, 0.5, Boundary.FIXED);
+        double[] x = nodes(domain);
+        double[] times = {0, 1, 2};
+        List<Stimulus> pulse = List.of(Stimulus.pulse(0, 5, 1, 20));
+        StochasticEnsemble.Summary one = StochasticEnsemble.run(net, domain, times, x, pulse, "X",
+                new StochasticSettings(6, 11, 1, 1.0), Progress.NONE);
+        StochasticEnsemble.Summary two = StochasticEnsemble.run(net, domain, times, x, pulse, "X",
+                new StochasticSettings(6, 11, 2, 1.0), Progress.NONE);
+        assertArrayEquals(one.mean(), two.mean(), 0, "mean with 1 and 2 threads");
+        assertTrue(one.events() > 0, "events happened");
+    }
+}
