@@ -171,6 +171,11 @@ public final class NetworkRun {
         return network;
     }
 
+    /** The spatial order actually used (4 only on a uniform cross-section). */
+    public int spatialOrder() {
+        return grid.compact ? 4 : 2;
+    }
+
     public long lastStepCount() {
         return lastStepCount;
     }

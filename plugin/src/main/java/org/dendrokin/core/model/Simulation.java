@@ -119,13 +119,15 @@ public final class Simulation {
         double[] times = spec.outputTimesS();
         double[] x = spec.outputPositionsUm();
         Map<String, Object> info = new LinkedHashMap<>();
-        info.put("scheme", "Strang splitting: Crank-Nicolson diffusion, Rosenbrock (ROS2) or exact reactions");
         info.put("grid_nodes", spec.domain().nodeCount());
         info.put("dx_um", spec.domain().spacingUm());
-        info.put("step_factor", spec.settings().stepFactor());
-        info.put("smoothing", spec.settings().smoothing());
-        if (spec.settings().fixedStepS() > 0) {
-            info.put("fixed_step_s", spec.settings().fixedStepS());
+        if (spec.stochastic() == null) {
+            info.put("scheme", "Strang splitting: Crank-Nicolson diffusion, Rosenbrock (ROS2) or exact reactions");
+            info.put("step_factor", spec.settings().stepFactor());
+            info.put("smoothing", spec.settings().smoothing());
+            if (spec.settings().fixedStepS() > 0) {
+                info.put("fixed_step_s", spec.settings().fixedStepS());
+            }
         }
         double origin = spec.stimuli().isEmpty() ? 0 : spec.stimuli().get(0).positionUm();
         String model = spec.model();
@@ -187,6 +189,7 @@ public final class Simulation {
         }
         NetworkRun run = NetworkRun.prepare(network, spec.domain(), times, x, spec.stimuli(), spec.settings(),
                 observed);
+        info.put("spatial_order", run.spatialOrder());
         double[][] out = new double[network.speciesCount()][];
         out[network.indexOf(observed)] = new double[times.length * x.length];
         run.solve(out);
