@@ -79,18 +79,24 @@ public class Analyze_Session_Folder implements PlugIn {
             String model = fit.has("model") ? fit.get("model").getAsString() : "model";
             boolean converged = !fit.has("converged") || fit.get("converged").getAsBoolean();
             String source = model + (model.equals(bestModel) ? " (best)" : "") + (converged ? "" : " (not converged)");
-            if (fit.has("parameters") && fit.get("parameters").isJsonObject()) {
-                for (var e : fit.getAsJsonObject("parameters").entrySet()) {
+            for (String block : new String[] {"parameters", "derived"}) {
+                if (!fit.has(block) || !fit.get(block).isJsonObject()) {
+                    continue;
+                }
+                for (var e : fit.getAsJsonObject(block).entrySet()) {
                     JsonObject p = e.getValue().getAsJsonObject();
                     double[] ci = ci(p.get("ci95"));
                     Tables.add(t, source, e.getKey(), number(p.get("value")),
                             p.has("unit") ? p.get("unit").getAsString() : "", ci[0], ci[1],
-                            p.has("ci_method") ? p.get("ci_method").getAsString() : "");
+                            p.has("ci_method") && !p.get("ci_method").isJsonNull() ? p.get("ci_method").getAsString()
+                                    : "");
                 }
             }
-            for (String criterion : new String[] {"aicc", "aic", "bic", "rmse"}) {
+            for (String criterion : new String[] {"aicc", "aic", "bic", "rmse", "akaike_weight"}) {
                 if (fit.has(criterion)) {
-                    Tables.add(t, source, criterion.toUpperCase(java.util.Locale.ROOT), number(fit.get(criterion)), "",
+                    String name = criterion.equals("akaike_weight") ? "Akaike weight"
+                            : criterion.toUpperCase(java.util.Locale.ROOT);
+                    Tables.add(t, source, name, number(fit.get(criterion)), "",
                             Double.NaN, Double.NaN, "");
                 }
             }
