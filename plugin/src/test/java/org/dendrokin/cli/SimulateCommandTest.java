@@ -101,6 +101,8 @@ class SimulateCommandTest {
         assertBadInput(dir, NAGUMO.formatted("").replace("\"width_um\": 2", "\"width_um\": 0.05"),
                 "stimuli[0].width_um");
         assertBadInput(dir, NAGUMO.formatted(", \"colour\": 1"), "unknown key colour");
+        assertBadInput(dir, NAGUMO.formatted(", \"solver\": {\"fixed_step_s\": 2}"), "solver.fixed_step_s",
+                "too long");
         assertBadInput(dir, """
                 {"model": "network",
                  "network": {"species": [{"name": "A", "D_um2_per_s": 1}, {"name": "B"}],

@@ -16,6 +16,16 @@ public abstract class Expression {
     /** The symbolic derivative with respect to species {@code s}. */
     public abstract Expression derivative(int s);
 
+    /** Appends this expression, in postfix order, to a flat program (see {@link Program}). */
+    abstract void emit(Program.Builder b);
+
+    /** A flat, allocation-free evaluator of this expression; faster than walking the tree. */
+    Program compile() {
+        Program.Builder b = new Program.Builder();
+        emit(b);
+        return b.build();
+    }
+
     /** True when the expression is the constant 0. */
     boolean isZero() {
         return this instanceof Const k && k.v == 0;
@@ -129,6 +139,11 @@ public abstract class Expression {
         }
 
         @Override
+        void emit(Program.Builder b) {
+            b.constant(v);
+        }
+
+        @Override
         public String toString() {
             return Double.toString(v);
         }
@@ -149,6 +164,11 @@ public abstract class Expression {
         @Override
         public Expression derivative(int s) {
             return new Const(s == index ? 1 : 0);
+        }
+
+        @Override
+        void emit(Program.Builder b) {
+            b.species(index);
         }
 
         @Override
@@ -180,6 +200,12 @@ public abstract class Expression {
             }
             return op == 'e' ? multiply(this, da) : divide(da, a);
         }
+
+        @Override
+        void emit(Program.Builder b) {
+            a.emit(b);
+            b.op(op == 'e' ? Program.EXP : Program.LOG);
+        }
     }
 
     private static final class Binary extends Expression {
@@ -191,6 +217,23 @@ public abstract class Expression {
             this.op = op;
             this.a = a;
             this.b = b;
+        }
+
+        @Override
+        void emit(Program.Builder builder) {
+            a.emit(builder);
+            if (op == '^' && b instanceof Const k && (k.v == 2 || k.v == 3)) {
+                builder.op(k.v == 2 ? Program.SQUARE : Program.CUBE);
+                return;
+            }
+            b.emit(builder);
+            builder.op(switch (op) {
+                case '+' -> Program.ADD;
+                case '-' -> Program.SUB;
+                case '*' -> Program.MUL;
+                case '/' -> Program.DIV;
+                default -> Program.POW;
+            });
         }
 
         @Override

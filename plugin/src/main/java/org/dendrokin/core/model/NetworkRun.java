@@ -65,7 +65,7 @@ public final class NetworkRun {
 
     private NetworkRun(ReactionNetwork network, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
             List<Stimulus> stimuli, SolverSettings settings, String observedDefault) {
-        this.network = network;
+        this.network = network.forThread();
         this.grid = new CableGrid(domain, settings.spatialOrder());
         this.n = grid.n;
         this.m = network.speciesCount();

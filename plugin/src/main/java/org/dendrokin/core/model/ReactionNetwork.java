@@ -15,7 +15,8 @@ import org.dendrokin.core.Checks;
  * Concentrations are in the model's unit (uM by convention), D in um^2/s, rates in concentration per s.
  * Built from our JSON network format or from SBML (io layer), or by the built-in multi-species models.
  * The rate laws of the JSON format are built by {@link #massAction}, {@link #michaelisMenten} and
- * {@link #hill}. Immutable.
+ * {@link #hill}. The definition is immutable; {@link #rates} and {@link #jacobian} evaluate compiled rate
+ * programs with their own scratch stacks, so they are not thread-safe: the solvers each take a private copy.
  */
 public final class ReactionNetwork {
     /** One reaction: its net stoichiometry (products minus reactants, per species) and its rate. */
@@ -37,7 +38,10 @@ public final class ReactionNetwork {
     private final List<Reaction> reactions;
     private final double[][] stoich;
     private final Expression[] rates;
-    private final Expression[][] rateDerivatives;
+    private final Program[] ratePrograms;
+    /** For each reaction, the species its rate depends on and the programs of those derivatives. */
+    private final int[][] derivativeSpecies;
+    private final Program[][] derivativePrograms;
     private final double rateScalePerS;
 
     /**
@@ -62,7 +66,9 @@ public final class ReactionNetwork {
         this.reactions = List.copyOf(reactions);
         stoich = new double[reactions.size()][];
         rates = new Expression[reactions.size()];
-        rateDerivatives = new Expression[reactions.size()][m];
+        ratePrograms = new Program[reactions.size()];
+        derivativeSpecies = new int[reactions.size()][];
+        derivativePrograms = new Program[reactions.size()][];
         double scale = 0;
         for (int r = 0; r < reactions.size(); r++) {
             Reaction reaction = reactions.get(r);
@@ -70,9 +76,18 @@ public final class ReactionNetwork {
                     + " needs one stoichiometry entry per species");
             stoich[r] = reaction.netStoichiometry;
             rates[r] = reaction.rate();
+            ratePrograms[r] = reaction.rate().compile();
+            List<Integer> depends = new ArrayList<>();
+            List<Program> programs = new ArrayList<>();
             for (int s = 0; s < m; s++) {
-                rateDerivatives[r][s] = reaction.rate().derivative(s);
+                Expression d = reaction.rate().derivative(s);
+                if (!d.isZero()) {
+                    depends.add(s);
+                    programs.add(d.compile());
+                }
             }
+            derivativeSpecies[r] = depends.stream().mapToInt(Integer::intValue).toArray();
+            derivativePrograms[r] = programs.toArray(new Program[0]);
             scale = Math.max(scale, reaction.rateScalePerS());
         }
         rateScalePerS = scale;
@@ -107,11 +122,11 @@ public final class ReactionNetwork {
         return rateScalePerS;
     }
 
-    /** out[s] = sum_r N[s][r] v_r(c): the reaction part of dc/dt at one node. Allocation-free. */
+    /** out[s] = sum_r N[s][r] v_r(c): the reaction part of dc/dt at one node. Allocation-free; not thread-safe. */
     public void rates(double[] c, double[] out) {
         java.util.Arrays.fill(out, 0);
-        for (int r = 0; r < rates.length; r++) {
-            double v = rates[r].value(c);
+        for (int r = 0; r < ratePrograms.length; r++) {
+            double v = ratePrograms[r].value(c);
             double[] n = stoich[r];
             for (int s = 0; s < n.length; s++) {
                 if (n[s] != 0) {
@@ -121,18 +136,17 @@ public final class ReactionNetwork {
         }
     }
 
-    /** jac[s * m + q] = d(rate of change of species s)/d c_q at one node. Allocation-free. */
+    /** jac[s * m + q] = d(rate of change of species s)/d c_q at one node. Allocation-free; not thread-safe. */
     public void jacobian(double[] c, double[] jac) {
         int m = species.size();
         java.util.Arrays.fill(jac, 0);
-        for (int r = 0; r < rates.length; r++) {
+        for (int r = 0; r < ratePrograms.length; r++) {
             double[] n = stoich[r];
-            for (int q = 0; q < m; q++) {
-                Expression d = rateDerivatives[r][q];
-                if (d.isZero()) {
-                    continue;
-                }
-                double dv = d.value(c);
+            int[] depends = derivativeSpecies[r];
+            Program[] programs = derivativePrograms[r];
+            for (int j = 0; j < depends.length; j++) {
+                int q = depends[j];
+                double dv = programs[j].value(c);
                 for (int s = 0; s < m; s++) {
                     if (n[s] != 0) {
                         jac[s * m + q] += n[s] * dv;
@@ -142,9 +156,34 @@ public final class ReactionNetwork {
         }
     }
 
+    /** A copy with its own evaluation stacks, for use on another thread. */
+    ReactionNetwork forThread() {
+        return new ReactionNetwork(this);
+    }
+
+    private ReactionNetwork(ReactionNetwork other) {
+        species = other.species;
+        diffusionUm2PerS = other.diffusionUm2PerS;
+        initial = other.initial;
+        reactions = other.reactions;
+        stoich = other.stoich;
+        rates = other.rates;
+        ratePrograms = new Program[other.ratePrograms.length];
+        derivativeSpecies = other.derivativeSpecies;
+        derivativePrograms = new Program[other.derivativePrograms.length][];
+        for (int r = 0; r < ratePrograms.length; r++) {
+            ratePrograms[r] = other.ratePrograms[r].copy();
+            derivativePrograms[r] = new Program[other.derivativePrograms[r].length];
+            for (int j = 0; j < derivativePrograms[r].length; j++) {
+                derivativePrograms[r][j] = other.derivativePrograms[r][j].copy();
+            }
+        }
+        rateScalePerS = other.rateScalePerS;
+    }
+
     /** Propensity of reaction r for the well-mixed stochastic mode: its rate expression, in concentration/s. */
     double rateOf(int r, double[] c) {
-        return rates[r].value(c);
+        return ratePrograms[r].value(c);
     }
 
     double[][] stoichiometry() {

@@ -83,6 +83,7 @@ public final class ScalarRun {
     private final double[][] cachePLower;
     private final double[][] cachePDiag;
     private final double[][] cachePUpper;
+    private final double[][] cacheLowerOverPivot;
     private int cacheNext;
     private long lastStepCount;
     private double[] initial;
@@ -153,6 +154,7 @@ public final class ScalarRun {
         cachePLower = new double[CACHE][n];
         cachePDiag = new double[CACHE][n];
         cachePUpper = new double[CACHE][n];
+        cacheLowerOverPivot = new double[CACHE][n];
         Arrays.fill(cacheC, Double.NaN);
     }
 
@@ -478,6 +480,9 @@ public final class ScalarRun {
             cachePUpper[k][i] = grid.massUpper[i] + c * grid.upper[i];
         }
         TridiagonalSolver.factor(lower, diag, upper, cacheCPrime[k], cacheInvPivot[k]);
+        for (int i = 0; i < n; i++) {
+            cacheLowerOverPivot[k][i] = lower[i] * cacheInvPivot[k][i];
+        }
         cacheC[k] = c;
         return k;
     }
@@ -563,7 +568,7 @@ public final class ScalarRun {
      * which lets the reaction work overlap the Thomas recurrences.
      */
     private void fusedStep(double[] p, int slot, double dt) {
-        double[] lower = cacheLower[slot];
+        double[] lop = cacheLowerOverPivot[slot];
         double[] cPrime = cacheCPrime[slot];
         double[] invPivot = cacheInvPivot[slot];
         double[] pl = cachePLower[slot];
@@ -606,11 +611,12 @@ public final class ScalarRun {
             vCur = vNext;
             vNext = reaction(mode, uu[i + 1], e, em1, k, a, tau, gt);
             double r = pl[i] * vPrev + pd[i] * vCur + pu[i] * vNext + dt * src[i];
-            prev = (r - lower[i] * prev) * invPivot[i];
+            // (r - l p) / pivot written as r / pivot - (l / pivot) p: one multiply-add on the recurrence
+            prev = r * invPivot[i] - lop[i] * prev;
             dp[i] = prev;
         }
         double r = pl[last] * vCur + pd[last] * vNext + dt * src[last];
-        double x = (r - lower[last] * prev) * invPivot[last];
+        double x = r * invPivot[last] - lop[last] * prev;
         uu[last] = reaction(mode, x, e, em1, k, a, tau, gt);
         for (int i = last - 1; i >= 0; i--) {
             x = dp[i] - cPrime[i] * x;

@@ -147,7 +147,7 @@ public final class StochasticEnsemble {
 
         Voxels(ReactionNetwork network, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
                 List<Stimulus> stimuli, String observedName, double perUnitUm3, long seed) {
-            this.network = network;
+            this.network = network.forThread();
             this.grid = new CableGrid(domain);
             this.n = grid.n;
             this.m = network.speciesCount();

@@ -212,6 +212,16 @@ public final class ModelFile {
                 parameters.put(name, v);
             }
             checkBuiltIn(model, parameters, h);
+            double rate = switch (model) {
+                case "nagumo", "fitzhugh-nagumo" -> parameters.get("k");
+                case "fisher-kpp" -> parameters.get("r");
+                default -> 0;
+            };
+            if (settings.fixedStepS() > 0 && rate * settings.fixedStepS() > 1) {
+                throw fail("solver.fixed_step_s (" + num(settings.fixedStepS()) + " s) is too long to resolve the"
+                        + " reactions of " + model + ": their rate is " + num(rate) + " 1/s, so the step must be at most "
+                        + num(1 / rate) + " s");
+            }
         }
         if (network != null && observed != null && network.indexOf(observed) < 0) {
             throw fail("output.species names " + observed + ", which is not a species of the network "
