@@ -193,7 +193,7 @@ public final class BatchRunner {
         } catch (IOException e) {
             throw new UncheckedIOException("could not list " + sessionsDir + ": " + e.getMessage(), e);
         }
-        ids.sort(Comparator.naturalOrder());
+        ids.sort(SessionFolder.ORDER);
         return ids;
     }
 

@@ -26,6 +26,45 @@ import org.dendrokin.io.InputException;
  */
 public record SessionFolder(String id, Path dir) {
 
+    /**
+     * The order of sessions in tables: names compared piece by piece, runs of digits by their value, so that
+     * {@code cell2} comes before {@code cell10}; ties broken by the plain text order.
+     */
+    public static final Comparator<String> ORDER = (a, b) -> {
+        int i = 0;
+        int j = 0;
+        while (i < a.length() && j < b.length()) {
+            char ca = a.charAt(i);
+            char cb = b.charAt(j);
+            if (Character.isDigit(ca) && Character.isDigit(cb)) {
+                int ei = i;
+                int ej = j;
+                while (ei < a.length() && Character.isDigit(a.charAt(ei))) {
+                    ei++;
+                }
+                while (ej < b.length() && Character.isDigit(b.charAt(ej))) {
+                    ej++;
+                }
+                java.math.BigInteger na = new java.math.BigInteger(a.substring(i, ei));
+                java.math.BigInteger nb = new java.math.BigInteger(b.substring(j, ej));
+                int c = na.compareTo(nb);
+                if (c != 0) {
+                    return c;
+                }
+                i = ei;
+                j = ej;
+            } else {
+                if (ca != cb) {
+                    return Character.compare(ca, cb);
+                }
+                i++;
+                j++;
+            }
+        }
+        int c = Integer.compare(a.length() - i, b.length() - j);
+        return c != 0 ? c : a.compareTo(b);
+    };
+
     /** The folder name under {@code OUT/sessions}. */
     public String key() {
         return id.replace("/", "__");
@@ -33,7 +72,7 @@ public record SessionFolder(String id, Path dir) {
 
     /**
      * Every folder under {@code root} (the root included, at any depth) that holds a file session.json, in
-     * the order of their ids. Hidden folders (name starting with a dot) and {@code skip} (the output folder,
+     * the {@link #ORDER} of their ids. Hidden folders (name starting with a dot) and {@code skip} (the output folder,
      * when it lies inside the root) are not searched.
      *
      * @throws InputException if the root is not a folder, holds no session, or two ids map to one key
@@ -69,7 +108,7 @@ public record SessionFolder(String id, Path dir) {
         if (found.isEmpty()) {
             throw new InputException(root, "no folder here (at any depth) holds a session.json");
         }
-        found.sort(Comparator.comparing(SessionFolder::id));
+        found.sort(Comparator.comparing(SessionFolder::id, ORDER));
         Map<String, String> keys = new HashMap<>();
         for (SessionFolder s : found) {
             String other = keys.put(s.key(), s.id());

@@ -43,7 +43,7 @@ public record ShardPlan(String root, List<List<String>> sessions) {
 
     /** The ids of every session in the plan, in id order. */
     public List<String> allIds() {
-        return sessions.stream().flatMap(List::stream).sorted().toList();
+        return sessions.stream().flatMap(List::stream).sorted(SessionFolder.ORDER).toList();
     }
 
     /** Splits {@code found} into {@code count} shards by the size of each session folder's files. */
@@ -74,7 +74,7 @@ public record ShardPlan(String root, List<List<String>> sessions) {
             shards.get(best).add(s.id());
             load[best] += weight.apply(s) + 1;
         }
-        shards.forEach(java.util.Collections::sort);
+        shards.forEach(ids -> ids.sort(SessionFolder.ORDER));
         return new ShardPlan(root.toAbsolutePath().normalize().toString(), shards);
     }
 

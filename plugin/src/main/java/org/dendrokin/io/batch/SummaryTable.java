@@ -74,7 +74,7 @@ public final class SummaryTable {
         Map<String, List<String>> modelParams = new LinkedHashMap<>();
         Map<String, String> units = new LinkedHashMap<>();
         Map<String, Map<String, Double>> values = new LinkedHashMap<>();
-        for (String id : ids.stream().sorted().toList()) {
+        for (String id : ids.stream().sorted(SessionFolder.ORDER).toList()) {
             String key = new SessionFolder(id, out).key();
             Path dir = out.resolve("sessions").resolve(key);
             SessionRecord record = SessionRecord.read(dir);

@@ -73,6 +73,13 @@ class ShardAndMergeTest {
     }
 
     @Test
+    void sessionsAreOrderedWithNumbersByValue() {
+        List<String> ids = new ArrayList<>(List.of("cell10", "cell2", "b/cell1", "cell2b", "a", "cell02"));
+        ids.sort(SessionFolder.ORDER);
+        assertEquals(List.of("a", "b/cell1", "cell02", "cell2", "cell2b", "cell10"), ids, "order of session names");
+    }
+
+    @Test
     void shardParsingRejectsNonsense() {
         assertEquals(new Shard(2, 8), Shard.parse("2/8"));
         for (String bad : new String[] {"0/3", "4/3", "a/b", "3", "1/0", ""}) {
