@@ -7,7 +7,9 @@ import org.dendrokin.core.Progress;
 
 /**
  * A one-line progress display on the terminal's error stream: the stage and its percentage, rewritten in place
- * (carriage return) at most a few times a second, and ended with a newline by {@link #finish()}.
+ * (carriage return) at most a few times a second, and ended with a newline by {@link #finish()}. When the error
+ * stream is not a terminal (a log file, a cluster job), each stage gets one plain line when it completes, so
+ * logs carry no carriage returns.
  */
 final class TerminalProgress implements Progress {
     private static final long MIN_INTERVAL_NS = 200_000_000L;
@@ -16,12 +18,27 @@ final class TerminalProgress implements Progress {
     private String lastStage = "";
     private boolean dirty;
 
+    private final boolean interactive;
+
     TerminalProgress(PrintWriter err) {
+        this(err, System.console() != null);
+    }
+
+    TerminalProgress(PrintWriter err, boolean interactive) {
         this.err = err;
+        this.interactive = interactive;
     }
 
     @Override
     public void report(String stage, long done, long total) {
+        if (!interactive) {
+            if (total > 0 && done >= total && !stage.equals(lastStage)) {
+                err.println(stage + ": done");
+                err.flush();
+                lastStage = stage;
+            }
+            return;
+        }
         long now = System.nanoTime();
         boolean newStage = !stage.equals(lastStage);
         if (!newStage && done < total && now - lastNs < MIN_INTERVAL_NS) {

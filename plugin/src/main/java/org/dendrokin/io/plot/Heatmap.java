@@ -23,7 +23,7 @@ public final class Heatmap {
         this.hi = hi;
     }
 
-    /** A heat map whose colour range is the 1st to 99.5th percentile of the finite values. */
+    /** A heat map whose colour range runs from the 0.5th percentile of the finite values to their maximum. */
     public static Heatmap of(Kymograph k, String title) {
         double[] range = robustRange(k.values());
         return new Heatmap(title, ColourScale.SEQUENTIAL, range[0], range[1]);
@@ -34,14 +34,17 @@ public final class Heatmap {
         return new Heatmap(title, scale, lo, hi);
     }
 
-    /** The 1st and 99.5th percentiles of the finite values ({0, 1} if there are none). */
+    /**
+     * The 0.5th percentile and the maximum of the finite values ({0, 1} if there are none). The low end ignores a
+     * few dark outliers; the top is the true maximum, so a concentrated peak is never drawn at a clipped colour.
+     */
     public static double[] robustRange(double[] values) {
         double[] finite = java.util.Arrays.stream(values).filter(Double::isFinite).sorted().toArray();
         if (finite.length == 0) {
             return new double[] {0, 1};
         }
-        double lo = finite[(int) Math.floor(0.01 * (finite.length - 1))];
-        double hi = finite[(int) Math.ceil(0.995 * (finite.length - 1))];
+        double lo = finite[(int) Math.floor(0.005 * (finite.length - 1))];
+        double hi = finite[finite.length - 1];
         if (!(hi > lo)) {
             hi = lo + 1;
         }
