@@ -8,8 +8,8 @@ import org.dendrokin.core.Progress;
 /**
  * A one-line progress display on the terminal's error stream: the stage and its percentage, rewritten in place
  * (carriage return) at most a few times a second, and ended with a newline by {@link #finish()}. When the error
- * stream is not a terminal (a log file, a cluster job), each stage gets one plain line when it completes, so
- * logs carry no carriage returns.
+ * stream is not a terminal (a log file, a pipe, a cluster job), it stays silent, so that logs carry no
+ * carriage returns and an error is the only line on the stream.
  */
 final class TerminalProgress implements Progress {
     private static final long MIN_INTERVAL_NS = 200_000_000L;
@@ -32,11 +32,6 @@ final class TerminalProgress implements Progress {
     @Override
     public void report(String stage, long done, long total) {
         if (!interactive) {
-            if (total > 0 && done >= total && !stage.equals(lastStage)) {
-                err.println(stage + ": done");
-                err.flush();
-                lastStage = stage;
-            }
             return;
         }
         long now = System.nanoTime();
