@@ -117,6 +117,21 @@ class KymographAlongLineTest {
     }
 
     @Test
+    void aVirtualStackGivesTheSameKymographWithoutLoadingTheMovie(@TempDir Path dir) {
+        ImagePlus movie = linearMovie();
+        Path tif = dir.resolve("movie.tif");
+        Kymograph_Along_Line.saveTiff(movie, tif);
+        ImagePlus virtual = IJ.openVirtual(tif.toString());
+        assertEquals(true, virtual.getStack().isVirtual(), "opened as a virtual stack");
+        Roi roi = new PolygonRoi(new float[] {4.5f, 20.25f, 33.5f}, new float[] {5.5f, 24.0f, 10.5f}, Roi.POLYLINE);
+        movie.setRoi(roi);
+        virtual.setRoi((Roi) roi.clone());
+        Kymograph inMemory = KymographImage.fromImage(run(movie, OPTIONS));
+        Kymograph fromDisk = KymographImage.fromImage(run(virtual, OPTIONS));
+        assertArrayEquals(inMemory.values(), fromDisk.values(), 0, "intensities");
+    }
+
+    @Test
     void lineWidthIsTheDefaultBandWidth(@TempDir Path dir) {
         ImagePlus movie = linearMovie();
         Line line = new Line(5.5, 10.5, 30.5, 20.5);
