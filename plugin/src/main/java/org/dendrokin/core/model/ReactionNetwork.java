@@ -295,11 +295,14 @@ public final class ReactionNetwork {
         Checks.nonNegativeFinite(kPerS, "k");
         List<String> names = List.of("Ca", "B", "CaB");
         double koff = konPerMicromolarS * kdMicromolar;
-        Expression binding = massAction(new double[] {1, 1, 0}, new double[] {0, 0, 1}, konPerMicromolarS, koff);
         List<Reaction> reactions = new ArrayList<>();
         // Binding is usually far faster than everything else; it is left to the L-stable Rosenbrock step
         // (which relaxes it to equilibrium correctly) rather than forcing the step down to 1/(kon B + koff).
-        reactions.add(new Reaction("binding", stoichiometry(names, "Ca", -1, "B", -1, "CaB", 1), binding, 0));
+        // Each direction is its own reaction, so rates stay non-negative for the stochastic mode.
+        reactions.add(new Reaction("binding", stoichiometry(names, "Ca", -1, "B", -1, "CaB", 1),
+                massAction(new double[] {1, 1, 0}, new double[3], konPerMicromolarS, 0), 0));
+        reactions.add(new Reaction("unbinding", stoichiometry(names, "Ca", 1, "B", 1, "CaB", -1),
+                massAction(new double[] {0, 0, 1}, new double[3], koff, 0), 0));
         reactions.add(new Reaction("extrusion", stoichiometry(names, "Ca", -1),
                 massAction(new double[] {1, 0, 0}, new double[3], kPerS, 0), kPerS));
         return new ReactionNetwork(names, new double[] {dCa, dBuffer, dBuffer},

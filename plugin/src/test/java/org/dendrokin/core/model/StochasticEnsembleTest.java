@@ -114,4 +114,25 @@ class StochasticEnsembleTest {
         assertArrayEquals(one.mean(), two.mean(), 0, "mean with 1 and 2 threads");
         assertTrue(one.events() > 0, "events happened");
     }
+
+    @Test
+    void bufferedCalciumRunsStochasticallyAndKeepsTheBufferTotal() {
+        ReactionNetwork net = ReactionNetwork.bufferedDiffusion(50, 0, 20, 1, 10, 5);
+        Domain domain = new Domain(10, 0.5, Boundary.NO_FLUX);
+        double[] x = nodes(domain);
+        double[] times = {0.05, 0.2};
+        List<Stimulus> pulse = List.of(Stimulus.pulse(0, 5, 1, 5).onSpecies("Ca"));
+        // 20 uM buffer in a 0.5 um^3 voxel is about 6000 molecules: the run is short but real
+        StochasticEnsemble.Voxels v = new StochasticEnsemble.Voxels(net, domain, times, x, pulse, "B",
+                StochasticSettings.MICROMOLAR_PER_UM3, 3);
+        double[] free = v.simulate(Progress.NONE);
+        StochasticEnsemble.Voxels w = new StochasticEnsemble.Voxels(net, domain, times, x, pulse, "CaB",
+                StochasticSettings.MICROMOLAR_PER_UM3, 3);
+        double[] bound = w.simulate(Progress.NONE);
+        for (int i = 0; i < free.length; i++) {
+            // Identity: the immobile buffer is either free or bound, molecule by molecule (same seed, same run)
+            assertEquals(20.0, free[i] + bound[i], 0.01, "B + CaB at sample " + i + " (uM; rest level rounded to whole molecules)");
+        }
+        assertTrue(bound[x.length / 2] > 0.5, "calcium was bound at the pulse site");
+    }
 }
