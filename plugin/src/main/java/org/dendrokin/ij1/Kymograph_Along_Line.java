@@ -119,12 +119,12 @@ public class Kymograph_Along_Line implements PlugIn {
         double band = pixel > 0 ? lineWidthPx * pixel : 1.0;
         OptionsDialog d = new OptionsDialog(COMMAND, "kymograph");
         d.choice("Lines", LineSelection.Source.labels(), suggested.label);
-        d.number("Pixel size (um)", pixel, 4);
-        d.number("Frame interval (s)", interval, 4);
-        d.number("Band width (um)", round(band), 3);
-        d.number("Step along the path (um)", round(pixel > 0 ? pixel : 1.0), 4);
+        d.number("Pixel size (um)", pixel, 4, false);
+        d.number("Frame interval (s)", interval, 4, false);
+        d.number("Band width (um)", round(band), 3, false);
+        d.number("Step along the path (um)", round(pixel > 0 ? pixel : 1.0), 4, false);
         if (movie.getNChannels() > 1) {
-            d.number("Channel (1-" + movie.getNChannels() + ")", movie.getChannel(), 0);
+            d.number("Channel (1-" + movie.getNChannels() + ")", movie.getChannel(), 0, false);
         }
         d.folder("Save CSV and TIFF to folder (empty: do not save)", "");
         d.message("The band width starts at the line width (double-click the line tool to change it).");

@@ -60,8 +60,17 @@ public final class OptionsDialog {
 
     /** A number field; the label should name the unit, e.g. {@code "Band width (um)"}. */
     public OptionsDialog number(String label, double defaultValue, int digits) {
+        return number(label, defaultValue, digits, true);
+    }
+
+    /**
+     * A number field that offers the last confirmed value only when {@code remembered}; values read from the
+     * image (pixel size, frame interval, line width) are not remembered, since last time's value would silently
+     * change the result for another image.
+     */
+    public OptionsDialog number(String label, double defaultValue, int digits, boolean remembered) {
         String key = key(label);
-        double shown = fromMacro() ? defaultValue : Prefs.get(prefix + key, defaultValue);
+        double shown = fromMacro() || !remembered ? defaultValue : Prefs.get(prefix + key, defaultValue);
         fields.add(new Field(Kind.NUMBER, key, Double.toString(defaultValue)));
         if (dialog != null) {
             dialog.addNumericField(label, shown, digits);

@@ -43,9 +43,9 @@ public class Save_Session_Folder implements PlugIn {
             OptionsDialog d = new OptionsDialog(COMMAND, "save-session");
             d.folder("Session folder (new or empty)", "");
             d.choice("Movie", MOVIE, file != null ? MOVIE[0] : MOVIE[1]);
-            d.number("Pixel size (um)", pixel, 4);
-            d.number("Frame interval (s)", Double.isNaN(cal.frameIntervalS()) ? 0 : cal.frameIntervalS(), 4);
-            d.number("Band width (um)", pixel > 0 ? Math.round(line.widthPx() * pixel * 1e4) / 1e4 : 1, 3);
+            d.number("Pixel size (um)", pixel, 4, false);
+            d.number("Frame interval (s)", Double.isNaN(cal.frameIntervalS()) ? 0 : cal.frameIntervalS(), 4, false);
+            d.number("Band width (um)", pixel > 0 ? Math.round(line.widthPx() * pixel * 1e4) / 1e4 : 1, 3, false);
             d.text("Time of the stimulus (s; empty: detect)", "", 8);
             d.text("Position of the stimulus (um along the path; empty: detect)", "", 8);
             d.text("Background (intensity; empty: estimate)", "", 8);
