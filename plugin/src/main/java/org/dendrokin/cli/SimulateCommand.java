@@ -23,7 +23,8 @@ final class SimulateCommand implements Callable<Integer> {
     @Parameters(index = "0", paramLabel = "MODEL_JSON", description = "The model file (see docs/models.md).")
     Path modelFile;
 
-    @Option(names = "--out", required = true, paramLabel = "OUT_DIR", description = "Output folder (created if missing).")
+    @Option(names = "--out", required = true, paramLabel = "OUT_DIR",
+            description = "Output folder (created if missing).")
     Path outDir;
 
     @Spec

@@ -52,9 +52,11 @@ public final class EngineBenchmark {
         double k2 = 0.5;
         double k3 = 0.3;
         List<ReactionNetwork.Reaction> reactions = new ArrayList<>();
-        reactions.add(new ReactionNetwork.Reaction("bind", ReactionNetwork.stoichiometry(names, "A", -1, "B", -1, "C", 1),
+        reactions.add(new ReactionNetwork.Reaction("bind",
+                ReactionNetwork.stoichiometry(names, "A", -1, "B", -1, "C", 1),
                 ReactionNetwork.massAction(new double[] {1, 1, 0}, new double[3], k1, 0), k1));
-        reactions.add(new ReactionNetwork.Reaction("unbind", ReactionNetwork.stoichiometry(names, "A", 1, "B", 1, "C", -1),
+        reactions.add(new ReactionNetwork.Reaction("unbind",
+                ReactionNetwork.stoichiometry(names, "A", 1, "B", 1, "C", -1),
                 ReactionNetwork.massAction(new double[] {0, 0, 1}, new double[3], k2, 0), k2));
         reactions.add(new ReactionNetwork.Reaction("loss", ReactionNetwork.stoichiometry(names, "A", -1),
                 ReactionNetwork.massAction(new double[] {1, 0, 0}, new double[3], k3, 0), k3));
@@ -116,7 +118,8 @@ public final class EngineBenchmark {
         }
         double pointSteps = (double) x.length * steps[0];
         System.out.println(String.format(Locale.ROOT,
-                "{\"name\": \"%s\", \"best_ms\": %.3f, \"median_ms\": %.3f, \"steps\": %d, \"grid_point_steps_per_s\": %.3e,"
+                "{\"name\": \"%s\", \"best_ms\": %.3f, \"median_ms\": %.3f, \"steps\": %d,"
+                        + " \"grid_point_steps_per_s\": %.3e,"
                         + " \"max_error\": %.3e}",
                 p.name(), best, median, steps[0], pointSteps / (best / 1e3), err));
     }

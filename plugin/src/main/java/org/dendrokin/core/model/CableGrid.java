@@ -7,12 +7,14 @@ package org.dendrokin.core.model;
  *   (L u)_i = [A_{i+1/2} (u_{i+1} - u_i) - A_{i-1/2} (u_i - u_{i-1})] / (V_i h),   V_i = A_i h w_i
  * </pre>
  * with w_i = 1 inside and 1/2 at a sealed (no-flux) end, whose control volume is half a cell and has no
- * outer face. With {@code compact} (uniform cross-section only) the time derivative is taken through the
- * mass matrix B = I + (h^2/12) d2 of the compact fourth-order scheme, B u_t = D L u: rows (1/12, 10/12, 1/12)
- * inside, (10/12, 2/12) at a sealed end (mirror symmetry), identity at a fixed end; the trapezoid weights
- * satisfy B^T w = w, so the amount is still conserved. Without it B = I. Then sum_i V_i (L u)_i = 0 exactly (the differences telescope), so diffusion conserves the
+ * outer face. Then sum_i V_i (L u)_i = 0 exactly (the differences telescope), so diffusion conserves the
  * amount sum_i V_i u_i. For a uniform area this is the usual 3-point Laplacian with mirror ends. At a fixed
  * end the row is zero, so the end value never changes. L is in 1/um^2; multiply by D (um^2/s).
+ * <p>
+ * With {@code compact} (uniform cross-section only) the time derivative is taken through the mass matrix
+ * B = I + (h^2/12) d2 of the compact fourth-order scheme, B u_t = D L u: rows (1/12, 10/12, 1/12) inside,
+ * (10/12, 2/12) at a sealed end (mirror symmetry), identity at a fixed end; the trapezoid weights satisfy
+ * B^T w = w, so the amount is still conserved. Without it B = I.
  */
 final class CableGrid {
     final int n;

@@ -19,8 +19,8 @@ public record Domain(double lengthUm, double dxUm, Boundary boundary, CrossSecti
     public Domain {
         Checks.positiveFinite(lengthUm, "domain length (um)");
         Checks.positiveFinite(dxUm, "grid spacing dx (um)");
-        Checks.require(dxUm <= lengthUm / 2, "grid spacing dx (" + dxUm + " um) must be at most half the domain length ("
-                + lengthUm + " um)");
+        Checks.require(dxUm <= lengthUm / 2, "grid spacing dx (" + dxUm
+                + " um) must be at most half the domain length (" + lengthUm + " um)");
         Objects.requireNonNull(boundary, "boundary");
         Objects.requireNonNull(crossSection, "crossSection");
         Checks.require(Math.round(lengthUm / dxUm) + 1 <= 10_000_000, "the grid has too many nodes (length / dx)");

@@ -42,14 +42,16 @@ public final class FrontSpeed {
             if (right) {
                 for (int i = x.length - 1; i > 0; i--) {
                     if (row[i - 1] >= half && x[i - 1] >= originUm - 1e-9) {
-                        pos = row[i] >= half ? x[i] : x[i - 1] + (row[i - 1] - half) / (row[i - 1] - row[i]) * (x[i] - x[i - 1]);
+                        pos = row[i] >= half ? x[i]
+                                : x[i - 1] + (row[i - 1] - half) / (row[i - 1] - row[i]) * (x[i] - x[i - 1]);
                         break;
                     }
                 }
             } else {
                 for (int i = 0; i < x.length - 1; i++) {
                     if (row[i + 1] >= half && x[i + 1] <= originUm + 1e-9) {
-                        pos = row[i] >= half ? x[i] : x[i + 1] - (row[i + 1] - half) / (row[i + 1] - row[i]) * (x[i + 1] - x[i]);
+                        pos = row[i] >= half ? x[i]
+                                : x[i + 1] - (row[i + 1] - half) / (row[i + 1] - row[i]) * (x[i + 1] - x[i]);
                         break;
                     }
                 }

@@ -422,7 +422,10 @@ public final class NetworkRun {
         TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
     }
 
-    /** ROS2 at every node: W k1 = f(u), W k2 = f(u + tau k1) - 2 k1, u1 = u + tau (3 k1 + k2)/2, W = I - gamma tau J. */
+    /**
+     * ROS2 at every node: W k1 = f(u), W k2 = f(u + tau k1) - 2 k1, u1 = u + tau (3 k1 + k2) / 2,
+     * W = I - gamma tau J.
+     */
     private void react(double tau) {
         if (network.reactions().isEmpty()) {
             return;
@@ -481,7 +484,8 @@ public final class NetworkRun {
             }
             double p = w[col * m + col];
             if (p == 0) {
-                throw new IllegalStateException("singular reaction step matrix; the reactions are too stiff for the step");
+                throw new IllegalStateException(
+                        "singular reaction step matrix; the reactions are too stiff for the step");
             }
             for (int r = col + 1; r < m; r++) {
                 double factor = w[r * m + col] / p;

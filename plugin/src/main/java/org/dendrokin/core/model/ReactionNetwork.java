@@ -50,7 +50,8 @@ public final class ReactionNetwork {
      * @param initial          resting concentration of each species (the initial state and fixed-end value)
      * @param reactions        the reactions; stoichiometry vectors must have one entry per species
      */
-    public ReactionNetwork(List<String> species, double[] diffusionUm2PerS, double[] initial, List<Reaction> reactions) {
+    public ReactionNetwork(List<String> species, double[] diffusionUm2PerS, double[] initial,
+            List<Reaction> reactions) {
         int m = species.size();
         Checks.require(m > 0, "a network needs at least one species");
         Checks.require(diffusionUm2PerS.length == m && initial.length == m,
@@ -258,7 +259,10 @@ public final class ReactionNetwork {
         return n;
     }
 
-    /** Built-in FitzHugh-Nagumo (Keener-Sneyd form, sheet s5.3): v_t = D v_xx + v(1-v)(v-alpha) - w, w_t = eps (v - gamma w). */
+    /**
+     * Built-in FitzHugh-Nagumo (Keener-Sneyd form, sheet s5.3), with time scale k (1/s):
+     * v_t = D v_xx + k (v (1 - v)(v - alpha) - w), w_t = k eps (v - gamma w).
+     */
     public static ReactionNetwork fitzHughNagumo(double dUm2PerS, double alpha, double eps, double gamma,
             double timeScalePerS) {
         Checks.nonNegativeFinite(dUm2PerS, "D");

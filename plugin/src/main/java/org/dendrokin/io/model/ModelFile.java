@@ -72,7 +72,8 @@ public final class ModelFile {
         keys(domainJson, "domain.", Set.of("length_um", "dx_um", "boundary", "cross_section"));
         double length = positive(domainJson, "length_um", "domain.length_um");
         double dx = positive(domainJson, "dx_um", "domain.dx_um");
-        String boundaryText = domainJson.has("boundary") ? string(domainJson, "boundary", "domain.boundary") : "no-flux";
+        String boundaryText = domainJson.has("boundary")
+                ? string(domainJson, "boundary", "domain.boundary") : "no-flux";
         Boundary boundary = switch (boundaryText) {
             case "no-flux" -> Boundary.NO_FLUX;
             case "fixed" -> Boundary.FIXED;
@@ -206,7 +207,8 @@ public final class ModelFile {
             keys(p, "parameters.", Set.copyOf(names));
             for (String name : names) {
                 if (!p.has(name)) {
-                    throw fail("parameters." + name + " is missing (" + model + " needs " + String.join(", ", names) + ")");
+                    throw fail("parameters." + name + " is missing (" + model + " needs " + String.join(", ", names)
+                            + ")");
                 }
                 double v = number(p, name, "parameters." + name);
                 parameters.put(name, v);
@@ -219,8 +221,8 @@ public final class ModelFile {
             };
             if (settings.fixedStepS() > 0 && rate * settings.fixedStepS() > 1) {
                 throw fail("solver.fixed_step_s (" + num(settings.fixedStepS()) + " s) is too long to resolve the"
-                        + " reactions of " + model + ": their rate is " + num(rate) + " 1/s, so the step must be at most "
-                        + num(1 / rate) + " s");
+                        + " reactions of " + model + ": their rate is " + num(rate)
+                        + " 1/s, so the step must be at most " + num(1 / rate) + " s");
             }
         }
         if (network != null && observed != null && network.indexOf(observed) < 0) {
@@ -329,7 +331,8 @@ public final class ModelFile {
                 }
                 s = Stimulus.pulse(t, x, width, amount);
             }
-            case "injection" -> s = Stimulus.injection(t, positive(o, "duration_s", key + ".duration_s"), x, width, amount);
+            case "injection" ->
+                    s = Stimulus.injection(t, positive(o, "duration_s", key + ".duration_s"), x, width, amount);
             case "clamp" -> s = Stimulus.clamp(t, positive(o, "duration_s", key + ".duration_s"), x, width, amount);
             default -> throw fail(key + ".kind must be \"pulse\", \"injection\" or \"clamp\", got \"" + kind + "\"");
         }
@@ -425,7 +428,8 @@ public final class ModelFile {
                 }
             }
             case "michaelis-menten" -> {
-                String substrate = o.has("substrate") ? string(o, "substrate", key + ".substrate") : single(reactants, names, key);
+                String substrate = o.has("substrate") ? string(o, "substrate", key + ".substrate")
+                        : single(reactants, names, key);
                 int si = species(names, substrate, key + ".substrate");
                 double km = positive(o, "km", key + ".km");
                 Expression rate;

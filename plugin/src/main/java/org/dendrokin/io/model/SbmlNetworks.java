@@ -149,7 +149,8 @@ public final class SbmlNetworks {
             }
             for (ModifierSpeciesReference mr : r.getListOfModifiers()) {
                 if (!ids.contains(mr.getSpecies())) {
-                    throw new InputException(file, "reaction " + r.getId() + " names unknown modifier " + mr.getSpecies());
+                    throw new InputException(file, "reaction " + r.getId() + " names unknown modifier "
+                            + mr.getSpecies());
                 }
             }
             for (int s = 0; s < net.length; s++) {

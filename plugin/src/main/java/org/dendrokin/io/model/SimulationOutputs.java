@@ -87,7 +87,8 @@ public final class SimulationOutputs {
         Map<String, Object> domain = new LinkedHashMap<>();
         domain.put("length_um", spec.domain().lengthUm());
         domain.put("dx_um", spec.domain().spacingUm());
-        domain.put("boundary", spec.domain().boundary() == org.dendrokin.core.model.Boundary.FIXED ? "fixed" : "no-flux");
+        boolean fixed = spec.domain().boundary() == org.dendrokin.core.model.Boundary.FIXED;
+        domain.put("boundary", fixed ? "fixed" : "no-flux");
         domain.put("uniform_cross_section", spec.domain().crossSection().isUniform());
         summary.put("domain", domain);
         Map<String, Object> time = new LinkedHashMap<>();

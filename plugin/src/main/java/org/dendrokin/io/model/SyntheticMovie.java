@@ -73,7 +73,8 @@ public final class SyntheticMovie {
                 }
                 pixels[p] = (float) value;
             }
-            stack.addSlice(String.format(java.util.Locale.ROOT, "t=%.4g s", k.timeS(f)), new FloatProcessor(w, h, pixels));
+            String label = String.format(java.util.Locale.ROOT, "t=%.4g s", k.timeS(f));
+            stack.addSlice(label, new FloatProcessor(w, h, pixels));
         }
         ImagePlus imp = new ImagePlus("simulated", stack);
         imp.setDimensions(1, 1, k.frameCount());

@@ -67,7 +67,7 @@ class ScalarRunTest {
         double e1 = maxErrorVsGaussian(2, 0.2, 0.04, 0.5, 2, null);
         double e2 = maxErrorVsGaussian(2, 0.1, 0.02, 0.5, 2, null);
         double e3 = maxErrorVsGaussian(2, 0.05, 0.01, 0.5, 2, null);
-        // REF: Crank 1975 (2.2) x exp(-kt) [published formula]; order 2 of CN + 3-point Laplacian; sheet s2.1-s2.3, s6.2
+        // REF: Crank 1975 (2.2) x exp(-kt) [published formula]; CN + 3-point Laplacian order 2; sheet s2.1-2.3, s6.2
         assertEquals(2.0, Math.log(e1 / e2) / Math.log(2), 0.1, "observed order, first refinement");
         assertEquals(2.0, Math.log(e2 / e3) / Math.log(2), 0.1, "observed order, second refinement");
     }
@@ -335,7 +335,7 @@ class ScalarRunTest {
             scaleD = Math.max(scaleD, Math.abs(dcdD));
             scaleK = Math.max(scaleK, Math.abs(dcdk));
         }
-        // REF: derivative of Crank 1975 (2.2) x exp(-kt) with respect to D and k [published formula, derived]; sheet s2.2
+        // REF: d/dD of Crank 1975 (2.2) x exp(-kt) [published formula, derivative derived here]; sheet s2.2
         assertTrue(errD < 1e-3 * scaleD, "dc/dD error " + errD + " vs scale " + scaleD);
         // REF: derivative of Crank 1975 (2.2) x exp(-kt) with respect to k [published formula, derived]; sheet s2.3
         assertTrue(errK < 1e-3 * scaleK, "dc/dk error " + errK + " vs scale " + scaleK);

@@ -60,7 +60,7 @@ class StochasticEnsembleTest {
         double seMean = Math.sqrt(kb / kd / count);
         // Poisson: var(sample variance) ~ (mu4 - sigma^4)/N with mu4 = lambda + 3 lambda^2.
         double seVar = Math.sqrt((kb / kd + 2 * Math.pow(kb / kd, 2)) / count);
-        // REF: Gillespie 1977; immigration-death stationary law Poisson(kb/kd), mean = variance = 10 [published]; sheet s7.2
+        // REF: Gillespie 1977; immigration-death stationary law Poisson(kb/kd), mean = 10 [published]; sheet s7.2
         assertEquals(10.0, mean, 4.5 * seMean, "stationary mean count");
         // REF: as above, variance = kb/kd = 10 [published]; sheet s7.2
         assertEquals(10.0, var, 4.5 * seVar, "stationary variance of the count");
@@ -131,7 +131,8 @@ class StochasticEnsembleTest {
         double[] bound = w.simulate(Progress.NONE);
         for (int i = 0; i < free.length; i++) {
             // Identity: the immobile buffer is either free or bound, molecule by molecule (same seed, same run)
-            assertEquals(20.0, free[i] + bound[i], 0.01, "B + CaB at sample " + i + " (uM; rest level rounded to whole molecules)");
+            assertEquals(20.0, free[i] + bound[i], 0.01,
+                    "B + CaB at sample " + i + " (uM; rest level rounded to whole molecules)");
         }
         assertTrue(bound[x.length / 2] > 0.5, "calcium was bound at the pulse site");
     }
