@@ -8,12 +8,16 @@ import java.nio.file.AtomicMoveNotSupportedException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
+import java.nio.file.StandardOpenOption;
+import java.security.SecureRandom;
 
 /**
  * Writes every output to a temporary name beside its target and renames it into place, so that a run
  * stopped half way leaves either the old file or the complete new one, never a partial one.
  */
 public final class AtomicFiles {
+    private static final SecureRandom RANDOM = new SecureRandom();
+
     private AtomicFiles() {
     }
 
@@ -23,8 +27,10 @@ public final class AtomicFiles {
         Path tmp = null;
         try {
             Files.createDirectories(dir);
-            tmp = Files.createTempFile(dir, "." + target.getFileName() + ".", ".part");
-            try (OutputStream out = Files.newOutputStream(tmp)) {
+            // Not Files.createTempFile: it makes the file readable by its owner only, whatever the umask.
+            tmp = dir.resolve("." + target.getFileName() + "." + Long.toUnsignedString(RANDOM.nextLong(), 36) + ".part");
+            try (OutputStream out = Files.newOutputStream(tmp, StandardOpenOption.CREATE_NEW,
+                    StandardOpenOption.WRITE)) {
                 writer.accept(out);
             }
             move(tmp, target);
