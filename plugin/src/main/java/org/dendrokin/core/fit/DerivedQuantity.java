@@ -1,0 +1,21 @@
+package org.dendrokin.core.fit;
+
+import java.util.function.ToDoubleFunction;
+
+import org.dendrokin.core.units.Unit;
+
+/**
+ * A quantity computed from fitted parameters, e.g. a bistable front's speed sqrt(k D / 2)(1 - 2a). Its
+ * interval comes from the parameter covariance by the delta method (on the log scale when the quantity is
+ * positive).
+ *
+ * @param name     key in results.json, e.g. {@code "front_speed"}
+ * @param unit     unit of the value
+ * @param positive true if the quantity is always positive (its interval is then made on the log scale)
+ * @param function natural parameter values to the quantity
+ */
+public record DerivedQuantity(String name, Unit unit, boolean positive, ToDoubleFunction<double[]> function) {
+    public double value(double[] parameters) {
+        return function.applyAsDouble(parameters);
+    }
+}

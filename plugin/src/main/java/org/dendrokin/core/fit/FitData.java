@@ -1,0 +1,87 @@
+package org.dendrokin.core.fit;
+
+import java.util.Arrays;
+
+import org.dendrokin.core.Checks;
+import org.dendrokin.core.kymo.Kymograph;
+
+/**
+ * Observations on a model's grid with their noise standard deviations. Grid points whose value is NaN (or
+ * whose sigma is not a positive finite number) are left out of the fit. Immutable; arrays are copied.
+ */
+public final class FitData {
+    private final double[] values;
+    private final double[] sigmas;
+    private final int[] used;
+
+    /**
+     * @param values observed value at each grid point, signal units; NaN marks a missing point
+     * @param sigmas noise standard deviation at each grid point, signal units (weights are 1 / sigma^2)
+     */
+    public FitData(double[] values, double[] sigmas) {
+        Checks.require(values.length == sigmas.length,
+                "there are " + values.length + " values but " + sigmas.length + " noise levels");
+        this.values = values.clone();
+        this.sigmas = sigmas.clone();
+        this.used = java.util.stream.IntStream.range(0, values.length)
+                .filter(i -> Double.isFinite(values[i]) && sigmas[i] > 0 && Double.isFinite(sigmas[i]))
+                .toArray();
+    }
+
+    /** Unweighted data: every sigma is 1. */
+    public static FitData unweighted(double[] values) {
+        double[] ones = new double[values.length];
+        Arrays.fill(ones, 1);
+        return new FitData(values, ones);
+    }
+
+    /** A kymograph (row-major) with one noise level per position, repeated over frames. */
+    public static FitData of(Kymograph k, double[] sigmaPerPosition) {
+        int nx = k.positionCount();
+        Checks.require(sigmaPerPosition.length == nx,
+                "need one noise level per position (" + nx + "), got " + sigmaPerPosition.length);
+        double[] s = new double[nx * k.frameCount()];
+        for (int f = 0; f < k.frameCount(); f++) {
+            System.arraycopy(sigmaPerPosition, 0, s, f * nx, nx);
+        }
+        return new FitData(k.values(), s);
+    }
+
+    /** Number of grid points, used or not. */
+    public int size() {
+        return values.length;
+    }
+
+    /** Number of points that enter the fit. */
+    public int usedCount() {
+        return used.length;
+    }
+
+    /** Grid index of the i-th used point. */
+    public int usedIndex(int i) {
+        return used[i];
+    }
+
+    public double value(int gridIndex) {
+        return values[gridIndex];
+    }
+
+    public double sigma(int gridIndex) {
+        return sigmas[gridIndex];
+    }
+
+    /** A copy of the observed values over the whole grid. */
+    public double[] values() {
+        return values.clone();
+    }
+
+    /** A copy of the sigmas over the whole grid. */
+    public double[] sigmas() {
+        return sigmas.clone();
+    }
+
+    /** The same grid and sigmas with other observed values (used for parametric bootstrap replicates). */
+    public FitData withValues(double[] newValues) {
+        return new FitData(newValues, sigmas);
+    }
+}

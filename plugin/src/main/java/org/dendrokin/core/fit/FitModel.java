@@ -1,0 +1,63 @@
+package org.dendrokin.core.fit;
+
+import java.util.List;
+
+/**
+ * A model that predicts every point of the data grid (for a kymograph: {@code frame * positions + position},
+ * row-major) from its parameters. Implementations must be safe to call from several threads at once,
+ * because finite-difference Jacobians and bootstrap replicates are computed in parallel.
+ */
+public interface FitModel {
+    /** The model's name as written in results.json, e.g. {@code "diffusion-decay"}. */
+    String name();
+
+    /** The parameters, in the order of the arrays passed to {@link #evaluate}. */
+    List<ParameterSpec> parameters();
+
+    /** Number of grid points predicted. */
+    int size();
+
+    /**
+     * Predicts the grid.
+     *
+     * @param parameters natural parameter values, in the order of {@link #parameters()}. Not modified.
+     * @param values     receives the prediction at each grid point, length {@link #size()}. Modified.
+     * @param jacobian   if not null and {@link #hasJacobian()}, receives d value / d parameter, row-major
+     *                   {@code size() x parameters().size()}, natural scale. Modified.
+     */
+    void evaluate(double[] parameters, double[] values, double[] jacobian);
+
+    /** True if {@link #evaluate} fills the Jacobian; otherwise the fitter uses finite differences. */
+    default boolean hasJacobian() {
+        return true;
+    }
+
+    /** The parameters whose intervals users read first (profiled when profiles are asked for). */
+    default List<String> headlineParameters() {
+        return List.of();
+    }
+
+    /** Quantities computed from the parameters that the data may fix better than the parameters themselves. */
+    default List<DerivedQuantity> derivedQuantities() {
+        return List.of();
+    }
+
+    /**
+     * A plain sentence added to the warnings when headline parameters are poorly determined, saying what the
+     * data do fix instead (empty for none).
+     */
+    default String poorlyDeterminedAdvice() {
+        return "";
+    }
+
+    /** Index of a parameter by name, or -1. */
+    default int indexOf(String parameterName) {
+        List<ParameterSpec> specs = parameters();
+        for (int i = 0; i < specs.size(); i++) {
+            if (specs.get(i).name().equals(parameterName)) {
+                return i;
+            }
+        }
+        return -1;
+    }
+}
