@@ -18,7 +18,7 @@ import picocli.CommandLine.Option;
 @Command(name = "dendrokin", mixinStandardHelpOptions = true, versionProvider = Version.Provider.class,
         description = "Spread of signals along dendrites: kymographs, calibration, reaction-diffusion models and fits.",
         subcommands = {AnalyzeCommand.class, BatchCommand.class, SimulateCommand.class, DemoCommand.class,
-            CalibrateCommand.class})
+            CalibrateCommand.class, CompareCommand.class})
 public final class Main implements Runnable {
     public static final int OK = 0;
     public static final int BAD_INPUT = 2;

@@ -18,10 +18,17 @@ import org.dendrokin.core.units.Unit;
  * that matters (Crank 1975 ch. 2). The Jacobian is analytic.
  *
  * <p>Parameters: D (um^2/s, log scale), k (1/s, log scale), amplitude A (signal unit), position x0 (um; unless
- * fixed), width s0 (um, log scale), baseline b (signal unit), stimulus_time t0 (s; only when not fixed).
+ * fixed), width s0 (um, log scale), baseline b (signal unit).
+ *
+ * <p>When the stimulus time is fitted too, a pulse of width s0 released at t0 cannot be told from a narrower one
+ * released earlier (V depends on s0^2 + 2 D (t - t0) only, and A on A s0 e^(k t0)), so t0 and s0 are not both
+ * identifiable. The model then becomes a point source (s0 = 0) of amount A (signal unit times um) released at
+ * the fitted {@code stimulus_time} t0 (s): c = b + A / sqrt(4 pi D tau) exp(-(x - x0)^2 / (4 D tau)) exp(-k tau)
+ * (sheet s2.1), and t0 is the effective release time of an instantaneous point source.
  */
 public final class DiffusionDecayPulse implements FitModel {
     public static final String NAME = "diffusion-decay";
+    private static final int MAX_IMAGES = 50;
 
     private final double[] xUm;
     private final double[] tS;
@@ -60,7 +67,9 @@ public final class DiffusionDecayPulse implements FitModel {
         if (iPosition >= 0) {
             s.add(ParameterSpec.linear("position", Unit.MICROMETRE));
         }
-        s.add(ParameterSpec.positive("width", Unit.MICROMETRE));
+        if (!Double.isNaN(stimulusTimeS)) {
+            s.add(ParameterSpec.positive("width", Unit.MICROMETRE));
+        }
         s.add(ParameterSpec.linear("baseline", signalUnit));
         iTime = Double.isNaN(stimulusTimeS) ? s.size() : -1;
         if (iTime >= 0) {
@@ -106,7 +115,11 @@ public final class DiffusionDecayPulse implements FitModel {
         if (iPosition >= 0) {
             p[i++] = positionUm;
         }
-        p[i++] = widthUm;
+        if (iTime < 0) {
+            p[i++] = widthUm;
+        } else {
+            p[2] = amplitude * widthUm * Math.sqrt(2 * Math.PI);   // the released amount of a point source
+        }
         p[i++] = baseline;
         if (iTime >= 0) {
             p[i] = timeS;
@@ -122,8 +135,9 @@ public final class DiffusionDecayPulse implements FitModel {
         double amp = p[2];
         int i = 3;
         double x0 = iPosition >= 0 ? p[i++] : fixedPositionUm;
-        int iWidth = i;
-        double s0 = p[i++];
+        boolean point = iTime >= 0;
+        int iWidth = point ? -1 : i;
+        double s0 = point ? 0 : p[i++];
         int iBase = i;
         double base = p[i];
         double t0 = iTime >= 0 ? p[iTime] : fixedTimeS;
@@ -135,7 +149,7 @@ public final class DiffusionDecayPulse implements FitModel {
         for (int f = 0; f < tS.length; f++) {
             double tau = tS[f] - t0;
             int row = f * nx;
-            if (tau < 0) {
+            if (tau < 0 || (point && tau <= 0)) {
                 for (int c = 0; c < nx; c++) {
                     values[row + c] = base;
                     if (jac != null) {
@@ -146,9 +160,14 @@ public final class DiffusionDecayPulse implements FitModel {
             }
             double v = s0 * s0 + 2 * d * tau;
             double decay = Math.exp(-k * tau);
-            double shape = s0 / Math.sqrt(v) * decay;   // peak factor without the amplitude
+            // peak factor without the amplitude: s0 / sqrt(V) for a pulse of peak A, 1 / sqrt(2 pi V) for a point
+            // source of amount A
+            double shape = (point ? 1 / Math.sqrt(2 * Math.PI * v) : s0 / Math.sqrt(v)) * decay;
             double cut = 80 * v;                        // exp(-40) is below double precision relative to the peak
-            int images = walls == null ? 0 : (int) Math.ceil((Math.sqrt(cut) + lenUm) / (2 * lenUm)) + 1;
+            // Images within reach of the grid; capped because past ~50 the profile is flat to double precision
+            // (V above about 100 L^2) and an optimiser straying there must not stall on a huge loop.
+            int images = walls == null ? 0
+                    : (int) Math.min(MAX_IMAGES, Math.ceil((Math.sqrt(cut) + lenUm) / (2 * lenUm)) + 1);
             for (int c = 0; c < nx; c++) {
                 double x = xUm[c];
                 double e = 0;     // sum of exp(-(x - xi)^2 / 2V)
@@ -189,7 +208,9 @@ public final class DiffusionDecayPulse implements FitModel {
                     if (iPosition >= 0) {
                         jac[r + iPosition] = val * ex / v;
                     }
-                    jac[r + iWidth] = val * e / s0 + dV * 2 * s0;
+                    if (!point) {
+                        jac[r + iWidth] = val * e / s0 + dV * 2 * s0;
+                    }
                     jac[r + iBase] = 1;
                     if (iTime >= 0) {
                         // d/dt0 = -d/dtau; d/dtau = -k c + dV 2D

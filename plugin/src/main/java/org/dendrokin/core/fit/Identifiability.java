@@ -42,9 +42,10 @@ final class Identifiability {
             if (ci != null && specs.get(j).scale() != ParameterSpec.Scale.LINEAR
                     && (!ci.isFinite() || ci.width() > Math.abs(theta[j]))) {
                 poor.add(name);
-                warnings.add(String.format(Locale.ROOT, "The 95%% interval of %s (%s to %s %s) is wider than its "
+                String unit = specs.get(j).unit().symbol().isEmpty() ? "" : " " + specs.get(j).unit().symbol();
+                warnings.add(String.format(Locale.ROOT, "The 95%% interval of %s (%s to %s%s) is wider than its "
                         + "value (%s): these data do not determine %s.", name, fmt(ci.lower()), fmt(ci.upper()),
-                        specs.get(j).unit().symbol(), fmt(theta[j]), name));
+                        unit, fmt(theta[j]), name));
             }
         }
         for (int a = 0; a < specs.size(); a++) {

@@ -600,7 +600,7 @@ public final class ModelFit {
         double ga = insideG;
         double b = outside;
         double gb = outsideG;
-        for (int it = 0; it < 30 && Math.abs(b - a) > 1e-4 * step; it++) {
+        for (int it = 0; it < 12 && Math.abs(b - a) > 1e-3 * step; it++) {
             double c = b - gb * (b - a) / (gb - ga);
             double[] start = insideU.clone();
             start[j] = best.u[j] + direction * c;
@@ -609,7 +609,7 @@ public final class ModelFit {
                 break;
             }
             double gc = Math.sqrt(Math.max(0, local.chiSquare - best.chiSquare)) - target;
-            if (Math.abs(gc) < 1e-6 * target) {
+            if (Math.abs(gc) < 1e-3 * target) {
                 return best.u[j] + direction * c;
             }
             if (gc * gb > 0) {

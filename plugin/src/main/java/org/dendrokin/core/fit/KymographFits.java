@@ -1,0 +1,421 @@
+package org.dendrokin.core.fit;
+
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Optional;
+
+import org.dendrokin.core.Checks;
+import org.dendrokin.core.Progress;
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.model.Boundary;
+import org.dendrokin.core.model.Domain;
+import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.Stimulus;
+import org.dendrokin.core.spread.Estimate;
+import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.core.units.Unit;
+
+/**
+ * Fits the models a user asks for to one kymograph and compares them: noise per position from the baseline
+ * frames, starting values from the model-free spread measures ({@link SpreadAnalysis}), several starts per
+ * model, then AIC, AICc, BIC and Akaike weights, and the best model by the chosen criterion among the fits that
+ * converged. {@code diffusion-decay} is fitted in closed form ({@link DiffusionDecayPulse}); every other scalar
+ * engine model through the engine ({@link EngineFitModel}), stimulated by a unit pulse at the stimulus with the
+ * width the diffusion-decay fit found.
+ */
+public final class KymographFits {
+    /** Models fitted when the user names none. */
+    public static final List<String> DEFAULT_MODELS = List.of(DiffusionDecayPulse.NAME, "nagumo");
+
+    /**
+     * What to fit.
+     *
+     * @param stimulusTimeS       t0, s (a starting value when {@code fitStimulusTime})
+     * @param stimulusPositionUm  x0, um along the path (a starting value when {@code fitStimulusPosition})
+     * @param fitStimulusTime     fit t0 in the diffusion-decay model instead of holding it
+     * @param fitStimulusPosition fit x0 in the diffusion-decay model instead of holding it
+     * @param baselineFrames      {first, last} baseline frame (inclusive), or null for every frame before t0
+     * @param sealedEnds          true if the path's ends are sealed dendrite ends (mirror images, no-flux engine)
+     * @param models              model names to fit
+     * @param criterion           "aicc" (default), "aic" or "bic"
+     * @param options             fitter options
+     * @param stimulusWidthUm     width (Gaussian SD, um) of the unit pulse that starts the engine models, or NaN
+     *                            to take it from the half-maximum width of the first frame after the stimulus
+     */
+    public record Setup(double stimulusTimeS, double stimulusPositionUm, boolean fitStimulusTime,
+                        boolean fitStimulusPosition, int[] baselineFrames, boolean sealedEnds, List<String> models,
+                        String criterion, ModelFit.Options options, double stimulusWidthUm) {
+        public Setup {
+            Checks.finite(stimulusTimeS, "stimulus time (s)");
+            Checks.finite(stimulusPositionUm, "stimulus position (um)");
+            Checks.require(List.of("aic", "aicc", "bic").contains(criterion),
+                    "the model-selection criterion must be aic, aicc or bic, not " + criterion);
+            models = List.copyOf(models);
+            Checks.require(!models.isEmpty(), "name at least one model to fit");
+            for (String m : models) {
+                Checks.require(m.equals(DiffusionDecayPulse.NAME) || ScalarRun.MODELS.contains(m),
+                        "unknown model '" + m + "'; known: " + ScalarRun.MODELS);
+            }
+        }
+
+        /** The defaults: stimulus fixed where given, baseline before it, open ends, both default models, AICc. */
+        public static Setup of(double stimulusTimeS, double stimulusPositionUm) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, false, false, null, false, DEFAULT_MODELS, "aicc",
+                    ModelFit.Options.defaults(), Double.NaN);
+        }
+
+        public Setup withModels(List<String> names) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealedEnds, names, criterion, options, stimulusWidthUm);
+        }
+
+        public Setup withOptions(ModelFit.Options newOptions) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealedEnds, models, criterion, newOptions, stimulusWidthUm);
+        }
+
+        public Setup withSealedEnds(boolean sealed) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealed, models, criterion, options, stimulusWidthUm);
+        }
+
+        public Setup withFreeStimulus(boolean time, boolean position) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, time, position, baselineFrames, sealedEnds, models,
+                    criterion, options, stimulusWidthUm);
+        }
+
+        public Setup withCriterion(String name) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealedEnds, models, name, options, stimulusWidthUm);
+        }
+
+        public Setup withBaselineFrames(int first, int last) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition,
+                    new int[] {first, last}, sealedEnds, models, criterion, options, stimulusWidthUm);
+        }
+
+        public Setup withStimulusWidth(double widthUm) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealedEnds, models, criterion, options, widthUm);
+        }
+    }
+
+    /**
+     * Everything the fits gave.
+     *
+     * @param fits           one result per model, in the order asked, converged or not
+     * @param bestModel      name of the preferred converged fit, or null if none converged
+     * @param criterion      the criterion that chose it
+     * @param weights        Akaike weights by model name, from the chosen criterion (0 for non-converged fits)
+     * @param noiseSd        noise standard deviation per position used for the weights, signal units
+     * @param spread         the model-free measures used for the starting values
+     * @param warnings       plain sentences about the data and the comparison (each fit has its own too)
+     */
+    public record Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
+                          double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings) {
+        public Outcome {
+            fits = List.copyOf(fits);
+            warnings = List.copyOf(warnings);
+        }
+
+        /** The fit of a model by name. */
+        public Optional<FitResult> fit(String model) {
+            return fits.stream().filter(f -> f.model().equals(model)).findFirst();
+        }
+
+        /** The best fit, if any converged. */
+        public Optional<FitResult> best() {
+            return bestModel == null ? Optional.empty() : fit(bestModel);
+        }
+
+        /** Front speed of the best model when it is a travelling-wave model that converged. */
+        public Optional<ParameterEstimate> waveFrontSpeed() {
+            return best().flatMap(f -> f.estimate("front_speed"));
+        }
+    }
+
+    private KymographFits() {
+    }
+
+    /**
+     * Fits every model of the setup to the kymograph.
+     *
+     * @param k        the kymograph (dF/F0 or concentration; NaN marks missing samples). Not modified.
+     * @param setup    what to fit
+     * @param progress reports per model; checked for cancellation
+     */
+    public static Outcome fit(Kymograph k, Setup setup, Progress progress) {
+        List<String> warnings = new ArrayList<>();
+        double t0 = setup.stimulusTimeS();
+        double x0 = setup.stimulusPositionUm();
+        int[] baseline = setup.baselineFrames();
+        int firstAfter = 0;
+        while (firstAfter < k.frameCount() && k.timeS(firstAfter) < t0 - 1e-9 * Math.max(1, Math.abs(t0))) {
+            firstAfter++;
+        }
+        if (baseline == null) {
+            baseline = new int[] {0, firstAfter - 1};
+        }
+        double[] sigma = NoiseEstimate.perPosition(k, baseline[0], baseline[1], warnings);
+        double b0 = baselineLevel(k, baseline);
+        double noise = org.dendrokin.core.preprocess.Robust.median(sigma);
+        Kymograph zeroed = shifted(k, -b0);
+        SpreadAnalysis.Result spread = SpreadAnalysis.measure(zeroed, t0, x0, noise);
+        int framesAfter = k.frameCount() - firstAfter;
+        if (framesAfter < 2) {
+            warnings.add(String.format(Locale.ROOT, "Only %d frame(s) after the stimulus: no model can be fitted to "
+                    + "the spread.", framesAfter));
+        }
+        if (k.nanCount() > 0) {
+            warnings.add(String.format(Locale.ROOT, "%d of %d samples are missing (NaN) and were left out of the "
+                    + "fits.", k.nanCount(), (long) k.positionCount() * k.frameCount()));
+        }
+        FitData data = FitData.of(k, sigma);
+        StartGuess guess = StartGuess.from(k, zeroed, spread, t0, x0, firstAfter, b0);
+        List<FitResult> fits = new ArrayList<>();
+        FitResult dd = null;
+        List<String> order = new ArrayList<>(setup.models());
+        if (order.remove(DiffusionDecayPulse.NAME)) {
+            order.add(0, DiffusionDecayPulse.NAME);
+        }
+        for (String name : order) {
+            progress.checkCancelled();
+            FitResult r;
+            if (framesAfter < 2) {
+                r = FitResult.failed(name, "too few frames after the stimulus to fit a model", List.of());
+            } else if (name.equals(DiffusionDecayPulse.NAME)) {
+                r = fitDiffusionDecay(k, data, setup, guess, progress);
+                dd = r;
+            } else {
+                r = fitEngine(name, k, data, setup, guess, dd, progress);
+            }
+            fits.add(r);
+        }
+        // back to the order the user gave
+        List<FitResult> ordered = new ArrayList<>();
+        for (String name : setup.models()) {
+            fits.stream().filter(f -> f.model().equals(name)).findFirst().ifPresent(ordered::add);
+        }
+        String criterion = setup.criterion();
+        double[] values = ordered.stream().mapToDouble(f -> f.converged() ? f.criterion(criterion) : Double.NaN)
+                .toArray();
+        double[] w = InformationCriteria.weights(values);
+        Map<String, Double> weights = new LinkedHashMap<>();
+        String best = null;
+        double bestValue = Double.POSITIVE_INFINITY;
+        for (int i = 0; i < ordered.size(); i++) {
+            weights.put(ordered.get(i).model(), w[i]);
+            if (Double.isFinite(values[i]) && values[i] < bestValue) {
+                bestValue = values[i];
+                best = ordered.get(i).model();
+            }
+        }
+        if (best == null) {
+            warnings.add("No model fit converged, so no model is reported as best and no fitted constants are given.");
+        }
+        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings);
+    }
+
+    private static FitResult fitDiffusionDecay(Kymograph k, FitData data, Setup setup, StartGuess g,
+                                               Progress progress) {
+        double[] walls = setup.sealedEnds() ? new double[] {k.distanceUm(0), k.distanceUm(k.positionCount() - 1)}
+                : null;
+        DiffusionDecayPulse model = new DiffusionDecayPulse(k.distancesUm(), k.timesS(),
+                setup.fitStimulusTime() ? Double.NaN : setup.stimulusTimeS(),
+                setup.fitStimulusPosition() ? Double.NaN : setup.stimulusPositionUm(), walls, g.unit);
+        List<double[]> starts = new ArrayList<>();
+        double[][] factors = {{1, 1}, {0.3, 1}, {3, 1}, {1, 0.3}, {1, 3}};
+        for (double[] f : factors) {
+            double d = g.dUm2PerS * f[0];
+            double kk = g.kPerS * f[1];
+            double v1 = g.widthUm * g.widthUm;
+            double amp = g.peak * Math.exp(kk * g.tau1) * Math.sqrt(v1 + 2 * d * g.tau1) / g.widthUm;
+            starts.add(model.pack(d, kk, amp, g.peakPositionUm, g.widthUm, g.baseline, setup.stimulusTimeS()));
+        }
+        return ModelFit.fit(model, data, starts, setup.options(), progress);
+    }
+
+    private static FitResult fitEngine(String name, Kymograph k, FitData data, Setup setup, StartGuess g,
+                                       FitResult diffusionDecay, Progress progress) {
+        double xFirst = k.distanceUm(0);
+        double lengthUm = k.distanceUm(k.positionCount() - 1) - xFirst;
+        double kymoDx = k.distanceStepUm();
+        double t0 = setup.stimulusTimeS();
+        double x0 = setup.stimulusPositionUm();
+        // The stimulus width comes from the first frames (half-maximum width), not from the diffusion-decay fit,
+        // whose width absorbs the spread of a travelling front when the data are a wave.
+        double width = Double.isFinite(setup.stimulusWidthUm()) && setup.stimulusWidthUm() > 0
+                ? setup.stimulusWidthUm() : g.widthUm;
+        if (diffusionDecay != null && diffusionDecay.converged()) {
+            x0 = diffusionDecay.estimate("position").map(ParameterEstimate::value).orElse(x0);
+            t0 = diffusionDecay.estimate("stimulus_time").map(ParameterEstimate::value).orElse(t0);
+        }
+        if (!(lengthUm > 0) || k.positionCount() < 3) {
+            return FitResult.failed(name, "the kymograph has too few positions for a model along the dendrite",
+                    List.of());
+        }
+        double c = g.frontSpeedUmPerS;
+        List<double[]> starts = new ArrayList<>();
+        double[] widths = {2 * kymoDx, 6 * kymoDx};
+        double minFront = Double.POSITIVE_INFINITY;
+        for (double w : widths) {
+            if (name.equals("nagumo")) {
+                for (double a : new double[] {0.15, 0.3}) {
+                    double d = c * w / (1 - 2 * a);
+                    starts.add(new double[] {d, 2 * d / (w * w), a, g.plateau, g.baseline});
+                    minFront = Math.min(minFront, w);
+                }
+            } else if (name.equals("fisher-kpp")) {
+                double d = c * w / 2;
+                starts.add(new double[] {d, d / (w * w), g.plateau, g.baseline});
+                minFront = Math.min(minFront, w);
+            } else {
+                starts.add(new double[] {g.dUm2PerS * w / widths[0], g.kPerS, g.plateau, g.baseline});
+                minFront = Math.min(minFront, width);
+            }
+        }
+        double h = Math.min(kymoDx, Math.min(minFront, width) / 3);
+        h = Math.min(h, lengthUm / 4);
+        double dMax = 0;
+        double rMax = 0;
+        for (double[] s : starts) {
+            dMax = Math.max(dMax, s[0]);
+            rMax = Math.max(rMax, s[1]);
+        }
+        // Time step from the engine's own rule at four times the largest starting D and rate, so that it still
+        // resolves the model where the optimiser wanders; never more than half a frame.
+        double dt = org.dendrokin.core.model.SolverSettings.DEFAULT.maxStep(4 * rMax, h, 4 * dMax,
+                Math.max(width, h));
+        dt = Math.min(dt, Math.max(k.timeStepS(), 1e-6) / 2);
+        double[] positions = k.distancesUm();
+        for (int i = 0; i < positions.length; i++) {
+            positions[i] -= xFirst;
+        }
+        FitModel model;
+        try {
+            Domain domain = new Domain(lengthUm, h, Boundary.NO_FLUX);
+            model = new EngineFitModel(name, domain, k.timesS(), positions,
+                    List.of(Stimulus.pulse(Math.max(0, t0), Math.min(Math.max(x0 - xFirst, 0), lengthUm),
+                            Math.max(width, h), 1.0)), dt, g.unit);
+        } catch (IllegalArgumentException e) {
+            return FitResult.failed(name, "the model could not be set up for this kymograph: " + e.getMessage(),
+                    List.of());
+        }
+        List<String> notes = new ArrayList<>();
+        FitResult r = ModelFit.fit(model, data, starts, setup.options(), progress);
+        if (!setup.sealedEnds()) {
+            notes.add("The " + name + " model was simulated with sealed ends at the ends of the path.");
+        }
+        if (notes.isEmpty()) {
+            return r;
+        }
+        List<String> all = new ArrayList<>(r.warnings());
+        all.addAll(notes);
+        return new FitResult(r.model(), r.converged(), r.reason(), r.parameters(), r.derived(), r.pointsUsed(),
+                r.chiSquare(), r.rmse(), r.aic(), r.aicc(), r.bic(), r.correlation(), r.fitted(), all,
+                r.evaluations());
+    }
+
+    private static double baselineLevel(Kymograph k, int[] baseline) {
+        List<Double> v = new ArrayList<>();
+        for (int f = Math.max(0, baseline[0]); f <= Math.min(k.frameCount() - 1, baseline[1]); f++) {
+            for (int p = 0; p < k.positionCount(); p++) {
+                double x = k.value(f, p);
+                if (Double.isFinite(x)) {
+                    v.add(x);
+                }
+            }
+        }
+        if (v.isEmpty()) {
+            return 0;
+        }
+        return org.dendrokin.core.preprocess.Robust.median(v.stream().mapToDouble(Double::doubleValue).toArray());
+    }
+
+    private static Kymograph shifted(Kymograph k, double by) {
+        double[] v = k.values();
+        for (int i = 0; i < v.length; i++) {
+            v[i] += by;
+        }
+        return k.withValues(v, k.signalUnit());
+    }
+
+    /** Starting values read off the data. */
+    private static final class StartGuess {
+        Unit unit;
+        double baseline;
+        double peak;
+        double peakPositionUm;
+        double widthUm;
+        double tau1;
+        double dUm2PerS;
+        double kPerS;
+        double plateau;
+        double frontSpeedUmPerS;
+
+        static StartGuess from(Kymograph k, Kymograph zeroed, SpreadAnalysis.Result spread, double t0, double x0,
+                               int firstAfter, double b0) {
+            StartGuess g = new StartGuess();
+            g.unit = unitOf(k.signalUnit());
+            g.baseline = b0;
+            int nx = k.positionCount();
+            int nt = k.frameCount();
+            double dx = Math.max(k.distanceStepUm(), 1e-6);
+            double span = Math.max(k.timeS(nt - 1) - t0, Math.max(k.timeStepS(), 1e-6));
+            int f1 = Math.min(firstAfter, nt - 1);
+            if (f1 < nt - 1 && k.timeS(f1) - t0 <= 0) {
+                f1++;     // the first frame with some spread behind it
+            }
+            double[] row = zeroed.row(f1);
+            int iMax = -1;
+            for (int p = 0; p < nx; p++) {
+                if (Double.isFinite(row[p]) && (iMax < 0 || row[p] > row[iMax])) {
+                    iMax = p;
+                }
+            }
+            g.peak = iMax >= 0 && row[iMax] > 0 ? row[iMax] : 1;
+            g.peakPositionUm = x0;
+            int left = iMax;
+            int right = iMax;
+            while (left > 0 && Double.isFinite(row[left - 1]) && row[left - 1] > g.peak / 2) {
+                left--;
+            }
+            while (right >= 0 && right < nx - 1 && Double.isFinite(row[right + 1]) && row[right + 1] > g.peak / 2) {
+                right++;
+            }
+            double fwhm = iMax >= 0 ? (right - left + 1) * dx : dx;
+            g.widthUm = Math.max(fwhm / 2.3548, dx / 2);
+            g.tau1 = Math.max(0, k.timeS(f1) - t0);
+            g.dUm2PerS = positive(spread.apparentD(), dx * dx / Math.max(k.timeStepS(), 1e-6) / 10);
+            double decay = positive(spread.decayTime(), span);
+            g.kPerS = 1 / decay;
+            double top = Double.NEGATIVE_INFINITY;
+            for (double v : zeroed.values()) {
+                if (Double.isFinite(v)) {
+                    top = Math.max(top, v);
+                }
+            }
+            g.plateau = top > 0 ? top : 1;
+            g.frontSpeedUmPerS = positive(spread.frontSpeed(), Math.max(nx * dx / 4 / span, dx / span));
+            return g;
+        }
+
+        private static double positive(Estimate e, double fallback) {
+            return e != null && Double.isFinite(e.value()) && e.value() > 0 ? e.value() : fallback;
+        }
+    }
+
+    /** The Unit for a kymograph's signal unit string. */
+    public static Unit unitOf(String signalUnit) {
+        if (Unit.MICROMOLAR.symbol().equals(signalUnit)) {
+            return Unit.MICROMOLAR;
+        }
+        if (Unit.DF_F0.symbol().equals(signalUnit)) {
+            return Unit.DF_F0;
+        }
+        return Unit.DIMENSIONLESS;
+    }
+}

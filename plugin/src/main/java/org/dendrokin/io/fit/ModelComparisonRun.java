@@ -1,0 +1,238 @@
+package org.dendrokin.io.fit;
+
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.model.Boundary;
+import org.dendrokin.core.model.Domain;
+import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.Stimulus;
+import org.dendrokin.core.preprocess.Robust;
+import org.dendrokin.core.spread.Estimate;
+import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.InputException;
+import org.dendrokin.io.KymographCsv;
+
+import com.google.gson.Gson;
+import com.google.gson.GsonBuilder;
+import com.google.gson.JsonArray;
+import com.google.gson.JsonElement;
+import com.google.gson.JsonObject;
+import com.google.gson.JsonParseException;
+import com.google.gson.JsonParser;
+
+/**
+ * Puts a user's own model, with parameters the user chose (no fitting), beside a measured kymograph: simulates
+ * the model on the kymograph's grid, and reports the residual norm and RMS and the model-free front speed and
+ * length constant of each, with the comparison pictures. The model file:
+ * <pre>
+ * {"model": "nagumo", "parameters": {"D": 1.0, "k": 0.5, "a": 0.2},
+ *  "stimuli": [{"time_s": 5, "position_um": 5, "width_um": 2, "amount": 1}],
+ *  "amplitude": 1.5, "baseline": 0.0, "dx_um": 0.1, "boundary": "no-flux"}
+ * </pre>
+ * The signal predicted is baseline + amplitude u (amplitude 1 and baseline 0 if absent); positions of stimuli are
+ * in um along the path, as in the kymograph.
+ */
+public final class ModelComparisonRun {
+    public static final String RESULT_JSON = "comparison.json";
+
+    private ModelComparisonRun() {
+    }
+
+    /** What the comparison found. */
+    public record Result(String model, double residualNorm, double rmse, Estimate measuredSpeed,
+                         Estimate modelSpeed, Estimate measuredLengthConstant, Estimate modelLengthConstant,
+                         List<String> warnings) {
+    }
+
+    /**
+     * @param kymographCsv measured kymograph (kymograph.csv format). Not changed.
+     * @param modelJson    the user's model file. Not changed.
+     * @param signalUnit   unit of the kymograph's values
+     * @param outDir       output folder (created if missing)
+     */
+    public static Result run(Path kymographCsv, Path modelJson, String signalUnit, Path outDir) {
+        Kymograph measured = KymographCsv.read(kymographCsv, signalUnit);
+        JsonObject root;
+        try {
+            root = JsonParser.parseString(Files.readString(modelJson, StandardCharsets.UTF_8)).getAsJsonObject();
+        } catch (IOException e) {
+            throw new InputException(modelJson, "cannot be read (" + e.getMessage() + ")", e);
+        } catch (JsonParseException | IllegalStateException e) {
+            throw new InputException(modelJson, "is not a JSON object (" + e.getMessage() + ")", e);
+        }
+        String model = string(root, "model", modelJson);
+        if (!ScalarRun.MODELS.contains(model)) {
+            throw new InputException(modelJson, "key \"model\": unknown model '" + model + "'; known: "
+                    + ScalarRun.MODELS);
+        }
+        double x0 = measured.distanceUm(0);
+        double length = measured.distanceUm(measured.positionCount() - 1) - x0;
+        double[] positions = measured.distancesUm();
+        for (int i = 0; i < positions.length; i++) {
+            positions[i] -= x0;
+        }
+        List<Stimulus> stimuli = new ArrayList<>();
+        JsonArray st = root.has("stimuli") && root.get("stimuli").isJsonArray() ? root.getAsJsonArray("stimuli")
+                : null;
+        if (st == null || st.isEmpty()) {
+            throw new InputException(modelJson, "key \"stimuli\": give at least one stimulus, e.g. [{\"time_s\": 5, "
+                    + "\"position_um\": 10, \"width_um\": 2, \"amount\": 1}]");
+        }
+        double[] values;
+        ScalarRun run;
+        try {
+            for (JsonElement e : st) {
+                JsonObject s = e.getAsJsonObject();
+                stimuli.add(Stimulus.pulse(number(s, "time_s", modelJson), number(s, "position_um", modelJson) - x0,
+                        number(s, "width_um", modelJson), number(s, "amount", modelJson)));
+            }
+            double dx = root.has("dx_um") ? number(root, "dx_um", modelJson)
+                    : Math.min(measured.distanceStepUm(), length / 4);
+            Boundary boundary = root.has("boundary") && string(root, "boundary", modelJson).equals("fixed")
+                    ? Boundary.FIXED : Boundary.NO_FLUX;
+            run = ScalarRun.prepare(model, new Domain(length, dx, boundary), measured.timesS(), positions, stimuli);
+            JsonObject p = root.has("parameters") && root.get("parameters").isJsonObject()
+                    ? root.getAsJsonObject("parameters") : new JsonObject();
+            double[] theta = new double[run.parameterNames().size()];
+            for (int i = 0; i < theta.length; i++) {
+                String name = run.parameterNames().get(i);
+                if (!p.has(name)) {
+                    throw new InputException(modelJson, "key \"parameters\": the " + model + " model needs "
+                            + run.parameterNames() + ", \"" + name + "\" is missing");
+                }
+                theta[i] = number(p, name, modelJson);
+            }
+            values = new double[measured.positionCount() * measured.frameCount()];
+            run.solve(theta, values);
+        } catch (IllegalArgumentException e) {
+            throw new InputException(modelJson, e.getMessage(), e);
+        }
+        double amp = root.has("amplitude") ? number(root, "amplitude", modelJson) : 1;
+        double base = root.has("baseline") ? number(root, "baseline", modelJson) : 0;
+        for (int i = 0; i < values.length; i++) {
+            values[i] = base + amp * values[i];
+        }
+        Kymograph simulated = measured.withValues(values, signalUnit);
+        double sum = 0;
+        int n = 0;
+        for (int i = 0; i < values.length; i++) {
+            int f = i / measured.positionCount();
+            double y = measured.value(f, i % measured.positionCount());
+            if (Double.isFinite(y)) {
+                sum += (y - values[i]) * (y - values[i]);
+                n++;
+            }
+        }
+        double norm = Math.sqrt(sum);
+        double rmse = n > 0 ? Math.sqrt(sum / n) : Double.NaN;
+        Stimulus first = stimuli.get(0);
+        double t0 = first.timeS();
+        double xs = first.positionUm() + x0;
+        double noise = noiseOf(measured, t0);
+        SpreadAnalysis.Result sm = SpreadAnalysis.measure(shift(measured, -base), t0, xs, noise);
+        SpreadAnalysis.Result ss = SpreadAnalysis.measure(shift(simulated, -base), t0, xs, noise);
+        List<String> warnings = new ArrayList<>();
+        sm.warnings().forEach(w -> warnings.add("measured: " + w));
+        ss.warnings().forEach(w -> warnings.add("model: " + w));
+        try {
+            Files.createDirectories(outDir);
+        } catch (IOException e) {
+            throw new InputException(outDir, "cannot be created (" + e.getMessage() + ")", e);
+        }
+        FitPictures.write(outDir, "compare-" + model, model + " (given)", measured, simulated, t0, xs, noise);
+        Result r = new Result(model, norm, rmse, sm.frontSpeed(), ss.frontSpeed(), sm.lengthConstant(),
+                ss.lengthConstant(), warnings);
+        JsonObject out = new JsonObject();
+        out.addProperty("model", model);
+        out.add("residual_norm", FitJson.number(norm));
+        out.add("rmse", FitJson.number(rmse));
+        out.addProperty("signal_unit", signalUnit);
+        JsonObject speed = new JsonObject();
+        speed.add("measured", estimate(sm.frontSpeed()));
+        speed.add("model", estimate(ss.frontSpeed()));
+        out.add("front_speed", speed);
+        JsonObject lambda = new JsonObject();
+        lambda.add("measured", estimate(sm.lengthConstant()));
+        lambda.add("model", estimate(ss.lengthConstant()));
+        out.add("length_constant", lambda);
+        JsonArray w = new JsonArray();
+        warnings.forEach(w::add);
+        out.add("warnings", w);
+        Gson gson = new GsonBuilder().setPrettyPrinting().serializeSpecialFloatingPointValues().create();
+        AtomicFiles.writeString(outDir.resolve(RESULT_JSON), gson.toJson(out) + "\n");
+        return r;
+    }
+
+    /** A one-paragraph summary for the terminal. */
+    public static String summary(Result r, String unit) {
+        return String.format(Locale.ROOT, "model %s: residual norm %.4g %s, RMS %.4g %s; front speed measured %s, "
+                + "model %s; length constant measured %s, model %s", r.model(), r.residualNorm(), unit, r.rmse(), unit,
+                fmt(r.measuredSpeed(), "um/s"), fmt(r.modelSpeed(), "um/s"), fmt(r.measuredLengthConstant(), "um"),
+                fmt(r.modelLengthConstant(), "um"));
+    }
+
+    private static String fmt(Estimate e, String unit) {
+        return e == null ? "not available" : String.format(Locale.ROOT, "%.3g %s (95%% %.3g to %.3g)", e.value(), unit,
+                e.lo95(), e.hi95());
+    }
+
+    private static JsonElement estimate(Estimate e) {
+        if (e == null) {
+            return com.google.gson.JsonNull.INSTANCE;
+        }
+        JsonObject o = new JsonObject();
+        o.add("value", FitJson.number(e.value()));
+        o.addProperty("unit", e.unit());
+        JsonArray ci = new JsonArray();
+        ci.add(FitJson.number(e.lo95()));
+        ci.add(FitJson.number(e.hi95()));
+        o.add("ci95", ci);
+        o.addProperty("ci_method", e.method());
+        return o;
+    }
+
+    private static double noiseOf(Kymograph k, double t0) {
+        List<String> ignored = new ArrayList<>();
+        int last = -1;
+        while (last + 1 < k.frameCount() && k.timeS(last + 1) < t0) {
+            last++;
+        }
+        return Robust.median(org.dendrokin.core.fit.NoiseEstimate.perPosition(k, 0, last, ignored));
+    }
+
+    private static Kymograph shift(Kymograph k, double by) {
+        double[] v = k.values();
+        for (int i = 0; i < v.length; i++) {
+            v[i] += by;
+        }
+        return k.withValues(v, k.signalUnit());
+    }
+
+    private static String string(JsonObject o, String key, Path file) {
+        if (!o.has(key) || !o.get(key).isJsonPrimitive()) {
+            throw new InputException(file, "key \"" + key + "\" is missing or not a string");
+        }
+        return o.get(key).getAsString();
+    }
+
+    private static double number(JsonObject o, String key, Path file) {
+        try {
+            double v = o.get(key).getAsDouble();
+            if (!Double.isFinite(v)) {
+                throw new NumberFormatException();
+            }
+            return v;
+        } catch (RuntimeException e) {
+            throw new InputException(file, "key \"" + key + "\" must be a finite number");
+        }
+    }
+
+}
