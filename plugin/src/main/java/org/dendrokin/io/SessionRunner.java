@@ -21,6 +21,7 @@ import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.calib.CalibrationConfig;
 import org.dendrokin.io.calib.CalibrationSetup;
 import org.dendrokin.io.calib.SessionCalibration;
+import org.dendrokin.io.fit.SessionFits;
 import org.dendrokin.io.movie.Movie;
 import org.dendrokin.io.path.PathFiles;
 import org.dendrokin.io.session.ReportHtml;
@@ -171,7 +172,11 @@ public final class SessionRunner {
             warnings.addAll(spread.warnings());
         }
         List<JsonObject> fits = new ArrayList<>();
-        String bestModel = fitModels(config, signal, pre, spread, fits, warnings);
+        SessionFits sessionFits = SessionFits.run(config.models(), signal, pre.stimulus().known(),
+                pre.stimulus().timeS(), pre.stimulus().positionUm(), pre.baselineFirst(), pre.baselineLast(), warnings,
+                progress);
+        fits.addAll(sessionFits.json());
+        String bestModel = sessionFits.bestModel();
 
         progress.checkCancelled();
         progress.report("writing results", 0, 1);
@@ -184,10 +189,15 @@ public final class SessionRunner {
         if (SessionCalibration.propagated(calibrated)) {
             KymographCsv.write(calibrated.sdMicromolar(), outDir.resolve(SessionCalibration.SD_CSV));
         }
-        List<SessionPictures.Picture> pictures = SessionPictures.writeAll(outDir, inputs, pre, signal, spread);
+        List<SessionPictures.Picture> pictures = new ArrayList<>(
+                SessionPictures.writeAll(outDir, inputs, pre, signal, spread));
+        sessionFits.writePictures(outDir).forEach(
+                p -> pictures.add(new SessionPictures.Picture(p.file(), p.title(), p.caption())));
+        JsonObject spreadResults = spreadJson(spread);
+        sessionFits.adjustSpread(spreadResults, warnings);
         String session = sessionName(sessionDir);
         JsonObject results = ResultsJson.build(ToolVersion.get(), session, signal.signalUnit(),
-                KYMOGRAPH_CSV, signal.distanceStepUm(), signal.timeStepS(), fits, bestModel, spreadJson(spread),
+                KYMOGRAPH_CSV, signal.distanceStepUm(), signal.timeStepS(), fits, bestModel, spreadResults,
                 extras(inputs, pre, SessionCalibration.toJson(calibration, calibrated)), warnings);
         ResultsJson.write(results, outDir.resolve(RESULTS_JSON));
         Path report = outDir.resolve(REPORT_HTML);
@@ -196,15 +206,6 @@ public final class SessionRunner {
         progress.report("writing results", 1, 1);
         return new Result(session, outDir, report, signal.signalUnit(), spread, pre.stimulus(), List.copyOf(fits),
                 bestModel, List.copyOf(warnings));
-    }
-
-    /**
-     * The single place where model fits are added: each fit appends one results.json object
-     * ({@code model, converged, aic, bic, rmse, parameters}) to {@code fits}; returns the preferred model or null.
-     */
-    static String fitModels(SessionConfig config, Kymograph signal, Preprocessing.Result pre,
-            SpreadAnalysis.Result spread, List<JsonObject> fits, List<String> warnings) {
-        return null;
     }
 
     private static JsonObject spreadJson(SpreadAnalysis.Result spread) {

@@ -29,6 +29,8 @@ import org.dendrokin.core.units.Unit;
 public final class KymographFits {
     /** Models fitted when the user names none. */
     public static final List<String> DEFAULT_MODELS = List.of(DiffusionDecayPulse.NAME, "nagumo");
+    /** Engine models get profile-likelihood intervals only up to this many samples (each profile point is a refit). */
+    public static final int ENGINE_PROFILE_LIMIT = 20_000;
 
     /**
      * What to fit.
@@ -259,7 +261,7 @@ public final class KymographFits {
         }
         double c = g.frontSpeedUmPerS;
         List<double[]> starts = new ArrayList<>();
-        double[] widths = {2 * kymoDx, 6 * kymoDx};
+        double[] widths = {Math.max(3 * kymoDx, width / 2), Math.max(8 * kymoDx, 2 * width)};
         double minFront = Double.POSITIVE_INFINITY;
         for (double w : widths) {
             if (name.equals("nagumo")) {
@@ -285,11 +287,13 @@ public final class KymographFits {
             dMax = Math.max(dMax, s[0]);
             rMax = Math.max(rMax, s[1]);
         }
-        // Time step from the engine's own rule at four times the largest starting D and rate, so that it still
-        // resolves the model where the optimiser wanders; never more than half a frame.
-        double dt = org.dendrokin.core.model.SolverSettings.DEFAULT.maxStep(4 * rMax, h, 4 * dMax,
+        // Time step from the engine's own rule at twice the largest starting D and rate, so that it still
+        // resolves the model where the optimiser wanders; at most half a frame, and not below a tenth of a frame
+        // (the scheme is second order and L-stable, so a coarser step costs accuracy, never stability).
+        double frame = Math.max(k.timeStepS(), 1e-6);
+        double dt = org.dendrokin.core.model.SolverSettings.DEFAULT.maxStep(2 * rMax, h, 2 * dMax,
                 Math.max(width, h));
-        dt = Math.min(dt, Math.max(k.timeStepS(), 1e-6) / 2);
+        dt = Math.max(Math.min(dt, frame / 2), frame / 10);
         double[] positions = k.distancesUm();
         for (int i = 0; i < positions.length; i++) {
             positions[i] -= xFirst;
@@ -305,7 +309,13 @@ public final class KymographFits {
                     List.of());
         }
         List<String> notes = new ArrayList<>();
-        FitResult r = ModelFit.fit(model, data, starts, setup.options(), progress);
+        // Each evaluation is a full simulation: fewer evaluations per start, and profiles only on small kymographs
+        // (elsewhere the Student t intervals are reported and say so in ci_method).
+        ModelFit.Options options = setup.options().withMaxEvaluations(Math.min(setup.options().maxEvaluations(), 300));
+        if (model.size() > ENGINE_PROFILE_LIMIT) {
+            options = options.withProfiles(false);
+        }
+        FitResult r = ModelFit.fit(model, data, starts, options, progress);
         if (!setup.sealedEnds()) {
             notes.add("The " + name + " model was simulated with sealed ends at the ends of the path.");
         }

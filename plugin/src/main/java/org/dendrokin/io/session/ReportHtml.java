@@ -15,7 +15,6 @@ import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.SessionRunner;
 import org.dendrokin.io.ToolVersion;
 
-import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
 
 /**
@@ -97,21 +96,7 @@ public final class ReportHtml {
                 "exponential fit to the samples outside the response");
         h.append("</table>\n");
 
-        h.append("<h2>Model fits</h2>\n");
-        if (fits.isEmpty()) {
-            h.append("<p>No reaction-diffusion model was fitted in this run; the numbers above do not depend on any "
-                    + "model.</p>\n");
-        } else {
-            h.append("<table>\n<tr><th>Model</th><th>Converged</th><th>AIC</th><th>Parameters (95% interval)</th></tr>\n");
-            for (JsonObject fit : fits) {
-                String name = fit.has("model") ? fit.get("model").getAsString() : "?";
-                h.append("<tr><td>").append(esc(name)).append(name.equals(bestModel) ? " (preferred)" : "")
-                        .append("</td><td>").append(fit.has("converged") ? esc(fit.get("converged").toString()) : "")
-                        .append("</td><td>").append(fit.has("aic") ? esc(fit.get("aic").toString()) : "")
-                        .append("</td><td>").append(parameters(fit)).append("</td></tr>\n");
-            }
-            h.append("</table>\n");
-        }
+        h.append(org.dendrokin.io.fit.FitReportHtml.section(fits, bestModel));
 
         h.append("<h2>Warnings</h2>\n");
         if (warnings.isEmpty()) {
@@ -178,31 +163,6 @@ public final class ReportHtml {
                     .append(number(e.hi95())).append("</td><td>").append(esc(e.unit())).append("</td>");
         }
         h.append("<td>").append(esc(how)).append("</td></tr>\n");
-    }
-
-    private static String parameters(JsonObject fit) {
-        if (!fit.has("parameters") || !fit.get("parameters").isJsonObject()) {
-            return "";
-        }
-        StringBuilder b = new StringBuilder();
-        for (var entry : fit.getAsJsonObject("parameters").entrySet()) {
-            JsonElement v = entry.getValue();
-            b.append(esc(entry.getKey())).append(" = ");
-            if (v.isJsonObject() && v.getAsJsonObject().has("value")) {
-                JsonObject p = v.getAsJsonObject();
-                b.append(esc(p.get("value").toString()));
-                if (p.has("ci95")) {
-                    b.append(" (").append(esc(p.get("ci95").toString())).append(")");
-                }
-                if (p.has("unit")) {
-                    b.append(' ').append(esc(p.get("unit").getAsString()));
-                }
-            } else {
-                b.append(esc(v.toString()));
-            }
-            b.append("<br>");
-        }
-        return b.toString();
     }
 
     /** A number for people: 3 significant digits, no exponent between 0.001 and 100000, Locale.ROOT. */

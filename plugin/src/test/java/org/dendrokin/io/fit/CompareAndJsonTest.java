@@ -1,0 +1,122 @@
+package org.dendrokin.io.fit;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Random;
+
+import org.dendrokin.cli.Main;
+import org.dendrokin.core.Progress;
+import org.dendrokin.core.fit.DiffusionDecayPulse;
+import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.model.Boundary;
+import org.dendrokin.core.model.Domain;
+import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.Stimulus;
+import org.dendrokin.core.units.Unit;
+import org.dendrokin.io.KymographCsv;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+import com.google.gson.JsonObject;
+import com.google.gson.JsonParser;
+
+class CompareAndJsonTest {
+    private static Kymograph nagumoKymograph(double sigma) {
+        double[] x = new double[50];
+        double[] t = new double[80];
+        for (int i = 0; i < x.length; i++) {
+            x[i] = 0.5 * i;
+        }
+        for (int i = 0; i < t.length; i++) {
+            t[i] = 0.5 * i;
+        }
+        ScalarRun run = ScalarRun.prepare("nagumo", new Domain(x[x.length - 1], 0.25, Boundary.NO_FLUX), t, x,
+                List.of(Stimulus.pulse(3, 4, 2, 1.0)));
+        double[] u = new double[x.length * t.length];
+        run.solve(new double[] {1, 0.5, 0.2}, u);
+        Random r = new Random(31);
+        for (int i = 0; i < u.length; i++) {
+            u[i] = 1.5 * u[i] + sigma * r.nextGaussian();
+        }
+        return new Kymograph(x, t, u, "dF/F0");
+    }
+
+    @Test
+    void compareReportsTheResidualOfTheUsersOwnModel(@TempDir Path dir) throws Exception {
+        KymographCsv.write(nagumoKymograph(0.05), dir.resolve("kymograph.csv"));
+        Files.writeString(dir.resolve("model.json"), "{\"model\": \"nagumo\", \"parameters\": {\"D\": 1, \"k\": 0.5, "
+                + "\"a\": 0.2}, \"stimuli\": [{\"time_s\": 3, \"position_um\": 4, \"width_um\": 2, \"amount\": 1}], "
+                + "\"amplitude\": 1.5, \"baseline\": 0, \"dx_um\": 0.25}");
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        int status = Main.run(new String[] {"compare", dir.resolve("kymograph.csv").toString(),
+            dir.resolve("model.json").toString(), "--out", dir.resolve("out").toString()},
+                new PrintStream(out, true, StandardCharsets.UTF_8), new PrintStream(err, true, StandardCharsets.UTF_8));
+        assertEquals(0, status, err.toString(StandardCharsets.UTF_8));
+        JsonObject c = JsonParser.parseString(Files.readString(dir.resolve("out/comparison.json"))).getAsJsonObject();
+        // REF: the model that made the data, on the same grid, leaves only the added noise (SD 0.05) [common practice]
+        assertEquals(0.05, c.get("rmse").getAsDouble(), 0.005, "RMS residual (dF/F0)");
+        assertTrue(Files.isRegularFile(dir.resolve("out/compare-nagumo-kymographs.png")), "pictures written");
+        assertTrue(c.getAsJsonObject("front_speed").get("measured").isJsonObject(), "measured front speed");
+    }
+
+    @Test
+    void compareWithABadModelFileExitsWithStatus2(@TempDir Path dir) throws Exception {
+        KymographCsv.write(nagumoKymograph(0.05), dir.resolve("kymograph.csv"));
+        Files.writeString(dir.resolve("model.json"), "{\"model\": \"nagumo\", \"parameters\": {\"D\": 1, \"k\": 0.5}, "
+                + "\"stimuli\": [{\"time_s\": 3, \"position_um\": 4, \"width_um\": 2, \"amount\": 1}]}");
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        int status = Main.run(new String[] {"compare", dir.resolve("kymograph.csv").toString(),
+            dir.resolve("model.json").toString(), "--out", dir.resolve("out").toString()},
+                new PrintStream(new ByteArrayOutputStream()), new PrintStream(err, true, StandardCharsets.UTF_8));
+        assertEquals(Main.BAD_INPUT, status);
+        String message = err.toString(StandardCharsets.UTF_8);
+        assertTrue(message.contains("model.json") && message.contains("\"a\""), message);
+    }
+
+    @Test
+    void jsonCarriesUnitsIntervalsAndMethodsAndHidesNonConvergedNumbers() {
+        double[] x = new double[30];
+        double[] t = new double[60];
+        for (int i = 0; i < x.length; i++) {
+            x[i] = 0.5 * i;
+        }
+        for (int i = 0; i < t.length; i++) {
+            t[i] = 0.25 * i;
+        }
+        DiffusionDecayPulse m = new DiffusionDecayPulse(x, t, 3, 7, null, Unit.DF_F0);
+        double[] v = new double[m.size()];
+        m.evaluate(m.pack(0.5, 0.05, 2, 7, 1, 0.1, 3), v, null);
+        Random r = new Random(32);
+        for (int i = 0; i < v.length; i++) {
+            v[i] += 0.02 * r.nextGaussian();
+        }
+        KymographFits.Outcome o = KymographFits.fit(new Kymograph(x, t, v, "dF/F0"),
+                KymographFits.Setup.of(3, 7).withModels(List.of(DiffusionDecayPulse.NAME)), Progress.NONE);
+        JsonObject f = FitJson.fits(o).get(0);
+        assertTrue(f.get("converged").getAsBoolean());
+        JsonObject d = f.getAsJsonObject("parameters").getAsJsonObject("D");
+        assertEquals("um^2/s", d.get("unit").getAsString());
+        assertEquals(2, d.getAsJsonArray("ci95").size());
+        assertEquals("profile-likelihood", d.get("ci_method").getAsString());
+        assertEquals("1/s", f.getAsJsonObject("parameters").getAsJsonObject("k").get("unit").getAsString());
+        assertTrue(f.has("aicc") && f.has("bic") && f.has("rmse") && f.has("akaike_weight"));
+
+        KymographFits.Outcome failed = KymographFits.fit(new Kymograph(x, new double[] {0, 0.25, 0.5, 3.0},
+                new double[4 * x.length], "dF/F0"), KymographFits.Setup.of(3, 7), Progress.NONE);
+        for (JsonObject g : FitJson.fits(failed)) {
+            assertFalse(g.get("converged").getAsBoolean());
+            assertTrue(g.getAsJsonObject("parameters").entrySet().isEmpty(), "no numbers from a failed fit");
+            assertFalse(g.get("reason").getAsString().isBlank(), "a reason is given");
+        }
+    }
+}
