@@ -311,7 +311,7 @@ public final class KymographFits {
         List<String> notes = new ArrayList<>();
         // Each evaluation is a full simulation: fewer evaluations per start, and profiles only on small kymographs
         // (elsewhere the Student t intervals are reported and say so in ci_method).
-        ModelFit.Options options = setup.options().withMaxEvaluations(Math.min(setup.options().maxEvaluations(), 300));
+        ModelFit.Options options = setup.options().withMaxEvaluations(Math.min(setup.options().maxEvaluations(), 200));
         if (model.size() > ENGINE_PROFILE_LIMIT) {
             options = options.withProfiles(false);
         }

@@ -44,6 +44,8 @@ import org.dendrokin.core.Progress;
  */
 public final class ModelFit {
     private static final double SINGULAR_CONDITION = 1e13;
+    /** chi^2 / (n - p) below which the remaining starts are skipped (the weights make it about 1 for a good fit). */
+    private static final double NOISE_LEVEL_FIT = 1.2;
 
     /**
      * How to fit.
@@ -152,6 +154,11 @@ public final class ModelFit {
                 }
             }
             progress.report("fitting " + model.name(), ++done, total);
+            if (best != null && best.chiSquare / (n - p) < NOISE_LEVEL_FIT) {
+                // The residuals are already at the noise level the weights describe: no start can do much better.
+                done += starts.size() - (starts.indexOf(start) + 1);
+                break;
+            }
         }
         if (best == null) {
             return FitResult.failed(model.name(), "the optimiser did not converge from any start: " + lastFailure,
