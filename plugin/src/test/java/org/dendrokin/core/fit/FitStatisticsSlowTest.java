@@ -10,7 +10,7 @@ import org.dendrokin.core.kymo.Kymograph;
 import org.junit.jupiter.api.Tag;
 import org.junit.jupiter.api.Test;
 
-/** Interval coverage and model selection over many seeded replicates; run with -Dgroups=slow -DexcludedGroups=none. */
+/** Interval coverage and model selection over many seeded replicates; run with -Dgroups=slow. */
 @Tag("slow")
 class FitStatisticsSlowTest {
     @Test
