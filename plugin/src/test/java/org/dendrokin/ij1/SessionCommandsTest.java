@@ -38,6 +38,7 @@ class SessionCommandsTest {
         HeadlessImageJ.start();
         original = dir.resolve("cell-1");
         DemoSessionGenerator.write(original, SMALL);
+        fitOnlyDiffusionDecay(original);
         direct = SessionRunner.analyze(original, dir.resolve("direct"), Progress.NONE);
     }
 
@@ -76,6 +77,7 @@ class SessionCommandsTest {
         assertEquals("../cell-1/dendrite.tif", config.movie());
         assertEquals("path.roi", config.path());
         assertEquals(1.0, config.pathWidthUm(), 0, "band width, um");
+        fitOnlyDiffusionDecay(saved);
         SessionRunner.Result again = SessionRunner.analyze(saved, dir.resolve("again"), Progress.NONE);
         assertEquals(direct.spread().frontSpeed().value(), again.spread().frontSpeed().value(), 1e-9,
                 "front speed, um/s, of the saved folder");
@@ -101,5 +103,17 @@ class SessionCommandsTest {
         }
         assertTrue(Files.isRegularFile(out.resolve("summary.csv")), "summary.csv written");
         assertEquals(1, Analyzer.getResultsTable().size(), "one row a session");
+    }
+
+    /** Keeps the analysis quick: the session fits one model, the closed-form one. */
+    static void fitOnlyDiffusionDecay(java.nio.file.Path dir) {
+        try {
+            java.nio.file.Path json = dir.resolve("session.json");
+            String text = java.nio.file.Files.readString(json);
+            java.nio.file.Files.writeString(json, text.replace("\"calibration\"",
+                    "\"models\": [\"diffusion-decay\"],\n  \"calibration\""));
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
     }
 }

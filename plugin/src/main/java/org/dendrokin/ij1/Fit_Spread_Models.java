@@ -1,0 +1,194 @@
+package org.dendrokin.ij1;
+
+import java.awt.Color;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+import ij.IJ;
+import ij.ImagePlus;
+import ij.ImageStack;
+import ij.WindowManager;
+import ij.gui.Plot;
+import ij.measure.ResultsTable;
+import ij.plugin.PlugIn;
+import ij.process.FloatProcessor;
+
+import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.fit.ParameterEstimate;
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.plot.ColourScale;
+import org.dendrokin.io.plot.Heatmap;
+
+/**
+ * Plugins > Dendrokin > Fit Spread Models: fits reaction-diffusion models to the current kymograph (dF/F0 or
+ * uM, e.g. from Analyze Session Folder) with the fitting core, and shows each model's parameters with units
+ * and 95% intervals and its information criteria in a table, the best model's fit as a stack (measured,
+ * fitted, residual on one colour scale) and as profiles (data as points, model as lines) with the residuals.
+ */
+public class Fit_Spread_Models implements PlugIn {
+    static final String COMMAND = "Fit Spread Models";
+    static final String[] CRITERIA = {"aicc", "aic", "bic"};
+
+    @Override
+    public void run(String arg) {
+        ImagePlus current = WindowManager.getCurrentImage();
+        if (current == null) {
+            IJ.noImage();
+            return;
+        }
+        IjProgress progress = new IjProgress(COMMAND);
+        try {
+            Kymograph k = KymographImage.fromImage(current);
+            OptionsDialog d = new OptionsDialog(COMMAND, "fit");
+            d.text("Models (comma separated: diffusion-decay, nagumo, fisher-kpp)",
+                    String.join(", ", KymographFits.DEFAULT_MODELS), 30);
+            d.number("Time of the stimulus (s)", k.timeS(k.frameCount() / 10), 3);
+            d.number("Position of the stimulus (um along the path)",
+                    Math.round(k.distanceUm(k.positionCount() / 2) * 100) / 100.0, 2);
+            d.check("Free stimulus time and position (fitted, diffusion-decay)", false);
+            d.check("Sealed ends (the path ends where the dendrite ends)", false);
+            d.choice("Criterion for the best model", CRITERIA, CRITERIA[0]);
+            d.folder("Save table, fit CSV and TIFF to folder (empty: do not save)", "");
+            if (!d.show()) {
+                return;
+            }
+            List<String> models = new ArrayList<>();
+            for (String m : d.nextText().split("[,;\\s]+")) {
+                if (!m.isEmpty()) {
+                    models.add(m.trim());
+                }
+            }
+            double t0 = d.nextNumber();
+            double x0 = d.nextNumber();
+            boolean free = d.nextCheck();
+            boolean sealed = d.nextCheck();
+            String criterion = d.nextChoice();
+            String folder = d.nextText();
+            KymographFits.Setup setup = KymographFits.Setup.of(t0, x0).withModels(models).withFreeStimulus(free, free)
+                    .withSealedEnds(sealed).withCriterion(criterion);
+            KymographFits.Outcome outcome = KymographFits.fit(k, setup, progress);
+            outcome.warnings().forEach(w -> IJ.log(COMMAND + ": " + w));
+            for (FitResult f : outcome.fits()) {
+                f.warnings().forEach(w -> IJ.log(COMMAND + " (" + f.model() + "): " + w));
+                if (!f.converged()) {
+                    IJ.log(COMMAND + " (" + f.model() + "): not converged: " + f.reason());
+                }
+            }
+            ResultsTable table = table(outcome);
+            ImagePlus stack = null;
+            Plot profiles = null;
+            FitResult best = outcome.best().orElse(null);
+            if (best != null && best.fitted() != null) {
+                Kymograph fitted = k.withValues(best.fitted(), k.signalUnit());
+                stack = stack(k, fitted, current.getShortTitle() + " fit " + best.model() + " (" + k.signalUnit() + ")");
+                profiles = profiles(k, fitted, best.model(), t0);
+            }
+            if (!folder.isEmpty()) {
+                Path dir = Path.of(folder);
+                Tables.saveCsv(table, dir.resolve(current.getShortTitle() + "_fits.csv"));
+                if (stack != null) {
+                    KymographCsv.write(k.withValues(best.fitted(), k.signalUnit()),
+                            dir.resolve(current.getShortTitle() + "_fit_" + best.model() + ".csv"));
+                    Kymograph_Along_Line.saveTiff(stack, dir.resolve(current.getShortTitle() + "_fit.tif"));
+                }
+            }
+            Tables.show(table, "Dendrokin fits");
+            if (stack != null) {
+                Display.showKymograph(stack);
+                if (!OptionsDialog.headless()) {
+                    profiles.show();
+                }
+            }
+            progress.finish(COMMAND + ": " + (best == null ? "no model converged." : "best model " + best.model()
+                    + " by " + outcome.criterion().toUpperCase(Locale.ROOT) + "."));
+        } catch (RuntimeException e) {
+            Failures.show(COMMAND, e);
+        }
+    }
+
+    /** One row a parameter or derived quantity of each model, then each model's criteria and weight. */
+    static ResultsTable table(KymographFits.Outcome o) {
+        ResultsTable t = Tables.quantities();
+        for (FitResult f : o.fits()) {
+            String source = f.model() + (f.model().equals(o.bestModel()) ? " (best)" : "")
+                    + (f.converged() ? "" : " (not converged)");
+            List<ParameterEstimate> all = new ArrayList<>(f.parameters());
+            all.addAll(f.derived());
+            for (ParameterEstimate p : all) {
+                String note = p.ci95() == null ? "no interval" : p.ci95().method();
+                if (!p.identifiable()) {
+                    note += "; not identifiable from these data";
+                }
+                if (p.atBound()) {
+                    note += "; at its bound";
+                }
+                Tables.add(t, source, p.name(), p.value(), p.unit().symbol(),
+                        p.ci95() == null ? Double.NaN : p.ci95().lower(),
+                        p.ci95() == null ? Double.NaN : p.ci95().upper(), note);
+            }
+            Tables.add(t, source, o.criterion().toUpperCase(Locale.ROOT), f.criterion(o.criterion()), "",
+                    Double.NaN, Double.NaN, "lower is better");
+            Double w = o.weights().get(f.model());
+            Tables.add(t, source, "Akaike weight", w == null ? Double.NaN : w, "", Double.NaN, Double.NaN, "");
+            Tables.add(t, source, "RMSE", f.rmse(), "", Double.NaN, Double.NaN, "unweighted, signal units");
+        }
+        return t;
+    }
+
+    /** Measured, fitted and residual as one stack on one display range. */
+    static ImagePlus stack(Kymograph measured, Kymograph fitted, String title) {
+        double[] m = measured.values();
+        double[] f = fitted.values();
+        double[] r = new double[m.length];
+        double[] all = new double[3 * m.length];
+        for (int i = 0; i < m.length; i++) {
+            r[i] = m[i] - f[i];
+            all[i] = m[i];
+            all[m.length + i] = f[i];
+            all[2 * m.length + i] = r[i];
+        }
+        double[] range = Heatmap.robustRange(all);
+        ImageStack stack = new ImageStack(measured.positionCount(), measured.frameCount());
+        Kymograph[] ks = {measured, fitted, measured.withValues(r, measured.signalUnit())};
+        String[] labels = {"measured", "fitted", "measured - fitted"};
+        for (int i = 0; i < 3; i++) {
+            stack.addSlice(labels[i], (FloatProcessor) KymographImage.toImage(ks[i], labels[i]).getProcessor());
+        }
+        ImagePlus image = new ImagePlus(title, stack);
+        image.setCalibration(KymographImage.calibration(measured));
+        image.getProcessor().setLut(KymographImage.lut(ColourScale.SEQUENTIAL));
+        image.setDisplayRange(range[0], range[1]);
+        return image;
+    }
+
+    /** Profiles at four times after the stimulus (points: data, lines: model) and, below, the residuals. */
+    static Plot profiles(Kymograph m, Kymograph fitted, String model, double stimulusTimeS) {
+        Plot plot = new Plot("Fit of " + model + ": profiles (points: data, lines: model)",
+                "distance along the path (um)", "signal (" + m.signalUnit() + ")");
+        Color[] colours = {new Color(30, 90, 170), new Color(210, 90, 30), new Color(40, 150, 80),
+            new Color(150, 50, 150)};
+        int first = 0;
+        while (first < m.frameCount() - 1 && m.timeS(first) < stimulusTimeS) {
+            first++;
+        }
+        int span = m.frameCount() - 1 - first;
+        StringBuilder legend = new StringBuilder();
+        double[] x = m.distancesUm();
+        for (int i = 0; i < 4; i++) {
+            int f = first + (int) Math.round(span * (i + 1) / 5.0);
+            plot.setColor(colours[i]);
+            plot.add("circle", x, m.row(f));
+            plot.add("line", x, fitted.row(f));
+            String when = String.format(Locale.ROOT, "t = %.3g s", m.timeS(f));
+            legend.append(when).append(" data\n").append(when).append(" model\n");
+        }
+        plot.setColor(Color.BLACK);
+        plot.addLegend(legend.toString().trim());
+        plot.setFrameSize(520, 300);
+        return plot;
+    }
+}
