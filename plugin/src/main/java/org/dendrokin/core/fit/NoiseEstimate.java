@@ -9,7 +9,9 @@ import org.dendrokin.core.preprocess.Robust;
 
 /**
  * Noise standard deviation of each kymograph position, for the fit's weights 1 / sigma^2. From the baseline
- * frames when there are at least 3: the sample standard deviation of each position's baseline values.
+ * frames when there are at least 3: the sample standard deviation of each position's baseline values, with its
+ * variance shrunk towards the median over positions (weighted as 30 frames) so that few baseline frames do not
+ * give noisy weights.
  * Positions with fewer than 3 finite baseline values, or a value below a quarter of the median over positions
  * (which would give one position an outsized weight), take max(own, median / 4) or the median. Without enough
  * baseline frames, one level for all positions from the frame-to-frame differences: 1.4826 MAD(y_f+1 - y_f)
@@ -17,6 +19,9 @@ import org.dendrokin.core.preprocess.Robust;
  * frame [common practice].
  */
 public final class NoiseEstimate {
+    /** Weight of the pooled (median) noise level, in frames, when each position's own level is shrunk towards it. */
+    static final int PRIOR_FRAMES = 30;
+
     private NoiseEstimate() {
     }
 
@@ -72,8 +77,17 @@ public final class NoiseEstimate {
             Arrays.fill(sd, global);
             return sd;
         }
+        // Shrink each position's variance towards the median: with few baseline frames a position's own SD is
+        // itself noisy (about 1 / sqrt(2 (n - 1)) relative), and weights that follow that noise make the fit's
+        // intervals too narrow. The pooled level counts as PRIOR_FRAMES frames of evidence.
+        int n = last - first + 1;
         for (int p = 0; p < nx; p++) {
-            sd[p] = Double.isFinite(sd[p]) ? Math.max(sd[p], median / 4) : median;
+            if (Double.isFinite(sd[p])) {
+                double v = ((n - 1) * sd[p] * sd[p] + PRIOR_FRAMES * median * median) / (n - 1 + PRIOR_FRAMES);
+                sd[p] = Math.max(Math.sqrt(v), median / 4);
+            } else {
+                sd[p] = median;
+            }
         }
         return sd;
     }
