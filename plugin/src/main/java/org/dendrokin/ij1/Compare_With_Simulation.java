@@ -22,7 +22,6 @@ import org.dendrokin.io.KymographCsv;
 import org.dendrokin.io.compare.ModelComparison;
 import org.dendrokin.io.compare.ModelComparison.Comparison;
 import org.dendrokin.io.plot.ColourScale;
-import org.dendrokin.io.plot.Heatmap;
 
 /**
  * Plugins > Dendrokin > Compare with Simulation: puts a model with the user's own parameters (no fitting)
@@ -77,7 +76,7 @@ public class Compare_With_Simulation implements PlugIn {
     /** Measured, simulated and residual as one three-slice stack with one display range. */
     static ImagePlus stack(Comparison c, String title) {
         double[] all = concat(c.measured().values(), c.simulated().values(), c.residual().values());
-        double[] range = Heatmap.robustRange(all);
+        double[] range = KymographImage.displayRange(all);
         ImageStack stack = new ImageStack(c.measured().positionCount(), c.measured().frameCount());
         String[] labels = {"measured", "simulated", "measured - simulated"};
         Kymograph[] ks = {c.measured(), c.simulated(), c.residual()};

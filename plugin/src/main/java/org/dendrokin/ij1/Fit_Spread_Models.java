@@ -21,7 +21,6 @@ import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.io.KymographCsv;
 import org.dendrokin.io.plot.ColourScale;
-import org.dendrokin.io.plot.Heatmap;
 
 /**
  * Plugins > Dendrokin > Fit Spread Models: fits reaction-diffusion models to the current kymograph (dF/F0 or
@@ -151,7 +150,7 @@ public class Fit_Spread_Models implements PlugIn {
             all[m.length + i] = f[i];
             all[2 * m.length + i] = r[i];
         }
-        double[] range = Heatmap.robustRange(all);
+        double[] range = KymographImage.displayRange(all);
         ImageStack stack = new ImageStack(measured.positionCount(), measured.frameCount());
         Kymograph[] ks = {measured, fitted, measured.withValues(r, measured.signalUnit())};
         String[] labels = {"measured", "fitted", "measured - fitted"};

@@ -26,7 +26,25 @@ public final class KymographImage {
 
     /** The kymograph as a calibrated 32-bit image with our sequential colour table and a robust range. */
     public static ImagePlus toImage(Kymograph k, String title) {
-        return toImage(k, title, ColourScale.SEQUENTIAL, Heatmap.robustRange(k.values()));
+        return toImage(k, title, ColourScale.SEQUENTIAL, displayRange(k.values()));
+    }
+
+    /**
+     * A display range for the screen: the 0.5th to 99.8th percentile of the finite values (Commons Math's
+     * estimate), so that a few bright pixels at the stimulus do not leave the rest of the kymograph dark.
+     * The data are not changed; Image > Adjust > Brightness/Contrast shows them all.
+     */
+    static double[] displayRange(double[] values) {
+        double[] finite = java.util.Arrays.stream(values).filter(Double::isFinite).toArray();
+        if (finite.length == 0) {
+            return new double[] {0, 1};
+        }
+        org.apache.commons.math3.stat.descriptive.rank.Percentile p =
+                new org.apache.commons.math3.stat.descriptive.rank.Percentile();
+        p.setData(finite);
+        double lo = p.evaluate(0.5);
+        double hi = p.evaluate(99.8);
+        return hi > lo ? new double[] {lo, hi} : Heatmap.robustRange(values);
     }
 
     /** The kymograph as an image with the given colour table and display range {@code {lo, hi}}. */
