@@ -23,7 +23,7 @@ public final class Heatmap {
         this.hi = hi;
     }
 
-    /** A heat map whose colour range runs from the 0.5th percentile of the finite values to their maximum. */
+    /** A heat map whose colour range runs from the 0.5th to the 99.5th percentile of the finite values. */
     public static Heatmap of(Kymograph k, String title) {
         double[] range = robustRange(k.values());
         return new Heatmap(title, ColourScale.SEQUENTIAL, range[0], range[1]);
@@ -35,8 +35,9 @@ public final class Heatmap {
     }
 
     /**
-     * The 0.5th percentile and the maximum of the finite values ({0, 1} if there are none). The low end ignores a
-     * few dark outliers; the top is the true maximum, so a concentrated peak is never drawn at a clipped colour.
+     * The 0.5th and 99.5th percentiles of the finite values ({0, 1} if there are none). A focal response is
+     * brief and small, so a scale up to the maximum would leave the spread itself in the darkest colours; the
+     * few brighter values are drawn at the top colour, and the picture prints the true maximum beside the bar.
      */
     public static double[] robustRange(double[] values) {
         double[] finite = java.util.Arrays.stream(values).filter(Double::isFinite).sorted().toArray();
@@ -44,11 +45,24 @@ public final class Heatmap {
             return new double[] {0, 1};
         }
         double lo = finite[(int) Math.floor(0.005 * (finite.length - 1))];
-        double hi = finite[finite.length - 1];
+        double hi = finite[(int) Math.ceil(0.995 * (finite.length - 1))];
         if (!(hi > lo)) {
             hi = lo + 1;
         }
         return new double[] {lo, hi};
+    }
+
+    /** The smallest and largest finite value (NaN, NaN if there are none). */
+    private static double[] extremes(double[] values) {
+        double min = Double.NaN;
+        double max = Double.NaN;
+        for (double v : values) {
+            if (Double.isFinite(v)) {
+                min = Double.isNaN(min) ? v : Math.min(min, v);
+                max = Double.isNaN(max) ? v : Math.max(max, v);
+            }
+        }
+        return new double[] {min, max};
     }
 
     public BufferedImage render(Kymograph k) {
@@ -87,6 +101,15 @@ public final class Heatmap {
         g.setFont(Axes.TITLE);
         g.drawString(title, left, top - 14);
         colourBar(g, left + plotW + 25, top, 18, plotH, k.signalUnit());
+        double[] extremes = extremes(k.values());
+        g.setFont(Axes.TICK);
+        g.setColor(Color.BLACK);
+        if (extremes[1] > hi + 1e-9 * Math.abs(hi)) {
+            g.drawString("max " + Axes.format(extremes[1]), left + plotW + 20, top - 6);
+        }
+        if (extremes[0] < lo - 1e-9 * Math.abs(lo)) {
+            g.drawString("min " + Axes.format(extremes[0]), left + plotW + 20, top + plotH + 40);
+        }
         g.dispose();
         return image;
     }
