@@ -6,7 +6,12 @@ import java.io.PrintWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
 import java.util.concurrent.Callable;
+
+import com.google.gson.JsonElement;
+import com.google.gson.JsonObject;
 
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.io.AtomicFiles;
@@ -27,6 +32,9 @@ import picocli.CommandLine.Model.CommandSpec;
 @Command(name = "demo", mixinStandardHelpOptions = true,
         description = "Analyse the demo session shipped with Dendrokin and print where the report is.")
 final class DemoCommand implements Callable<Integer> {
+    /** Fitted quantities the terminal summary shows; the report and results.json hold all of them. */
+    private static final Set<String> HEADLINE = Set.of("D", "k", "a", "r", "front_speed", "front_width");
+
     static final String DEMO_DIR = "test-images/demo-session";
     static final String DEMO_RESOURCE = "/org/dendrokin/demo-session/";
     static final String[] DEMO_FILES = {"session.json", "dendrite.tif", "dendrite.roi"};
@@ -71,10 +79,41 @@ final class DemoCommand implements Callable<Integer> {
         b.append(line("length constant", r.spread() == null ? null : r.spread().lengthConstant()));
         b.append(line("decay time", r.spread() == null ? null : r.spread().decayTime()));
         b.append(line("apparent D", r.spread() == null ? null : r.spread().apparentD()));
+        b.append(bestFit(r));
         if (!r.warnings().isEmpty()) {
             b.append(String.format(Locale.ROOT, "  %d warning(s); see the report.%n", r.warnings().size()));
         }
         b.append("Report: ").append(r.report().toAbsolutePath().normalize());
+        return b.toString();
+    }
+
+    /** The preferred model and its rate and diffusion constants, as results.json holds them. */
+    private static String bestFit(SessionRunner.Result r) {
+        if (r.bestModel() == null) {
+            return r.fits().isEmpty() ? "" : "  best model       none: no model fit converged\n";
+        }
+        StringBuilder b = new StringBuilder(String.format(Locale.ROOT, "  best model       %s%n", r.bestModel()));
+        for (JsonObject fit : r.fits()) {
+            if (!r.bestModel().equals(fit.get("model").getAsString()) || !fit.has("parameters")) {
+                continue;
+            }
+            for (Map.Entry<String, JsonElement> p : fit.getAsJsonObject("parameters").entrySet()) {
+                if (!HEADLINE.contains(p.getKey()) || !p.getValue().isJsonObject()) {
+                    continue;
+                }
+                JsonObject q = p.getValue().getAsJsonObject();
+                JsonElement ci = q.get("ci95");
+                String interval = ci != null && ci.isJsonArray() && ci.getAsJsonArray().size() == 2
+                        && !ci.getAsJsonArray().get(0).isJsonNull() && !ci.getAsJsonArray().get(1).isJsonNull()
+                        ? String.format(Locale.ROOT, " (95%% interval %s to %s)",
+                                ReportHtml.number(ci.getAsJsonArray().get(0).getAsDouble()),
+                                ReportHtml.number(ci.getAsJsonArray().get(1).getAsDouble()))
+                        : " (interval not determined by these data)";
+                b.append(String.format(Locale.ROOT, "    %-14s %s %s%s%n", p.getKey(),
+                        ReportHtml.number(q.get("value").getAsDouble()),
+                        q.has("unit") ? q.get("unit").getAsString() : "", interval));
+            }
+        }
         return b.toString();
     }
 

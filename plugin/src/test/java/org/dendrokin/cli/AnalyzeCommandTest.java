@@ -121,6 +121,17 @@ class AnalyzeCommandTest {
         Run r = run("demo", "--out", out.toString());
         assertEquals(Main.OK, r.status(), r.err());
         assertTrue(r.out().contains("Report: "), r.out());
+        // The terminal names the preferred model as results.json does, with its constants and units.
+        JsonObject json;
+        try {
+            json = JsonParser.parseString(Files.readString(out.resolve("results.json"))).getAsJsonObject();
+        } catch (IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+        assertTrue(json.get("best_model").isJsonPrimitive(), "the demo has a preferred model");
+        String best = json.get("best_model").getAsString();
+        assertTrue(r.out().contains("best model       " + best), r.out());
+        assertTrue(r.out().contains("um^2/s") && r.out().contains("1/s"), r.out());
         assertTrue(Files.isRegularFile(out.resolve("report.html")));
         assertTrue(Files.isRegularFile(out.resolve("demo-session/session.json")), "inputs unpacked inside --out");
     }
