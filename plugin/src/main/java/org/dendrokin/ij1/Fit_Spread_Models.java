@@ -118,16 +118,16 @@ public class Fit_Spread_Models implements PlugIn {
             List<ParameterEstimate> all = new ArrayList<>(f.parameters());
             all.addAll(f.derived());
             for (ParameterEstimate p : all) {
-                String note = p.ci95() == null ? "no interval" : p.ci95().method();
-                if (!p.identifiable()) {
-                    note += "; not identifiable from these data";
-                }
+                // An interval of a quantity the data cannot fix would look precise and mean nothing: leave it empty.
+                boolean shown = p.ci95() != null && p.identifiable();
+                String note = p.identifiable()
+                        ? (p.ci95() == null ? "no interval" : p.ci95().method())
+                        : "not identifiable from these data: no interval; see the Log";
                 if (p.atBound()) {
                     note += "; at its bound";
                 }
                 Tables.add(t, source, p.name(), p.value(), p.unit().symbol(),
-                        p.ci95() == null ? Double.NaN : p.ci95().lower(),
-                        p.ci95() == null ? Double.NaN : p.ci95().upper(), note);
+                        shown ? p.ci95().lower() : Double.NaN, shown ? p.ci95().upper() : Double.NaN, note);
             }
             Tables.add(t, source, o.criterion().toUpperCase(Locale.ROOT), f.criterion(o.criterion()), "",
                     Double.NaN, Double.NaN, "lower is better");
