@@ -6,13 +6,13 @@
 #   plugin/src/test/gui/run-window-tests.sh [OUT_DIR] [SHOT ...]
 # OUT_DIR defaults to plugin/target/gui-shots. Shots whose name ends in -dialog leave a dialog open on
 # purpose; the harness then reports "blocked", which is what they test. Needs ij-window-snapshot.sh
-# (set IJ_WINDOW_SNAPSHOT to its path if it is not at /work/shared/tools/).
+# (set IJ_WINDOW_SNAPSHOT to its path if it is not in shared/tools/ beside the repository).
 set -u
 here="$(cd "$(dirname "$0")" && pwd)"
 repo="$(cd "$here/../../../.." && pwd)"
 out="${1:-$repo/plugin/target/gui-shots}"
 shift || true
-snap="${IJ_WINDOW_SNAPSHOT:-/work/shared/tools/ij-window-snapshot.sh}"
+snap="${IJ_WINDOW_SNAPSHOT:-$repo/../shared/tools/ij-window-snapshot.sh}"
 jar="$repo/plugin/target/Dendrokin_-0.1.0-SNAPSHOT.jar"
 deps="$repo/plugin/target/plugin-deps"
 ij="${IJ_JAR:-$HOME/.m2/repository/net/imagej/ij/1.54p/ij-1.54p.jar}"
