@@ -34,8 +34,7 @@ public final class NetworkRun {
     private final double minWidthUm;
     private final int frames;
     private final int positions;
-    private final int[] sampleIndex;
-    private final double[] sampleWeight;
+    private final OutputSampler sampler;
     private final SolverSettings settings;
     private final double[] d;
 
@@ -75,19 +74,7 @@ public final class NetworkRun {
         this.timeline = new Timeline(outputTimesS, this.stimuli, false);
         this.frames = outputTimesS.length;
         this.positions = outputPositionsUm.length;
-        Checks.require(positions > 0, "at least one output position is needed");
-        sampleIndex = new int[positions];
-        sampleWeight = new double[positions];
-        double length = domain.lengthUm();
-        for (int p = 0; p < positions; p++) {
-            double x = outputPositionsUm[p];
-            Checks.require(x >= -1e-9 * length && x <= length * (1 + 1e-9),
-                    "output position " + x + " um lies outside the domain [0, " + length + "] um");
-            double s = Math.min(Math.max(x / grid.h, 0), n - 1);
-            int i = Math.min((int) Math.floor(s), n - 2);
-            sampleIndex[p] = i;
-            sampleWeight[p] = s - i;
-        }
+        sampler = new OutputSampler(outputPositionsUm, domain.lengthUm(), grid.h, n);
         int count = this.stimuli.size();
         stimulusSpecies = new int[count];
         profile = new double[count][];
@@ -262,7 +249,7 @@ public final class NetworkRun {
                 int frame = tl.outputFrame[o];
                 for (int s = 0; s < m; s++) {
                     if (out[s] != null) {
-                        sample(c[s], out[s], frame);
+                        sampler.sample(c[s], out[s], frame);
                     }
                 }
             }
@@ -299,7 +286,7 @@ public final class NetworkRun {
                     int frame = tl.interiorFrame[interior];
                     for (int s = 0; s < m; s++) {
                         if (out[s] != null) {
-                            blend(cPrev[s], c[s], w, out[s], frame);
+                            sampler.blend(cPrev[s], c[s], w, out[s], frame);
                         }
                     }
                     interior++;
@@ -309,27 +296,6 @@ public final class NetworkRun {
             steps += count;
         }
         lastStepCount = steps;
-    }
-
-    private void sample(double[] field, double[] target, int frame) {
-        int base = frame * positions;
-        for (int q = 0; q < positions; q++) {
-            int i = sampleIndex[q];
-            double wt = sampleWeight[q];
-            target[base + q] = field[i] + wt * (field[i + 1] - field[i]);
-        }
-    }
-
-    private void blend(double[] before, double[] after, double w, double[] target, int frame) {
-        int base = frame * positions;
-        double v = 1 - w;
-        for (int q = 0; q < positions; q++) {
-            int i = sampleIndex[q];
-            double x = sampleWeight[q];
-            double a = before[i] + x * (before[i + 1] - before[i]);
-            double b = after[i] + x * (after[i + 1] - after[i]);
-            target[base + q] = v * a + w * b;
-        }
     }
 
     private void applyClamps() {

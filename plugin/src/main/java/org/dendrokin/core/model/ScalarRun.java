@@ -61,8 +61,7 @@ public final class ScalarRun {
     private final double minWidthUm;
     private final int frames;
     private final int positions;
-    private final int[] sampleIndex;
-    private final double[] sampleWeight;
+    private final OutputSampler sampler;
     private final SolverSettings settings;
 
     // work arrays, reused by every solve
@@ -98,19 +97,7 @@ public final class ScalarRun {
         this.timeline = new Timeline(outputTimesS, this.stimuli, false);
         this.frames = outputTimesS.length;
         this.positions = outputPositionsUm.length;
-        Checks.require(positions > 0, "at least one output position is needed");
-        sampleIndex = new int[positions];
-        sampleWeight = new double[positions];
-        double length = domain.lengthUm();
-        for (int p = 0; p < positions; p++) {
-            double x = outputPositionsUm[p];
-            Checks.require(x >= -1e-9 * length && x <= length * (1 + 1e-9),
-                    "output position " + x + " um lies outside the domain [0, " + length + "] um");
-            double s = Math.min(Math.max(x / grid.h, 0), n - 1);
-            int i = Math.min((int) Math.floor(s), n - 2);
-            sampleIndex[p] = i;
-            sampleWeight[p] = s - i;
-        }
+        sampler = new OutputSampler(outputPositionsUm, domain.lengthUm(), grid.h, n);
         int count = this.stimuli.size();
         profile = new double[count][];
         clampMask = new boolean[count][];
@@ -358,10 +345,10 @@ public final class ScalarRun {
             }
             for (int o = tl.outputStart[j]; o < tl.outputStart[j + 1]; o++) {
                 int frame = tl.outputFrame[o];
-                sample(u, out, frame);
+                sampler.sample(u, out, frame);
                 if (withSens) {
                     for (int q = 0; q < sens.length; q++) {
-                        sample(sens[q], sensOut[q], frame);
+                        sampler.sample(sens[q], sensOut[q], frame);
                     }
                 }
             }
@@ -401,10 +388,10 @@ public final class ScalarRun {
                     // outputs between steps: linear in time, second order like the scheme
                     double w = (tl.interiorTimeS[interior] - t) / (tNext - t);
                     int frame = tl.interiorFrame[interior];
-                    blend(uPrev, u, w, out, frame);
+                    sampler.blend(uPrev, u, w, out, frame);
                     if (withSens) {
                         for (int q = 0; q < sens.length; q++) {
-                            blend(sensPrev[q], sens[q], w, sensOut[q], frame);
+                            sampler.blend(sensPrev[q], sens[q], w, sensOut[q], frame);
                         }
                     }
                     interior++;
@@ -414,27 +401,6 @@ public final class ScalarRun {
             steps += count;
         }
         lastStepCount = steps;
-    }
-
-    private void sample(double[] field, double[] target, int frame) {
-        int base = frame * positions;
-        for (int q = 0; q < positions; q++) {
-            int i = sampleIndex[q];
-            double w = sampleWeight[q];
-            target[base + q] = field[i] + w * (field[i + 1] - field[i]);
-        }
-    }
-
-    private void blend(double[] before, double[] after, double w, double[] target, int frame) {
-        int base = frame * positions;
-        double v = 1 - w;
-        for (int q = 0; q < positions; q++) {
-            int i = sampleIndex[q];
-            double x = sampleWeight[q];
-            double a = before[i] + x * (before[i + 1] - before[i]);
-            double b = after[i] + x * (after[i + 1] - after[i]);
-            target[base + q] = v * a + w * b;
-        }
     }
 
     private void applyClamps(boolean withSens) {

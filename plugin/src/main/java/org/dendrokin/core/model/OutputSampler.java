@@ -1,0 +1,65 @@
+package org.dendrokin.core.model;
+
+import org.dendrokin.core.Checks;
+
+/**
+ * Samples a field on the grid's nodes at the kymograph's output positions, by linear interpolation between the
+ * two nearest nodes, and blends two time levels for frames that fall between steps. Shared by the scalar and
+ * network runs; allocation-free after construction.
+ */
+final class OutputSampler {
+    private final int[] index;
+    private final double[] weight;
+
+    /**
+     * @param outputPositionsUm positions along the cable, um, within [0, lengthUm] (a relative 1e-9 tolerance)
+     * @param lengthUm          length of the cable, um
+     * @param nodeSpacingUm     spacing of the grid's nodes, um
+     * @param nodes             number of nodes, at least 2
+     */
+    OutputSampler(double[] outputPositionsUm, double lengthUm, double nodeSpacingUm, int nodes) {
+        int positions = outputPositionsUm.length;
+        Checks.require(positions > 0, "at least one output position is needed");
+        index = new int[positions];
+        weight = new double[positions];
+        for (int p = 0; p < positions; p++) {
+            double x = outputPositionsUm[p];
+            Checks.require(x >= -1e-9 * lengthUm && x <= lengthUm * (1 + 1e-9),
+                    "output position " + x + " um lies outside the domain [0, " + lengthUm + "] um");
+            double s = Math.min(Math.max(x / nodeSpacingUm, 0), nodes - 1);
+            int i = Math.min((int) Math.floor(s), nodes - 2);
+            index[p] = i;
+            weight[p] = s - i;
+        }
+    }
+
+    /** Number of output positions. */
+    int positions() {
+        return index.length;
+    }
+
+    /** Writes the field at the output positions into row {@code frame} of {@code target}. */
+    void sample(double[] field, double[] target, int frame) {
+        int base = frame * index.length;
+        for (int q = 0; q < index.length; q++) {
+            int i = index[q];
+            target[base + q] = field[i] + weight[q] * (field[i + 1] - field[i]);
+        }
+    }
+
+    /**
+     * Writes {@code (1 - w) before + w after} at the output positions into row {@code frame} of {@code target}:
+     * linear in time between two steps, second order like the scheme.
+     */
+    void blend(double[] before, double[] after, double w, double[] target, int frame) {
+        int base = frame * index.length;
+        double v = 1 - w;
+        for (int q = 0; q < index.length; q++) {
+            int i = index[q];
+            double x = weight[q];
+            double a = before[i] + x * (before[i + 1] - before[i]);
+            double b = after[i] + x * (after[i + 1] - after[i]);
+            target[base + q] = v * a + w * b;
+        }
+    }
+}
