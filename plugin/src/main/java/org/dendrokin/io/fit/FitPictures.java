@@ -92,7 +92,7 @@ public final class FitPictures {
             f = Math.min(nt - 1, Math.max(first, f));
             String t = String.format(Locale.ROOT, "%.3g s", measured.timeS(f));
             profiles.points("measured " + t, measured.distancesUm(), measured.row(f));
-            profiles.line("model " + t, model.distancesUm(), model.row(f));
+            profiles.lineMatchingPrevious("model " + t, model.distancesUm(), model.row(f));
             shown++;
         }
         if (shown > 0) {

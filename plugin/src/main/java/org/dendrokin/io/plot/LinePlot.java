@@ -44,6 +44,16 @@ public final class LinePlot {
         return this;
     }
 
+    /**
+     * Adds a line in the colour of the series added just before it, so that data and the model drawn over
+     * them (e.g. a profile at one time) read as a pair.
+     */
+    public LinePlot lineMatchingPrevious(String label, double[] x, double[] y) {
+        Color colour = series.isEmpty() ? nextColour() : series.get(series.size() - 1).colour;
+        series.add(new Series(label, x.clone(), y.clone(), false, colour));
+        return this;
+    }
+
     /** Adds a shaded band between lower and upper, e.g. a confidence band. */
     public LinePlot band(String label, double[] x, double[] lower, double[] upper) {
         bands.add(new Band(label, x.clone(), lower.clone(), upper.clone()));
@@ -60,8 +70,10 @@ public final class LinePlot {
         return this;
     }
 
+    /** The next palette colour not yet used, cycling when all are taken. */
     private Color nextColour() {
-        return PALETTE[series.size() % PALETTE.length];
+        long distinct = series.stream().map(Series::colour).distinct().count();
+        return PALETTE[(int) (distinct % PALETTE.length)];
     }
 
     public BufferedImage render(int width, int height) {
