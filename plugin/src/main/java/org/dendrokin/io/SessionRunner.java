@@ -172,7 +172,7 @@ public final class SessionRunner {
             warnings.addAll(spread.warnings());
         }
         List<JsonObject> fits = new ArrayList<>();
-        SessionFits sessionFits = SessionFits.run(config.models(), signal, pre.stimulus().known(),
+        SessionFits sessionFits = SessionFits.run(config.models(), config.fit(), signal, pre.stimulus().known(),
                 pre.stimulus().timeS(), pre.stimulus().positionUm(), pre.baselineFirst(), pre.baselineLast(), warnings,
                 progress);
         fits.addAll(sessionFits.json());

@@ -73,6 +73,11 @@ public record Stimulus(double timeS, double positionUm, double widthUm, double a
         return new Stimulus(timeS, positionUm, widthUm, amount, kind, durationS, speciesName);
     }
 
+    /** The same stimulus moved along the cable by {@code deltaUm}. */
+    public Stimulus shiftedBy(double deltaUm) {
+        return new Stimulus(timeS, positionUm + deltaUm, widthUm, amount, kind, durationS, species);
+    }
+
     /** Time the stimulus stops acting, s. */
     public double endS() {
         return timeS + durationS;

@@ -1,20 +1,24 @@
 package org.dendrokin.io.compare;
 
+import java.util.ArrayList;
 import java.util.List;
 
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.Progress;
+import org.dendrokin.core.fit.NoiseEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.Boundary;
 import org.dendrokin.core.model.Domain;
 import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.core.model.Stimulus;
+import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.core.spread.SpreadAnalysis;
 
 /**
  * A built-in model with the user's own parameters (no fitting) run on the grid of a measured kymograph and
- * set beside it: the simulated kymograph, the residual, its root mean square, and the same model-free spread
- * measures on both. Shared by the ImageJ commands and the SciJava commands so that they cannot differ.
+ * set beside it: the simulated kymograph, the residual, its norm and root mean square, and the same model-free
+ * spread measures on both. The one place this is computed: the ImageJ commands, the SciJava commands and the
+ * command line's {@code compare} (through {@code io.fit.ModelComparisonRun}) all call it, so they cannot differ.
  */
 public final class ModelComparison {
     private ModelComparison() {
@@ -56,39 +60,96 @@ public final class ModelComparison {
         }
     }
 
-    /** What a comparison produced. */
+    /**
+     * A model with given parameters, in the kymograph's own coordinates: what both the ImageJ commands and the
+     * command line's {@code compare} set beside a measured kymograph. The predicted signal is
+     * {@code baseline + amplitude * u}.
+     *
+     * @param model      "diffusion-decay", "nagumo" or "fisher-kpp"
+     * @param parameters the model's parameters in {@link ScalarRun#parameterNames()} order
+     * @param stimuli    the protocol; positions in um along the path (the kymograph's distances)
+     * @param amplitude  signal per unit of u
+     * @param baseline   signal at rest, signal unit
+     * @param boundary   what happens at both ends of the path
+     * @param gridUm     spacing of the simulation grid, um, or NaN for the kymograph's own spacing
+     */
+    public record GivenModel(String model, double[] parameters, List<Stimulus> stimuli, double amplitude,
+            double baseline, Boundary boundary, double gridUm) {
+        public GivenModel {
+            Checks.require(ScalarRun.MODELS.contains(model), "model " + model + " is not one of " + ScalarRun.MODELS);
+            Checks.require(!stimuli.isEmpty(), "give at least one stimulus");
+            Checks.finite(amplitude, "amplitude");
+            Checks.finite(baseline, "baseline");
+            Checks.require(Double.isNaN(gridUm) || gridUm > 0 && Double.isFinite(gridUm),
+                    "the grid spacing must be a positive number of um");
+            parameters = parameters.clone();
+            stimuli = List.copyOf(stimuli);
+        }
+
+        @Override
+        public double[] parameters() {
+            return parameters.clone();
+        }
+    }
+
+    /** What a comparison produced; {@code noiseSd} is the baseline noise used to read the spread measures. */
     public record Comparison(Kymograph measured, Kymograph simulated, Kymograph residual, double rmse,
-            SpreadAnalysis.Result measuredSpread, SpreadAnalysis.Result simulatedSpread) {
+            double residualNorm, SpreadAnalysis.Result measuredSpread, SpreadAnalysis.Result simulatedSpread,
+            double noiseSd) {
+    }
+
+    /** As {@link #simulateOn(Kymograph, GivenModel, Progress)} for the commands' one-pulse settings. */
+    public static Kymograph simulateOn(Kymograph grid, Settings s, Progress progress) {
+        return simulateOn(grid, given(s), progress);
     }
 
     /**
-     * Simulates the model on the grid of {@code grid}: the cable runs from 0 to the last distance (no-flux or
-     * fixed ends as set), sampled at each of the grid's distances and frame times.
+     * Simulates the model on the grid of {@code grid}: the cable runs from the first to the last distance
+     * (no-flux or fixed ends as set), sampled at each of the grid's distances and frame times.
      *
      * @return the simulated kymograph, in the grid's signal unit
+     * @throws IllegalArgumentException for parameters or stimuli the engine cannot run (the message says which)
      */
-    public static Kymograph simulateOn(Kymograph grid, Settings s, Progress progress) {
+    public static Kymograph simulateOn(Kymograph grid, GivenModel g, Progress progress) {
         double[] d = grid.distancesUm();
         double[] t = grid.timesS();
-        double length = d[d.length - 1];
-        Checks.require(d[0] >= 0 && length > 0, "the kymograph's distances must run from 0 or more to a positive"
-                + " length");
-        Domain domain = new Domain(length, Math.min(s.gridUm(), length / 2), s.boundary());
+        double x0 = d[0];
+        double length = d[d.length - 1] - x0;
+        Checks.require(length > 0, "the kymograph must have at least two distinct distances");
+        for (int i = 0; i < d.length; i++) {
+            d[i] -= x0;
+        }
         for (int i = 0; i < t.length; i++) {
             t[i] = Math.max(0, t[i]);
         }
-        progress.report("simulating " + s.model(), 0, 1);
-        ScalarRun run = ScalarRun.prepare(s.model(), domain, t, d,
-                List.of(Stimulus.pulse(s.stimulusTimeS(), s.stimulusUm(), s.widthUm(), s.amount())));
+        double dx = Double.isNaN(g.gridUm()) ? Math.min(grid.distanceStepUm(), length / 4) : g.gridUm();
+        Domain domain = new Domain(length, Math.min(dx, length / 2), g.boundary());
+        List<Stimulus> shifted = new ArrayList<>();
+        for (Stimulus s : g.stimuli()) {
+            shifted.add(s.shiftedBy(-x0));
+        }
+        progress.report("simulating " + g.model(), 0, 1);
+        ScalarRun run = ScalarRun.prepare(g.model(), domain, t, d, shifted);
         double[] out = new double[d.length * t.length];
-        run.solve(s.parameters(), out);
-        progress.report("simulating " + s.model(), 1, 1);
+        run.solve(g.parameters(), out);
+        for (int i = 0; i < out.length; i++) {
+            out[i] = g.baseline() + g.amplitude() * out[i];
+        }
+        progress.report("simulating " + g.model(), 1, 1);
         return new Kymograph(grid.distancesUm(), grid.timesS(), out, grid.signalUnit());
     }
 
-    /** Simulates on the measured grid, takes the residual and measures both the same way. */
+    /** As {@link #compare(Kymograph, GivenModel, Progress)} for the commands' one-pulse settings. */
     public static Comparison compare(Kymograph measured, Settings s, Progress progress) {
-        Kymograph simulated = simulateOn(measured, s, progress);
+        return compare(measured, given(s), progress);
+    }
+
+    /**
+     * Simulates on the measured grid, takes the residual (measured - simulated) and reads the same model-free
+     * spread measures off both, relative to the model's baseline and timed from its first stimulus.
+     */
+    public static Comparison compare(Kymograph measured, GivenModel g, Progress progress) {
+        Kymograph simulated = simulateOn(measured, g, progress);
         double[] m = measured.values();
         double[] sim = simulated.values();
         double[] r = new double[m.length];
@@ -102,16 +163,31 @@ public final class ModelComparison {
             }
         }
         Kymograph residual = measured.withValues(r, measured.signalUnit());
-        double noise = baselineSd(measured, s.stimulusTimeS());
-        SpreadAnalysis.Result ms = measure(measured, s, noise);
-        SpreadAnalysis.Result ss = measure(simulated, s, noise);
-        return new Comparison(measured, simulated, residual, n > 0 ? Math.sqrt(sum / n) : Double.NaN, ms, ss);
+        Stimulus first = g.stimuli().get(0);
+        double noise = baselineNoise(measured, first.timeS());
+        SpreadAnalysis.Result ms = measure(shift(measured, -g.baseline()), first, noise);
+        SpreadAnalysis.Result ss = measure(shift(simulated, -g.baseline()), first, noise);
+        return new Comparison(measured, simulated, residual, n > 0 ? Math.sqrt(sum / n) : Double.NaN,
+                Math.sqrt(sum), ms, ss, noise);
+    }
+
+    /** The parameter names of a built-in scalar model, in the order its parameters are given. */
+    public static List<String> parameterNames(String model) {
+        return ScalarRun.prepare(model, new Domain(1, 0.5, Boundary.NO_FLUX), new double[] {0}, new double[] {0},
+                List.of()).parameterNames();
+    }
+
+    /** The commands' settings as a given model: one pulse, amplitude 1, baseline 0. */
+    static GivenModel given(Settings s) {
+        return new GivenModel(s.model(), s.parameters(),
+                List.of(Stimulus.pulse(s.stimulusTimeS(), s.stimulusUm(), s.widthUm(), s.amount())), 1, 0,
+                s.boundary(), s.gridUm());
     }
 
     /** The spread measures, or an empty result whose warning says why they could not be made. */
-    static SpreadAnalysis.Result measure(Kymograph k, Settings s, double noise) {
+    static SpreadAnalysis.Result measure(Kymograph k, Stimulus first, double noise) {
         try {
-            return SpreadAnalysis.measure(k, s.stimulusTimeS(), s.stimulusUm(), noise);
+            return SpreadAnalysis.measure(k, first.timeS(), first.positionUm(), noise);
         } catch (IllegalArgumentException e) {
             double[] none = new double[0];
             return new SpreadAnalysis.Result(null, null, null, null, none, none, none, none, none, none, none, none,
@@ -119,20 +195,26 @@ public final class ModelComparison {
         }
     }
 
-    /** Sample standard deviation of the finite values before the stimulus (NaN if fewer than two). */
-    public static double baselineSd(Kymograph k, double stimulusTimeS) {
-        double sum = 0;
-        double sum2 = 0;
-        int n = 0;
-        for (int f = 0; f < k.frameCount() && k.timeS(f) < stimulusTimeS; f++) {
-            for (double v : k.row(f)) {
-                if (Double.isFinite(v)) {
-                    sum += v;
-                    sum2 += v * v;
-                    n++;
-                }
-            }
+    /**
+     * The measured kymograph's noise level: the median over positions of each position's robust SD in the frames
+     * before the stimulus (NaN when there are none).
+     */
+    public static double baselineNoise(Kymograph k, double stimulusTimeS) {
+        int last = -1;
+        while (last + 1 < k.frameCount() && k.timeS(last + 1) < stimulusTimeS) {
+            last++;
         }
-        return n > 1 ? Math.sqrt(Math.max(0, (sum2 - sum * sum / n) / (n - 1))) : Double.NaN;
+        if (last < 1) {
+            return Double.NaN;
+        }
+        return Robust.median(NoiseEstimate.perPosition(k, 0, last, new ArrayList<>()));
+    }
+
+    private static Kymograph shift(Kymograph k, double by) {
+        double[] v = k.values();
+        for (int i = 0; i < v.length; i++) {
+            v[i] += by;
+        }
+        return k.withValues(v, k.signalUnit());
     }
 }

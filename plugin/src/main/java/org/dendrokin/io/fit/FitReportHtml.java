@@ -70,7 +70,9 @@ public final class FitReportHtml {
         h.append("<p class=\"caution\">Intervals: <i>profile-likelihood</i> (where the fit gets significantly worse "
                 + "as the value is moved, the others refitted; can be asymmetric and is the one to quote), "
                 + "<i>wald-t</i> (estimate plus or minus Student t standard errors on the fitted scale), "
-                + "<i>delta-method</i> (for quantities computed from the parameters). A quantity marked "
+                + "<i>delta-method</i> (for quantities computed from the parameters), <i>parametric-bootstrap</i> "
+                + "(2.5th to 97.5th percentile of refits to simulated data, when session.json asks for replicates; "
+                + "shown in small type under the method). A quantity marked "
                 + "\"no\" under \"Determined by the data\" should not be quoted; the warnings say why.</p>\n");
         return h.toString();
     }
@@ -83,10 +85,20 @@ public final class FitReportHtml {
                 JsonArray a = p.getAsJsonArray("ci95");
                 ci = end(a.get(0), "-infinity") + " to " + end(a.get(1), "infinity");
             }
+            StringBuilder others = new StringBuilder();
+            if (p.has("other_intervals") && p.get("other_intervals").isJsonArray()) {
+                for (JsonElement o : p.getAsJsonArray("other_intervals")) {
+                    JsonObject io = o.getAsJsonObject();
+                    JsonArray a = io.getAsJsonArray("ci95");
+                    others.append("<br><small>").append(esc(str(io, "ci_method"))).append(": ")
+                            .append(end(a.get(0), "-infinity")).append(" to ").append(end(a.get(1), "infinity"))
+                            .append("</small>");
+                }
+            }
             boolean id = !p.has("identifiable") || p.get("identifiable").getAsBoolean();
             h.append("<tr><td>").append(esc(e.getKey())).append("</td><td>").append(num(p.get("value")))
                     .append("</td><td>").append(esc(str(p, "unit"))).append("</td><td>").append(ci)
-                    .append("</td><td>").append(esc(str(p, "ci_method"))).append("</td><td>")
+                    .append("</td><td>").append(esc(str(p, "ci_method"))).append(others).append("</td><td>")
                     .append(id ? "yes" : "<b>no</b>").append("</td></tr>\n");
         }
     }

@@ -8,17 +8,17 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 
+import org.dendrokin.core.Progress;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.Boundary;
-import org.dendrokin.core.model.Domain;
 import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.core.model.Stimulus;
-import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.compare.ModelComparison;
 
 import com.google.gson.Gson;
 import com.google.gson.GsonBuilder;
@@ -73,75 +73,54 @@ public final class ModelComparisonRun {
             throw new InputException(modelJson, "key \"model\": unknown model '" + model + "'; known: "
                     + ScalarRun.MODELS);
         }
-        double x0 = measured.distanceUm(0);
-        double length = measured.distanceUm(measured.positionCount() - 1) - x0;
-        double[] positions = measured.distancesUm();
-        for (int i = 0; i < positions.length; i++) {
-            positions[i] -= x0;
-        }
-        List<Stimulus> stimuli = new ArrayList<>();
         JsonArray st = root.has("stimuli") && root.get("stimuli").isJsonArray() ? root.getAsJsonArray("stimuli")
                 : null;
         if (st == null || st.isEmpty()) {
             throw new InputException(modelJson, "key \"stimuli\": give at least one stimulus, e.g. [{\"time_s\": 5, "
                     + "\"position_um\": 10, \"width_um\": 2, \"amount\": 1}]");
         }
-        double[] values;
-        ScalarRun run;
+        ModelComparison.GivenModel given;
+        ModelComparison.Comparison c;
         try {
+            List<Stimulus> stimuli = new ArrayList<>();
             for (JsonElement e : st) {
                 JsonObject s = e.getAsJsonObject();
-                stimuli.add(Stimulus.pulse(number(s, "time_s", modelJson), number(s, "position_um", modelJson) - x0,
+                stimuli.add(Stimulus.pulse(number(s, "time_s", modelJson), number(s, "position_um", modelJson),
                         number(s, "width_um", modelJson), number(s, "amount", modelJson)));
             }
-            double dx = root.has("dx_um") ? number(root, "dx_um", modelJson)
-                    : Math.min(measured.distanceStepUm(), length / 4);
-            Boundary boundary = root.has("boundary") && string(root, "boundary", modelJson).equals("fixed")
-                    ? Boundary.FIXED : Boundary.NO_FLUX;
-            run = ScalarRun.prepare(model, new Domain(length, dx, boundary), measured.timesS(), positions, stimuli);
+            List<String> names = ModelComparison.parameterNames(model);
             JsonObject p = root.has("parameters") && root.get("parameters").isJsonObject()
                     ? root.getAsJsonObject("parameters") : new JsonObject();
-            double[] theta = new double[run.parameterNames().size()];
+            double[] theta = new double[names.size()];
             for (int i = 0; i < theta.length; i++) {
-                String name = run.parameterNames().get(i);
-                if (!p.has(name)) {
+                if (!p.has(names.get(i))) {
                     throw new InputException(modelJson, "key \"parameters\": the " + model + " model needs "
-                            + run.parameterNames() + ", \"" + name + "\" is missing");
+                            + names + ", \"" + names.get(i) + "\" is missing");
                 }
-                theta[i] = number(p, name, modelJson);
+                theta[i] = number(p, names.get(i), modelJson);
             }
-            values = new double[measured.positionCount() * measured.frameCount()];
-            run.solve(theta, values);
-        } catch (IllegalArgumentException e) {
+            Boundary boundary = root.has("boundary") && string(root, "boundary", modelJson).equals("fixed")
+                    ? Boundary.FIXED : Boundary.NO_FLUX;
+            given = new ModelComparison.GivenModel(model, theta, stimuli,
+                    root.has("amplitude") ? number(root, "amplitude", modelJson) : 1,
+                    root.has("baseline") ? number(root, "baseline", modelJson) : 0, boundary,
+                    root.has("dx_um") ? number(root, "dx_um", modelJson) : Double.NaN);
+            c = ModelComparison.compare(measured, given, Progress.NONE);
+        } catch (IllegalArgumentException | IllegalStateException e) {
             throw new InputException(modelJson, e.getMessage(), e);
         }
-        double amp = root.has("amplitude") ? number(root, "amplitude", modelJson) : 1;
-        double base = root.has("baseline") ? number(root, "baseline", modelJson) : 0;
-        for (int i = 0; i < values.length; i++) {
-            values[i] = base + amp * values[i];
-        }
-        Kymograph simulated = measured.withValues(values, signalUnit);
-        double sum = 0;
-        int n = 0;
-        for (int i = 0; i < values.length; i++) {
-            int f = i / measured.positionCount();
-            double y = measured.value(f, i % measured.positionCount());
-            if (Double.isFinite(y)) {
-                sum += (y - values[i]) * (y - values[i]);
-                n++;
-            }
-        }
-        double norm = Math.sqrt(sum);
-        double rmse = n > 0 ? Math.sqrt(sum / n) : Double.NaN;
-        Stimulus first = stimuli.get(0);
-        double t0 = first.timeS();
-        double xs = first.positionUm() + x0;
-        double noise = noiseOf(measured, t0);
-        SpreadAnalysis.Result sm = SpreadAnalysis.measure(shift(measured, -base), t0, xs, noise);
-        SpreadAnalysis.Result ss = SpreadAnalysis.measure(shift(simulated, -base), t0, xs, noise);
+        Stimulus first = given.stimuli().get(0);
+        SpreadAnalysis.Result sm = c.measuredSpread();
+        SpreadAnalysis.Result ss = c.simulatedSpread();
         List<String> warnings = new ArrayList<>();
         sm.warnings().forEach(w -> warnings.add("measured: " + w));
         ss.warnings().forEach(w -> warnings.add("model: " + w));
+        double norm = c.residualNorm();
+        double rmse = c.rmse();
+        double t0 = first.timeS();
+        double xs = first.positionUm();
+        double noise = c.noiseSd();
+        Kymograph simulated = c.simulated();
         try {
             Files.createDirectories(outDir);
         } catch (IOException e) {
@@ -197,23 +176,6 @@ public final class ModelComparisonRun {
         o.add("ci95", ci);
         o.addProperty("ci_method", e.method());
         return o;
-    }
-
-    private static double noiseOf(Kymograph k, double t0) {
-        List<String> ignored = new ArrayList<>();
-        int last = -1;
-        while (last + 1 < k.frameCount() && k.timeS(last + 1) < t0) {
-            last++;
-        }
-        return Robust.median(org.dendrokin.core.fit.NoiseEstimate.perPosition(k, 0, last, ignored));
-    }
-
-    private static Kymograph shift(Kymograph k, double by) {
-        double[] v = k.values();
-        for (int i = 0; i < v.length; i++) {
-            v[i] += by;
-        }
-        return k.withValues(v, k.signalUnit());
     }
 
     private static String string(JsonObject o, String key, Path file) {

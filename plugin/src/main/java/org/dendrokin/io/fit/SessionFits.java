@@ -12,6 +12,7 @@ import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.preprocess.Robust;
+import org.dendrokin.io.session.FitSettings;
 
 import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
@@ -41,6 +42,7 @@ public final class SessionFits {
      * Fits the models to the session's analysed signal.
      *
      * @param models         model names from session.json, or null for the defaults
+     * @param settings       criterion, profiles and bootstrap from session.json's {@code fit} object
      * @param signal         the analysed kymograph (dF/F0 or concentration). Not modified.
      * @param stimulusKnown  false if no stimulus was given or detected (then nothing is fitted)
      * @param stimulusTimeS  stimulus time, s
@@ -50,16 +52,19 @@ public final class SessionFits {
      * @param warnings       receives the sentences about the comparison and each converged fit. Modified.
      * @param progress       progress and cancellation
      */
-    public static SessionFits run(List<String> models, Kymograph signal, boolean stimulusKnown, double stimulusTimeS,
-                                  double stimulusPosUm, int baselineFirst, int baselineLast, List<String> warnings,
-                                  Progress progress) {
+    public static SessionFits run(List<String> models, FitSettings settings, Kymograph signal,
+                                  boolean stimulusKnown, double stimulusTimeS, double stimulusPosUm,
+                                  int baselineFirst, int baselineLast, List<String> warnings, Progress progress) {
         if (!stimulusKnown || !Double.isFinite(stimulusTimeS) || !Double.isFinite(stimulusPosUm)) {
             warnings.add("No model was fitted: the stimulus time and position are not known (give \"stimulus\" in "
                     + "session.json).");
             return new SessionFits(null, signal, Double.NaN, Double.NaN);
         }
         KymographFits.Setup setup = KymographFits.Setup.of(stimulusTimeS, stimulusPosUm)
-                .withModels(models == null || models.isEmpty() ? KymographFits.DEFAULT_MODELS : models);
+                .withModels(models == null || models.isEmpty() ? KymographFits.DEFAULT_MODELS : models)
+                .withCriterion(settings.criterion());
+        setup = setup.withOptions(setup.options().withProfiles(settings.profiles())
+                .withBootstrap(settings.bootstrapReplicates(), settings.seed()));
         if (baselineLast >= baselineFirst) {
             setup = setup.withBaselineFrames(baselineFirst, baselineLast);
         }

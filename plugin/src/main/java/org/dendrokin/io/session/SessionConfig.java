@@ -43,12 +43,13 @@ import com.google.gson.stream.JsonToken;
  * @param calibration        the {@code calibration} object as written ({"method": "none"} when absent)
  * @param models             model names to fit, or null for every built-in one that applies
  * @param bleachCorrection   false when {@code "bleach_correction": false}
+ * @param fit                how the models are fitted ({@link FitSettings#DEFAULT} when absent)
  * @param warnings           sentences about keys that were ignored
  */
 public record SessionConfig(String movie, String path, String pathRoiName, double pathWidthUm, Double pixelSizeUm,
         Double frameIntervalS, Double stimulusTimeS, Double stimulusPositionUm, int[] baselineFrames,
         Double backgroundValue, String backgroundRoi, JsonObject calibration, List<String> models,
-        boolean bleachCorrection, List<String> warnings) {
+        boolean bleachCorrection, FitSettings fit, List<String> warnings) {
 
     /** The name of the file that marks a session folder. */
     public static final String FILE_NAME = "session.json";
@@ -59,7 +60,8 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
 
     private static final Set<String> KEYS = Set.of("movie", "path", "path_roi_name", "path_width_um", "pixel_size_um",
             "frame_interval_s", "stimulus", "baseline_frames", "background", "calibration", "models",
-            "bleach_correction", "description", "notes", "group");
+            "bleach_correction", "fit", "description", "notes", "group");
+    private static final Set<String> FIT_KEYS = Set.of("criterion", "profiles", "bootstrap_replicates", "seed");
     private static final Pattern LINE = Pattern.compile("line (\\d+)");
 
     public SessionConfig {
@@ -183,8 +185,41 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
             }
             bleach = e.getAsBoolean();
         }
+        FitSettings fit = FitSettings.DEFAULT;
+        if (root.has("fit")) {
+            fit = fitSettings(p, p.object(root, "fit", "fit"), file, warnings);
+        }
         return new SessionConfig(movie, path, pathRoiName, width == null ? 1.0 : width, pixel, interval, stimTime,
-                stimPos, baseline, bgValue, bgRoi, calibration, models, bleach, warnings);
+                stimPos, baseline, bgValue, bgRoi, calibration, models, bleach, fit, warnings);
+    }
+
+    private static FitSettings fitSettings(Parser p, JsonObject f, Path file, List<String> warnings) {
+        for (String key : f.keySet()) {
+            if (!FIT_KEYS.contains(key)) {
+                warnings.add(String.format(Locale.ROOT, "%s: key \"fit.%s\" is not one Dendrokin knows and was "
+                        + "ignored.", file.getFileName(), key));
+            }
+        }
+        FitSettings d = FitSettings.DEFAULT;
+        String criterion = p.string(f, "criterion", "fit.criterion");
+        if (criterion == null) {
+            criterion = d.criterion();
+        } else if (!FitSettings.CRITERIA.contains(criterion)) {
+            throw p.bad("fit.criterion", "must be one of " + String.join(", ", FitSettings.CRITERIA),
+                    f.get("criterion"));
+        }
+        boolean profiles = d.profiles();
+        if (f.has("profiles")) {
+            JsonElement e = f.get("profiles");
+            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
+                throw p.bad("fit.profiles", "must be true or false", e);
+            }
+            profiles = e.getAsBoolean();
+        }
+        int replicates = (int) p.wholeNumber(f, "bootstrap_replicates", "fit.bootstrap_replicates", 0,
+                FitSettings.MAX_BOOTSTRAP, d.bootstrapReplicates());
+        long seed = p.wholeNumber(f, "seed", "fit.seed", 0, Long.MAX_VALUE, d.seed());
+        return new FitSettings(criterion, profiles, replicates, seed);
     }
 
     /** Parses strictly (no comments, no trailing commas, no single quotes); a syntax error names its line. */
@@ -270,6 +305,18 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
                 throw bad(key, "must be a number", e);
             }
             return e.getAsDouble();
+        }
+
+        long wholeNumber(JsonObject o, String name, String key, long min, long max, long absent) {
+            if (!o.has(name) || o.get(name).isJsonNull()) {
+                return absent;
+            }
+            JsonElement e = o.get(name);
+            double v = isNumber(e) ? e.getAsDouble() : Double.NaN;
+            if (!(v == Math.rint(v) && v >= min && v <= max)) {
+                throw bad(key, "must be a whole number from " + min + " to " + max, e);
+            }
+            return e.getAsLong();
         }
 
         int[] frameRange(JsonElement e) {

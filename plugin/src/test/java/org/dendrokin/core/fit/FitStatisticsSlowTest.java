@@ -48,7 +48,7 @@ class FitStatisticsSlowTest {
 
     @Test
     void aiccPicksTheTrueModelAtSignalToNoiseTen() {
-        int replicates = 20;
+        int replicates = 100;   // per generating model, so 200 data sets in all
         int right = 0;
         int total = 0;
         StringBuilder wrong = new StringBuilder();

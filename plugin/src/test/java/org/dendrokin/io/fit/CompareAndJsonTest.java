@@ -23,6 +23,7 @@ import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.core.units.Unit;
 import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.compare.ModelComparison;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -67,6 +68,23 @@ class CompareAndJsonTest {
         assertEquals(0.05, c.get("rmse").getAsDouble(), 0.005, "RMS residual (dF/F0)");
         assertTrue(Files.isRegularFile(dir.resolve("out/compare-nagumo-kymographs.png")), "pictures written");
         assertTrue(c.getAsJsonObject("front_speed").get("measured").isJsonObject(), "measured front speed");
+    }
+
+    @Test
+    void theCommandLineAndTheImageJCommandsCompareTheSameWay(@TempDir Path dir) throws Exception {
+        Kymograph measured = nagumoKymograph(0.05);
+        KymographCsv.write(measured, dir.resolve("kymograph.csv"));
+        Files.writeString(dir.resolve("model.json"), "{\"model\": \"nagumo\", \"parameters\": {\"D\": 1.2, "
+                + "\"k\": 0.5, \"a\": 0.2}, \"stimuli\": [{\"time_s\": 3, \"position_um\": 4, \"width_um\": 2, "
+                + "\"amount\": 1}], \"dx_um\": 0.25}");
+        ModelComparisonRun.Result cli = ModelComparisonRun.run(dir.resolve("kymograph.csv"),
+                dir.resolve("model.json"), "dF/F0", dir.resolve("out"));
+        ModelComparison.Comparison ij = ModelComparison.compare(KymographCsv.read(dir.resolve("kymograph.csv"),
+                "dF/F0"), new ModelComparison.Settings("nagumo", 1.2, 0.5, 0.2, 3, 4, 2, 1, Boundary.NO_FLUX, 0.25),
+                Progress.NONE);
+        assertEquals(ij.rmse(), cli.rmse(), 1e-12, "one computation behind both front ends");
+        assertEquals(ij.residualNorm(), cli.residualNorm(), 1e-9);
+        assertEquals(ij.measuredSpread().frontSpeed().value(), cli.measuredSpeed().value(), 1e-12);
     }
 
     @Test
