@@ -43,9 +43,11 @@ public final class NetworkRun {
     private final double[][] source;
     private final boolean[] injectionOn;
     private final boolean[] clampOn;
-    private final double[] node;
-    private final double[] stage;
-    private final double[] f;
+    private final double[][] wm;
+    private final double[][] fm;
+    private final double[][] k1m;
+    private final double[][] stagem;
+    private final int[][] pivots;
     private final double[] k1;
     private final double[] k2;
     private final double[] w;
@@ -111,9 +113,12 @@ public final class NetworkRun {
         source = new double[m][n];
         injectionOn = new boolean[count];
         clampOn = new boolean[count];
-        node = new double[m];
-        stage = new double[m];
-        f = new double[m];
+        wm = new double[m * m][n];
+        fm = new double[m][n];
+        k1m = new double[m][n];
+        stagem = new double[m][n];
+        pivots = new int[m > 3 ? m : 0][n];
+        this.network.reserveBatch(n);
         k1 = new double[m];
         k2 = new double[m];
         w = new double[m * m];
@@ -390,7 +395,9 @@ public final class NetworkRun {
 
     /**
      * ROS2 at every node: W k1 = f(u), W k2 = f(u + tau k1) - 2 k1, u1 = u + tau (3 k1 + k2) / 2,
-     * W = I - gamma tau J.
+     * W = I - gamma tau J. All nodes move together, a row per species (struct of arrays): the rate programs
+     * sweep whole rows, and W is inverted once per node (explicitly for up to 3 species, by LU otherwise) and
+     * used for both stages.
      */
     private void react(double tau) {
         if (network.reactions().isEmpty()) {
@@ -398,32 +405,201 @@ public final class NetworkRun {
         }
         int from = grid.fixedEnds ? 1 : 0;
         int to = grid.fixedEnds ? n - 1 : n;
-        double gt = GAMMA * tau;
+        network.stepMatrixBatch(c, from, to, -GAMMA * tau, wm);
+        network.ratesBatch(c, from, to, fm);
+        switch (m) {
+            case 1 -> {
+                double[] w0 = wm[0];
+                double[] f0 = fm[0];
+                double[] r0 = k1m[0];
+                double[] u0 = c[0];
+                double[] s0 = stagem[0];
+                for (int i = from; i < to; i++) {
+                    double inv = 1 / w0[i];
+                    w0[i] = inv;
+                    double k = inv * f0[i];
+                    r0[i] = k;
+                    s0[i] = u0[i] + tau * k;
+                }
+                network.ratesBatch(stagem, from, to, fm);
+                for (int i = from; i < to; i++) {
+                    double k = r0[i];
+                    double k2 = w0[i] * (f0[i] - 2 * k);
+                    u0[i] += tau * (1.5 * k + 0.5 * k2);
+                }
+            }
+            case 2 -> react2(tau, from, to);
+            case 3 -> react3(tau, from, to);
+            default -> reactGeneral(tau, from, to);
+        }
+    }
+
+    private void react2(double tau, int from, int to) {
+        double[] w00 = wm[0];
+        double[] w01 = wm[1];
+        double[] w10 = wm[2];
+        double[] w11 = wm[3];
+        double[] f0 = fm[0];
+        double[] f1 = fm[1];
+        double[] r0 = k1m[0];
+        double[] r1 = k1m[1];
+        double[] u0 = c[0];
+        double[] u1 = c[1];
+        double[] s0 = stagem[0];
+        double[] s1 = stagem[1];
         for (int i = from; i < to; i++) {
-            for (int s = 0; s < m; s++) {
-                node[s] = c[s][i];
-            }
-            network.jacobian(node, w);
+            double a = w00[i];
+            double b = w01[i];
+            double cc = w10[i];
+            double dd = w11[i];
+            double inv = 1 / (a * dd - b * cc);
+            double i00 = dd * inv;
+            double i01 = -b * inv;
+            double i10 = -cc * inv;
+            double i11 = a * inv;
+            w00[i] = i00;
+            w01[i] = i01;
+            w10[i] = i10;
+            w11[i] = i11;
+            double g0 = f0[i];
+            double g1 = f1[i];
+            double x0 = i00 * g0 + i01 * g1;
+            double x1 = i10 * g0 + i11 * g1;
+            r0[i] = x0;
+            r1[i] = x1;
+            s0[i] = u0[i] + tau * x0;
+            s1[i] = u1[i] + tau * x1;
+        }
+        network.ratesBatch(stagem, from, to, fm);
+        for (int i = from; i < to; i++) {
+            double x0 = r0[i];
+            double x1 = r1[i];
+            double g0 = f0[i] - 2 * x0;
+            double g1 = f1[i] - 2 * x1;
+            double y0 = w00[i] * g0 + w01[i] * g1;
+            double y1 = w10[i] * g0 + w11[i] * g1;
+            u0[i] += tau * (1.5 * x0 + 0.5 * y0);
+            u1[i] += tau * (1.5 * x1 + 0.5 * y1);
+        }
+    }
+
+    private void react3(double tau, int from, int to) {
+        double[] w00 = wm[0];
+        double[] w01 = wm[1];
+        double[] w02 = wm[2];
+        double[] w10 = wm[3];
+        double[] w11 = wm[4];
+        double[] w12 = wm[5];
+        double[] w20 = wm[6];
+        double[] w21 = wm[7];
+        double[] w22 = wm[8];
+        double[] f0 = fm[0];
+        double[] f1 = fm[1];
+        double[] f2 = fm[2];
+        double[] r0 = k1m[0];
+        double[] r1 = k1m[1];
+        double[] r2 = k1m[2];
+        double[] u0 = c[0];
+        double[] u1 = c[1];
+        double[] u2 = c[2];
+        double[] s0 = stagem[0];
+        double[] s1 = stagem[1];
+        double[] s2 = stagem[2];
+        for (int i = from; i < to; i++) {
+            double a = w00[i];
+            double b = w01[i];
+            double cc = w02[i];
+            double d = w10[i];
+            double e = w11[i];
+            double ff = w12[i];
+            double g = w20[i];
+            double h = w21[i];
+            double q = w22[i];
+            // the inverse as adjugate / determinant
+            double c00 = e * q - ff * h;
+            double c10 = ff * g - d * q;
+            double c20 = d * h - e * g;
+            double inv = 1 / (a * c00 + b * c10 + cc * c20);
+            double i00 = c00 * inv;
+            double i01 = (cc * h - b * q) * inv;
+            double i02 = (b * ff - cc * e) * inv;
+            double i10 = c10 * inv;
+            double i11 = (a * q - cc * g) * inv;
+            double i12 = (cc * d - a * ff) * inv;
+            double i20 = c20 * inv;
+            double i21 = (b * g - a * h) * inv;
+            double i22 = (a * e - b * d) * inv;
+            w00[i] = i00;
+            w01[i] = i01;
+            w02[i] = i02;
+            w10[i] = i10;
+            w11[i] = i11;
+            w12[i] = i12;
+            w20[i] = i20;
+            w21[i] = i21;
+            w22[i] = i22;
+            double g0 = f0[i];
+            double g1 = f1[i];
+            double g2 = f2[i];
+            double x0 = i00 * g0 + i01 * g1 + i02 * g2;
+            double x1 = i10 * g0 + i11 * g1 + i12 * g2;
+            double x2 = i20 * g0 + i21 * g1 + i22 * g2;
+            r0[i] = x0;
+            r1[i] = x1;
+            r2[i] = x2;
+            s0[i] = u0[i] + tau * x0;
+            s1[i] = u1[i] + tau * x1;
+            s2[i] = u2[i] + tau * x2;
+        }
+        network.ratesBatch(stagem, from, to, fm);
+        for (int i = from; i < to; i++) {
+            double x0 = r0[i];
+            double x1 = r1[i];
+            double x2 = r2[i];
+            double g0 = f0[i] - 2 * x0;
+            double g1 = f1[i] - 2 * x1;
+            double g2 = f2[i] - 2 * x2;
+            double y0 = w00[i] * g0 + w01[i] * g1 + w02[i] * g2;
+            double y1 = w10[i] * g0 + w11[i] * g1 + w12[i] * g2;
+            double y2 = w20[i] * g0 + w21[i] * g1 + w22[i] * g2;
+            u0[i] += tau * (1.5 * x0 + 0.5 * y0);
+            u1[i] += tau * (1.5 * x1 + 0.5 * y1);
+            u2[i] += tau * (1.5 * x2 + 0.5 * y2);
+        }
+    }
+
+    /** More than 3 species: W gathered per node, LU with partial pivoting, kept for the second stage. */
+    private void reactGeneral(double tau, int from, int to) {
+        for (int i = from; i < to; i++) {
             for (int a = 0; a < m * m; a++) {
-                w[a] = -gt * w[a];
-            }
-            for (int a = 0; a < m; a++) {
-                w[a * m + a] += 1;
+                w[a] = wm[a][i];
             }
             luFactor();
-            network.rates(node, f);
-            System.arraycopy(f, 0, k1, 0, m);
+            for (int a = 0; a < m * m; a++) {
+                wm[a][i] = w[a];
+            }
+            for (int s = 0; s < m; s++) {
+                pivots[s][i] = pivot[s];
+                k1[s] = fm[s][i];
+            }
             luSolve(k1);
             for (int s = 0; s < m; s++) {
-                stage[s] = node[s] + tau * k1[s];
+                k1m[s][i] = k1[s];
+                stagem[s][i] = c[s][i] + tau * k1[s];
             }
-            network.rates(stage, f);
+        }
+        network.ratesBatch(stagem, from, to, fm);
+        for (int i = from; i < to; i++) {
+            for (int a = 0; a < m * m; a++) {
+                w[a] = wm[a][i];
+            }
             for (int s = 0; s < m; s++) {
-                k2[s] = f[s] - 2 * k1[s];
+                pivot[s] = pivots[s][i];
+                k2[s] = fm[s][i] - 2 * k1m[s][i];
             }
             luSolve(k2);
             for (int s = 0; s < m; s++) {
-                c[s][i] = node[s] + tau * (1.5 * k1[s] + 0.5 * k2[s]);
+                c[s][i] += tau * (1.5 * k1m[s][i] + 0.5 * k2[s]);
             }
         }
     }

@@ -76,6 +76,191 @@ final class Program {
         return st[0];
     }
 
+    int depth() {
+        return stack.length;
+    }
+
+    /**
+     * The same program over many nodes at once: each instruction sweeps nodes [from, to) of whole rows, so the
+     * dispatch is paid once per instruction instead of once per node and the sweeps vectorise.
+     *
+     * @param c     {@code c[species][node]}
+     * @param lanes scratch rows, at least {@link #depth()} of them, each at least {@code to} long
+     * @param refs  scratch, at least {@link #depth()} long
+     * @param sc    scratch, at least {@link #depth()} long
+     * @return the row holding the values at [from, to) (one of {@code lanes} or of {@code c}: read it before
+     *         the next evaluation and do not write it), or null when the value is the constant {@code sc[0]}
+     */
+    double[] values(double[][] c, int from, int to, double[][] lanes, double[][] refs, double[] sc) {
+        int top = -1;
+        for (int instruction : code) {
+            int arg = instruction >>> 4;
+            int op = instruction & 15;
+            switch (op) {
+                case CONST -> {
+                    top++;
+                    refs[top] = null;
+                    sc[top] = constants[arg];
+                }
+                case SPECIES -> {
+                    top++;
+                    refs[top] = c[arg];
+                }
+                case ADD, SUB, MUL, DIV, POW -> {
+                    top--;
+                    double[] a = refs[top];
+                    double[] b = refs[top + 1];
+                    if (a == null && b == null) {
+                        sc[top] = scalar(op, sc[top], sc[top + 1]);
+                    } else {
+                        double[] o = lanes[top];
+                        sweep(op, a, sc[top], b, sc[top + 1], o, from, to);
+                        refs[top] = o;
+                    }
+                }
+                default -> {
+                    double[] a = refs[top];
+                    if (a == null) {
+                        sc[top] = scalar(op, sc[top], 0);
+                    } else {
+                        double[] o = lanes[top];
+                        unarySweep(op, a, o, from, to);
+                        refs[top] = o;
+                    }
+                }
+            }
+        }
+        return refs[0];
+    }
+
+    private static double scalar(int op, double x, double y) {
+        return switch (op) {
+            case ADD -> x + y;
+            case SUB -> x - y;
+            case MUL -> x * y;
+            case DIV -> x / y;
+            case POW -> Math.pow(x, y);
+            case SQUARE -> x * x;
+            case CUBE -> x * x * x;
+            case EXP -> Math.exp(x);
+            default -> Math.log(x);
+        };
+    }
+
+    private static void unarySweep(int op, double[] a, double[] o, int from, int to) {
+        switch (op) {
+            case SQUARE -> {
+                for (int i = from; i < to; i++) {
+                    o[i] = a[i] * a[i];
+                }
+            }
+            case CUBE -> {
+                for (int i = from; i < to; i++) {
+                    o[i] = a[i] * a[i] * a[i];
+                }
+            }
+            case EXP -> {
+                for (int i = from; i < to; i++) {
+                    o[i] = Math.exp(a[i]);
+                }
+            }
+            default -> {
+                for (int i = from; i < to; i++) {
+                    o[i] = Math.log(a[i]);
+                }
+            }
+        }
+    }
+
+    /** o = a op b over [from, to); a null row stands for the constant x, a null b for y (not both null). */
+    private static void sweep(int op, double[] a, double x, double[] b, double y, double[] o, int from, int to) {
+        if (a != null && b != null) {
+            switch (op) {
+                case ADD -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] + b[i];
+                    }
+                }
+                case SUB -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] - b[i];
+                    }
+                }
+                case MUL -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] * b[i];
+                    }
+                }
+                case DIV -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] / b[i];
+                    }
+                }
+                default -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = Math.pow(a[i], b[i]);
+                    }
+                }
+            }
+        } else if (b == null) {
+            switch (op) {
+                case ADD -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] + y;
+                    }
+                }
+                case SUB -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] - y;
+                    }
+                }
+                case MUL -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] * y;
+                    }
+                }
+                case DIV -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = a[i] / y;
+                    }
+                }
+                default -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = Math.pow(a[i], y);
+                    }
+                }
+            }
+        } else {
+            switch (op) {
+                case ADD -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = x + b[i];
+                    }
+                }
+                case SUB -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = x - b[i];
+                    }
+                }
+                case MUL -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = x * b[i];
+                    }
+                }
+                case DIV -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = x / b[i];
+                    }
+                }
+                default -> {
+                    for (int i = from; i < to; i++) {
+                        o[i] = Math.pow(x, b[i]);
+                    }
+                }
+            }
+        }
+    }
+
     /** Collects instructions while an expression emits itself. */
     static final class Builder {
         private int[] code = new int[16];

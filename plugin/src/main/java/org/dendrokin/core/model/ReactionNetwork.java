@@ -1,6 +1,7 @@
 package org.dendrokin.core.model;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.Collections;
 import java.util.List;
 
@@ -43,6 +44,12 @@ public final class ReactionNetwork {
     private final int[][] derivativeSpecies;
     private final Program[][] derivativePrograms;
     private final double rateScalePerS;
+    /** For each reaction, the species it changes and by how much (the non-zero net stoichiometry). */
+    private final int[][] stoichSpecies;
+    private final double[][] stoichValues;
+    private double[][] lanes;
+    private double[][] refs;
+    private double[] scalars;
 
     /**
      * @param species          species names, unique
@@ -92,6 +99,22 @@ public final class ReactionNetwork {
             scale = Math.max(scale, reaction.rateScalePerS());
         }
         rateScalePerS = scale;
+        stoichSpecies = new int[stoich.length][];
+        stoichValues = new double[stoich.length][];
+        for (int r = 0; r < stoich.length; r++) {
+            int count = 0;
+            for (double v : stoich[r]) {
+                count += v != 0 ? 1 : 0;
+            }
+            stoichSpecies[r] = new int[count];
+            stoichValues[r] = new double[count];
+            for (int s = 0, k = 0; s < m; s++) {
+                if (stoich[r][s] != 0) {
+                    stoichSpecies[r][k] = s;
+                    stoichValues[r][k++] = stoich[r][s];
+                }
+            }
+        }
     }
 
     public List<String> species() {
@@ -157,6 +180,85 @@ public final class ReactionNetwork {
         }
     }
 
+    /** Largest stack depth over the rate and derivative programs (rows of scratch the batch evaluation needs). */
+    private int maxDepth() {
+        int depth = 1;
+        for (int r = 0; r < ratePrograms.length; r++) {
+            depth = Math.max(depth, ratePrograms[r].depth());
+            for (Program p : derivativePrograms[r]) {
+                depth = Math.max(depth, p.depth());
+            }
+        }
+        return depth;
+    }
+
+    /** Scratch of the batch evaluations below, for grids of up to {@code nodes} nodes; allocates. */
+    void reserveBatch(int nodes) {
+        if (lanes != null && lanes[0].length >= nodes) {
+            return;
+        }
+        int depth = maxDepth();
+        lanes = new double[depth][nodes];
+        refs = new double[depth][];
+        scalars = new double[depth];
+    }
+
+    /**
+     * The reaction part of dc/dt at nodes [from, to) at once: {@code out[s][i] = sum_r N[s][r] v_r(c[.][i])}.
+     * Needs {@link #reserveBatch}; allocation-free; not thread-safe.
+     */
+    void ratesBatch(double[][] c, int from, int to, double[][] out) {
+        for (double[] row : out) {
+            Arrays.fill(row, from, to, 0);
+        }
+        for (int r = 0; r < ratePrograms.length; r++) {
+            double[] v = ratePrograms[r].values(c, from, to, lanes, refs, scalars);
+            int[] targets = stoichSpecies[r];
+            double[] coefficients = stoichValues[r];
+            for (int k = 0; k < targets.length; k++) {
+                accumulate(out[targets[k]], coefficients[k], v, scalars[0], from, to);
+            }
+        }
+    }
+
+    /**
+     * The Rosenbrock step matrix at nodes [from, to) at once: {@code w[s * m + q][i] = delta_sq + factor J_sq}
+     * with J the exact Jacobian of {@link #jacobian} at node i. Needs {@link #reserveBatch}; allocation-free.
+     */
+    void stepMatrixBatch(double[][] c, int from, int to, double factor, double[][] w) {
+        int m = species.size();
+        for (int a = 0; a < m * m; a++) {
+            Arrays.fill(w[a], from, to, a % (m + 1) == 0 ? 1 : 0);
+        }
+        for (int r = 0; r < ratePrograms.length; r++) {
+            int[] depends = derivativeSpecies[r];
+            Program[] programs = derivativePrograms[r];
+            int[] targets = stoichSpecies[r];
+            double[] coefficients = stoichValues[r];
+            for (int j = 0; j < depends.length; j++) {
+                int q = depends[j];
+                double[] dv = programs[j].values(c, from, to, lanes, refs, scalars);
+                for (int k = 0; k < targets.length; k++) {
+                    accumulate(w[targets[k] * m + q], factor * coefficients[k], dv, scalars[0], from, to);
+                }
+            }
+        }
+    }
+
+    /** row += a v over [from, to), where a null v stands for the constant {@code constant}. */
+    private static void accumulate(double[] row, double a, double[] v, double constant, int from, int to) {
+        if (v == null) {
+            double add = a * constant;
+            for (int i = from; i < to; i++) {
+                row[i] += add;
+            }
+        } else {
+            for (int i = from; i < to; i++) {
+                row[i] += a * v[i];
+            }
+        }
+    }
+
     /** A copy with its own evaluation stacks, for use on another thread. */
     ReactionNetwork forThread() {
         return new ReactionNetwork(this);
@@ -180,6 +282,8 @@ public final class ReactionNetwork {
             }
         }
         rateScalePerS = other.rateScalePerS;
+        stoichSpecies = other.stoichSpecies;
+        stoichValues = other.stoichValues;
     }
 
     /** Propensity of reaction r for the well-mixed stochastic mode: its rate expression, in concentration/s. */
