@@ -121,6 +121,83 @@ public abstract class Expression {
         return a instanceof Const x ? new Const(Math.log(x.v)) : new Unary('l', a);
     }
 
+    /**
+     * A mass-action law kf prod c_s^(a_s) - kr prod c_s^(b_s) that remembers its constants and orders, so the
+     * stochastic mode can count molecule combinations instead of raising concentrations to powers. It
+     * evaluates, differentiates and compiles as the plain expression it wraps.
+     */
+    static final class MassAction extends Expression {
+        final Expression plain;
+        final double kf;
+        final double kr;
+        final double[] forwardOrders;
+        final double[] reverseOrders;
+
+        MassAction(Expression plain, double kf, double kr, double[] forwardOrders, double[] reverseOrders) {
+            this.plain = plain;
+            this.kf = kf;
+            this.kr = kr;
+            this.forwardOrders = forwardOrders.clone();
+            this.reverseOrders = reverseOrders.clone();
+        }
+
+        /** True when every order is a whole number, so molecule combinations are defined. */
+        boolean wholeOrders() {
+            for (double[] orders : new double[][] {forwardOrders, reverseOrders}) {
+                for (double o : orders) {
+                    if (o < 0 || o != Math.rint(o)) {
+                        return false;
+                    }
+                }
+            }
+            return true;
+        }
+
+        /**
+         * The propensity divided by omega, in concentration per second, for counts n_s = c_s omega:
+         * kf prod_s n_s (n_s - 1) ... (n_s - a_s + 1) / omega^(a_s), minus the same for the reverse term
+         * (Gillespie 1977: the propensity is c_r times the number of distinct reactant combinations, n (n - 1) / 2
+         * for 2A, and matching the deterministic law kf c^2 for large n gives c_r = 2 kf / omega).
+         */
+        double combinatorial(double[] c, double omega) {
+            double forward = kf * fallingProduct(forwardOrders, c, omega);
+            double reverse = kr == 0 ? 0 : kr * fallingProduct(reverseOrders, c, omega);
+            return forward - reverse;
+        }
+
+        private static double fallingProduct(double[] orders, double[] c, double omega) {
+            double p = 1;
+            for (int s = 0; s < orders.length; s++) {
+                int order = (int) orders[s];
+                double step = 1 / omega;
+                for (int j = 0; j < order; j++) {
+                    p *= Math.max(c[s] - j * step, 0);
+                }
+            }
+            return p;
+        }
+
+        @Override
+        public double value(double[] c) {
+            return plain.value(c);
+        }
+
+        @Override
+        public Expression derivative(int s) {
+            return plain.derivative(s);
+        }
+
+        @Override
+        void emit(Program.Builder b) {
+            plain.emit(b);
+        }
+
+        @Override
+        public String toString() {
+            return plain.toString();
+        }
+    }
+
     private static final class Const extends Expression {
         final double v;
 

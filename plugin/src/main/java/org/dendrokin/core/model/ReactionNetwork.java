@@ -286,8 +286,16 @@ public final class ReactionNetwork {
         stoichValues = other.stoichValues;
     }
 
-    /** Propensity of reaction r for the well-mixed stochastic mode: its rate expression, in concentration/s. */
-    double rateOf(int r, double[] c) {
+    /**
+     * Propensity of reaction r in a voxel of the stochastic mode, divided by omega (molecules per concentration
+     * unit in the voxel), so in concentration per second; c holds the counts divided by omega. A mass-action
+     * reaction with whole orders counts molecule combinations: 2A fires at kf n (n - 1) / omega, not
+     * kf n^2 / omega (Gillespie 1977); any other law is its deterministic rate at c.
+     */
+    double propensityOf(int r, double[] c, double omega) {
+        if (rates[r] instanceof Expression.MassAction law && law.wholeOrders()) {
+            return law.combinatorial(c, omega);
+        }
         return ratePrograms[r].value(c);
     }
 
@@ -310,7 +318,9 @@ public final class ReactionNetwork {
         Checks.nonNegativeFinite(kr, "reverse rate constant");
         Expression forward = monomial(kf, reactantOrders);
         Expression reverse = kr == 0 ? Expression.constant(0) : monomial(kr, productOrders);
-        return Expression.subtract(forward, reverse);
+        Expression plain = Expression.subtract(forward, reverse);
+        return plain.isConst() ? plain
+                : new Expression.MassAction(plain, kf, kr, reactantOrders, kr == 0 ? new double[0] : productOrders);
     }
 
     private static Expression monomial(double k, double[] orders) {

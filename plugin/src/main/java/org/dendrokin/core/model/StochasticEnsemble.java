@@ -19,8 +19,10 @@ import org.dendrokin.core.Progress;
  * volume is the node's control volume (cross-section x length share, um^3), and counts are concentration x
  * volume x {@link StochasticSettings#moleculesPerUnitUm3()}. Events per voxel:
  * <ul>
- * <li>a reaction r, with propensity v_r(c) x V x scale (the deterministic rate turned into molecules per
- * second; every reaction must have a non-negative rate, so a reversible reaction is two reactions);</li>
+ * <li>a reaction r, with propensity v_r(c) x omega, omega = V x scale (the deterministic rate turned into
+ * molecules per second); for mass action with whole orders the powers become molecule combinations, so
+ * 2A -&gt; fires at k n (n - 1) / omega rather than k n^2 / omega ({@link ReactionNetwork#propensityOf}); every
+ * reaction must have a non-negative rate, so a reversible reaction is two reactions;</li>
  * <li>a jump of one molecule of species s to a neighbour, at rate D_s x (L coefficient) x n, where the
  * coefficient is the one of the deterministic grid ({@link CableGrid}), e.g. D/h^2 per molecule and
  * direction on a uniform cable; the ensemble mean therefore follows the same discretised equation.</li>
@@ -390,7 +392,7 @@ public final class StochasticEnsemble {
                 conc[s] = count[s][i] / scale[i];
             }
             for (int r = 0; r < reactions; r++) {
-                double a = network.rateOf(r, conc) * scale[i];
+                double a = network.propensityOf(r, conc, scale[i]) * scale[i];
                 if (a < 0) {
                     throw new IllegalArgumentException("reaction " + network.reactions().get(r).name()
                             + " has a negative rate; the stochastic mode needs each direction as its own reaction");
