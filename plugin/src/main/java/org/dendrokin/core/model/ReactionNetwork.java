@@ -47,6 +47,8 @@ public final class ReactionNetwork {
     /** For each reaction, the species it changes and by how much (the non-zero net stoichiometry). */
     private final int[][] stoichSpecies;
     private final double[][] stoichValues;
+    /** For each reaction, its mass-action law when the stochastic mode counts combinations, else null. */
+    private final Expression.MassAction[] combinatorial;
     private double[][] lanes;
     private double[][] refs;
     private double[] scalars;
@@ -101,7 +103,11 @@ public final class ReactionNetwork {
         rateScalePerS = scale;
         stoichSpecies = new int[stoich.length][];
         stoichValues = new double[stoich.length][];
+        combinatorial = new Expression.MassAction[stoich.length];
         for (int r = 0; r < stoich.length; r++) {
+            if (rates[r] instanceof Expression.MassAction law && law.wholeOrders()) {
+                combinatorial[r] = law;
+            }
             int count = 0;
             for (double v : stoich[r]) {
                 count += v != 0 ? 1 : 0;
@@ -284,6 +290,7 @@ public final class ReactionNetwork {
         rateScalePerS = other.rateScalePerS;
         stoichSpecies = other.stoichSpecies;
         stoichValues = other.stoichValues;
+        combinatorial = other.combinatorial;
     }
 
     /**
@@ -293,7 +300,8 @@ public final class ReactionNetwork {
      * kf n^2 / omega (Gillespie 1977); any other law is its deterministic rate at c.
      */
     double propensityOf(int r, double[] c, double omega) {
-        if (rates[r] instanceof Expression.MassAction law && law.wholeOrders()) {
+        Expression.MassAction law = combinatorial[r];
+        if (law != null) {
             return law.combinatorial(c, omega);
         }
         return ratePrograms[r].value(c);
