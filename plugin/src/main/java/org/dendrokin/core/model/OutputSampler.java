@@ -10,6 +10,8 @@ import org.dendrokin.core.Checks;
 final class OutputSampler {
     private final int[] index;
     private final double[] weight;
+    /** True when every output position is a node, in order from node 0 (sampling is then a copy). */
+    private final boolean identity;
 
     /**
      * @param outputPositionsUm positions along the cable, um, within [0, lengthUm] (a relative 1e-9 tolerance)
@@ -31,6 +33,11 @@ final class OutputSampler {
             index[p] = i;
             weight[p] = s - i;
         }
+        boolean same = positions == nodes;
+        for (int p = 0; p < positions && same; p++) {
+            same = (index[p] == p && weight[p] == 0) || (p == nodes - 1 && index[p] == p - 1 && weight[p] == 1);
+        }
+        identity = same;
     }
 
     /** Number of output positions. */
@@ -41,6 +48,10 @@ final class OutputSampler {
     /** Writes the field at the output positions into row {@code frame} of {@code target}. */
     void sample(double[] field, double[] target, int frame) {
         int base = frame * index.length;
+        if (identity) {
+            System.arraycopy(field, 0, target, base, index.length);
+            return;
+        }
         for (int q = 0; q < index.length; q++) {
             int i = index[q];
             target[base + q] = field[i] + weight[q] * (field[i + 1] - field[i]);
@@ -60,6 +71,21 @@ final class OutputSampler {
             double a = before[i] + x * (before[i + 1] - before[i]);
             double b = after[i] + x * (after[i + 1] - after[i]);
             target[base + q] = v * a + w * b;
+        }
+    }
+
+    /**
+     * Writes {@code (1 - w) before + w after} into row {@code frame} of {@code target}, for two fields already
+     * sampled at the output positions ({@link #sample} with frame 0): linear in time between two steps.
+     */
+    void mix(double[] before, double[] after, double w, double[] target, int frame) {
+        mixRows(before, after, w, target, frame * index.length, index.length);
+    }
+
+    private static void mixRows(double[] before, double[] after, double w, double[] target, int base, int count) {
+        double v = 1 - w;
+        for (int q = 0; q < count; q++) {
+            target[base + q] = v * before[q] + w * after[q];
         }
     }
 }

@@ -73,8 +73,11 @@ public final class ScalarRun {
     private final boolean[] clampOn;
     private final double[][] sens;
     private final double[] sensRhs;
-    private final double[] uPrev;
-    private final double[][] sensPrev;
+    // u and the sensitivities sampled at the output positions before and after a step with outputs inside it
+    private final double[] sampledA;
+    private final double[] sampledB;
+    private final double[][] sensSampledA;
+    private final double[][] sensSampledB;
     private final double[] cacheC = new double[CACHE];
     private final double[][] cacheLower;
     private final double[][] cacheCPrime;
@@ -83,6 +86,14 @@ public final class ScalarRun {
     private final double[][] cachePDiag;
     private final double[][] cachePUpper;
     private final double[][] cacheLowerOverPivot;
+    private final double[][] cacheElim;
+    private final double[][] cacheSubst;
+    private final double[][] cacheTwInvPivot;
+    private final double[][] cacheSLower;
+    private final double[][] cacheSDiag;
+    private final double[][] cacheSUpper;
+    private final double[] stage;
+    private boolean sourceActive;
     private int cacheNext;
     private long lastStepCount;
     private double[] initial;
@@ -133,8 +144,10 @@ public final class ScalarRun {
         clampOn = new boolean[count];
         sens = new double[model.parameters.size()][n];
         sensRhs = new double[n];
-        uPrev = new double[n];
-        sensPrev = new double[model.parameters.size()][n];
+        sampledA = new double[positions];
+        sampledB = new double[positions];
+        sensSampledA = new double[model.parameters.size()][positions];
+        sensSampledB = new double[model.parameters.size()][positions];
         cacheLower = new double[CACHE][n];
         cacheCPrime = new double[CACHE][n];
         cacheInvPivot = new double[CACHE][n];
@@ -142,6 +155,13 @@ public final class ScalarRun {
         cachePDiag = new double[CACHE][n];
         cachePUpper = new double[CACHE][n];
         cacheLowerOverPivot = new double[CACHE][n];
+        cacheElim = new double[CACHE][n];
+        cacheSubst = new double[CACHE][n];
+        cacheTwInvPivot = new double[CACHE][n];
+        cacheSLower = new double[CACHE][n];
+        cacheSDiag = new double[CACHE][n];
+        cacheSUpper = new double[CACHE][n];
+        stage = new double[n];
         Arrays.fill(cacheC, Double.NaN);
     }
 
@@ -277,6 +297,7 @@ public final class ScalarRun {
         Arrays.fill(source, 0);
         Arrays.fill(injectionOn, false);
         Arrays.fill(clampOn, false);
+        sourceActive = false;
         if (withSens) {
             for (double[] s : sens) {
                 Arrays.fill(s, 0);
@@ -289,7 +310,13 @@ public final class ScalarRun {
         int interior = 0;
         Timeline tl = timeline;
         int nb = tl.breakCount();
+        double[] before = sampledA;
+        double[] after = sampledB;
+        double[][] sensBefore = sensSampledA;
+        double[][] sensAfter = sensSampledB;
+        boolean afterIsCurrent = false;   // after holds u at the current time, sampled
         for (int j = 0; j < nb; j++) {
+            afterIsCurrent = false;       // events may change u
             boolean injectionsChanged = false;
             for (int e = tl.eventStart[j]; e < tl.eventStart[j + 1]; e++) {
                 int s = tl.eventStimulus[e];
@@ -335,6 +362,10 @@ public final class ScalarRun {
                     }
                 }
                 grid.applyMass(rhs, source);
+                sourceActive = false;
+                for (boolean on : injectionOn) {
+                    sourceActive |= on;
+                }
             }
             anyClamp = false;
             for (boolean c : clampOn) {
@@ -365,15 +396,24 @@ public final class ScalarRun {
                 double tNext = step == count - 1 ? tl.breaksS[j + 1] : tl.breaksS[j] + (step + 1) * dt;
                 boolean interpolate = interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext;
                 if (interpolate) {
-                    System.arraycopy(u, 0, uPrev, 0, n);
-                    if (withSens) {
-                        for (int q = 0; q < sens.length; q++) {
-                            System.arraycopy(sens[q], 0, sensPrev[q], 0, n);
+                    if (afterIsCurrent) {
+                        double[] swap = before;
+                        before = after;
+                        after = swap;
+                        double[][] swapSens = sensBefore;
+                        sensBefore = sensAfter;
+                        sensAfter = swapSens;
+                    } else {
+                        sampler.sample(u, before, 0);
+                        if (withSens) {
+                            for (int q = 0; q < sens.length; q++) {
+                                sampler.sample(sens[q], sensBefore[q], 0);
+                            }
                         }
                     }
                 }
                 boolean rannacher = smooth && settings.smoothing();
-                if (!withSens && !rannacher) {
+                if (!withSens && !rannacher && n >= 3) {
                     fusedStep(p, slot, dt);
                 } else {
                     react(p, 0.5 * dt, withSens);
@@ -384,14 +424,24 @@ public final class ScalarRun {
                 if (anyClamp) {
                     applyClamps(withSens);
                 }
+                afterIsCurrent = false;
+                if (interpolate) {
+                    sampler.sample(u, after, 0);
+                    if (withSens) {
+                        for (int q = 0; q < sens.length; q++) {
+                            sampler.sample(sens[q], sensAfter[q], 0);
+                        }
+                    }
+                    afterIsCurrent = true;
+                }
                 while (interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext) {
                     // outputs between steps: linear in time, second order like the scheme
                     double w = (tl.interiorTimeS[interior] - t) / (tNext - t);
                     int frame = tl.interiorFrame[interior];
-                    sampler.blend(uPrev, u, w, out, frame);
+                    sampler.mix(before, after, w, out, frame);
                     if (withSens) {
                         for (int q = 0; q < sens.length; q++) {
-                            sampler.blend(sensPrev[q], sens[q], w, sensOut[q], frame);
+                            sampler.mix(sensBefore[q], sensAfter[q], w, sensOut[q], frame);
                         }
                     }
                     interior++;
@@ -446,8 +496,15 @@ public final class ScalarRun {
             cachePUpper[k][i] = grid.massUpper[i] + c * grid.upper[i];
         }
         TridiagonalSolver.factor(lower, diag, upper, cacheCPrime[k], cacheInvPivot[k]);
+        if (n >= 3) {
+            TridiagonalSolver.factorTwisted(lower, diag, upper, cacheElim[k], cacheSubst[k], cacheTwInvPivot[k]);
+        }
         for (int i = 0; i < n; i++) {
             cacheLowerOverPivot[k][i] = lower[i] * cacheInvPivot[k][i];
+            double ip = cacheTwInvPivot[k][i];
+            cacheSLower[k][i] = cachePLower[k][i] * ip;
+            cacheSDiag[k][i] = cachePDiag[k][i] * ip;
+            cacheSUpper[k][i] = cachePUpper[k][i] * ip;
         }
         cacheC[k] = c;
         return k;
@@ -527,88 +584,80 @@ public final class ScalarRun {
     }
 
     /**
-     * One Strang step without sensitivities, fused into two sweeps: the ascending sweep applies the first
-     * reaction half step, forms the Crank-Nicolson right-hand side and does the Thomas forward elimination;
-     * the descending sweep does the back substitution and the second reaction half step. The arithmetic is
-     * exactly that of {@link #react}, {@link #diffuse}, {@link #react}; only the order of the loops differs,
-     * which lets the reaction work overlap the Thomas recurrences.
+     * One Strang step without sensitivities, as simple sweeps: the first reaction half step (a loop with no
+     * dependence between nodes, which the JIT vectorises), the Crank-Nicolson right-hand side already divided by
+     * the pivots of the twisted factorisation (vectorised too), the two-ended elimination and substitution of
+     * {@link TridiagonalSolver#solveTwisted} (the only serial recurrences, two independent ones interleaved) and
+     * the second reaction half step. The arithmetic is that of {@link #react}, {@link #diffuse}, {@link #react}
+     * up to rounding. The loops live in static methods of their own: inlined into {@link #run}, the JIT did not
+     * vectorise them.
      */
     private void fusedStep(double[] p, int slot, double dt) {
-        double[] lop = cacheLowerOverPivot[slot];
-        double[] cPrime = cacheCPrime[slot];
-        double[] invPivot = cacheInvPivot[slot];
-        double[] pl = cachePLower[slot];
-        double[] pd = cachePDiag[slot];
-        double[] pu = cachePUpper[slot];
-        double[] src = source;
-        double[] dp = rhs;
-        double[] uu = u;
-        int last = n - 1;
         double tau = 0.5 * dt;
-        // reaction constants: mode 0 = none, 1 = linear factor e, 2 = logistic (e, em1), 3 = Nagumo ROS2
-        int mode;
-        double e = 0;
-        double em1 = 0;
-        double k = 0;
-        double a = 0;
-        switch (model) {
-            case DIFFUSION_DECAY -> {
-                mode = p[1] == 0 ? 0 : 1;
-                e = Math.exp(-p[1] * tau);
-            }
-            case FISHER_KPP -> {
-                mode = p[1] == 0 ? 0 : 2;
-                e = Math.exp(p[1] * tau);
-                em1 = Math.expm1(p[1] * tau);
-            }
-            default -> {
-                mode = p[1] == 0 ? 0 : 3;
-                k = p[1];
-                a = p[2];
-            }
+        reactInto(p, tau, u, stage);
+        scaledRightHandSide(stage, cacheSLower[slot], cacheSDiag[slot], cacheSUpper[slot], rhs, n);
+        if (sourceActive) {
+            addScaledSource(source, cacheTwInvPivot[slot], dt, rhs, n);
         }
-        double gt = GAMMA * tau;
-        double vCur = reaction(mode, uu[0], e, em1, k, a, tau, gt);
-        double vNext = reaction(mode, uu[1], e, em1, k, a, tau, gt);
-        double prev = (pd[0] * vCur + pu[0] * vNext + dt * src[0]) * invPivot[0];
-        dp[0] = prev;
+        TridiagonalSolver.solveTwisted(cacheElim[slot], cacheSubst[slot], rhs, u);
+        reactInto(p, tau, u, u);
+    }
+
+    /** out = P v divided row by row by the pivots, with P's rows already scaled ({@code sl, sd, su}). */
+    private static void scaledRightHandSide(double[] v, double[] sl, double[] sd, double[] su, double[] out, int n) {
+        int last = n - 1;
+        out[0] = sd[0] * v[0] + su[0] * v[1];
         for (int i = 1; i < last; i++) {
-            double vPrev = vCur;
-            vCur = vNext;
-            vNext = reaction(mode, uu[i + 1], e, em1, k, a, tau, gt);
-            double r = pl[i] * vPrev + pd[i] * vCur + pu[i] * vNext + dt * src[i];
-            // (r - l p) / pivot written as r / pivot - (l / pivot) p: one multiply-add on the recurrence
-            prev = r * invPivot[i] - lop[i] * prev;
-            dp[i] = prev;
+            out[i] = sl[i] * v[i - 1] + sd[i] * v[i] + su[i] * v[i + 1];
         }
-        double r = pl[last] * vCur + pd[last] * vNext + dt * src[last];
-        double x = r * invPivot[last] - lop[last] * prev;
-        uu[last] = reaction(mode, x, e, em1, k, a, tau, gt);
-        for (int i = last - 1; i >= 0; i--) {
-            x = dp[i] - cPrime[i] * x;
-            uu[i] = reaction(mode, x, e, em1, k, a, tau, gt);
+        out[last] = sl[last] * v[last - 1] + sd[last] * v[last];
+    }
+
+    private static void addScaledSource(double[] source, double[] invPivot, double dt, double[] out, int n) {
+        for (int i = 0; i < n; i++) {
+            out[i] += dt * invPivot[i] * source[i];
         }
     }
 
-    private static double reaction(int mode, double v, double e, double em1, double k, double a, double tau,
-            double gt) {
-        switch (mode) {
-            case 1:
-                return v * e;
-            case 2:
-                return v * e / (1 + v * em1);
-            case 3: {
-                double f = k * v * (1 - v) * (v - a);
-                double jac = k * ((-3 * v + 2 * (1 + a)) * v - a);
-                double w = 1 / (1 - gt * jac);
-                double k1 = f * w;
-                double v2 = v + tau * k1;
-                double f2 = k * v2 * (1 - v2) * (v2 - a);
-                double k2 = (f2 - 2 * k1) * w;
-                return v + tau * (1.5 * k1 + 0.5 * k2);
+    /**
+     * One reaction sub-step of length tau without sensitivities, {@code to[i] = R(from[i])}; from and to may be
+     * the same array. One loop per model with no dependence between nodes, so that it vectorises.
+     */
+    private void reactInto(double[] p, double tau, double[] from, double[] to) {
+        int count = n;
+        switch (model) {
+            case DIFFUSION_DECAY -> {
+                double e = Math.exp(-p[1] * tau);
+                for (int i = 0; i < count; i++) {
+                    to[i] = from[i] * e;
+                }
             }
-            default:
-                return v;
+            case FISHER_KPP -> {
+                double e = Math.exp(p[1] * tau);
+                double em1 = Math.expm1(p[1] * tau);
+                for (int i = 0; i < count; i++) {
+                    double v = from[i];
+                    to[i] = v * e / (1 + v * em1);
+                }
+            }
+            case NAGUMO -> nagumoRos2(from, to, count, p[1], p[2], tau);
+            default -> throw new IllegalStateException();
+        }
+    }
+
+    /** ROS2 for Nagumo's cubic at every node, {@code to[i] = R(from[i])} (the same arithmetic as {@link #react}). */
+    private static void nagumoRos2(double[] from, double[] to, int count, double k, double a, double tau) {
+        double gtk = GAMMA * tau * k;
+        double ap1 = 1 + a;
+        for (int i = 0; i < count; i++) {
+            double v = from[i];
+            double f = k * v * (1 - v) * (v - a);
+            double w = 1 / (1 - gtk * ((-3 * v + 2 * ap1) * v - a));
+            double k1 = f * w;
+            double v2 = v + tau * k1;
+            double f2 = k * v2 * (1 - v2) * (v2 - a);
+            double k2 = (f2 - 2 * k1) * w;
+            to[i] = v + tau * (1.5 * k1 + 0.5 * k2);
         }
     }
 

@@ -35,7 +35,7 @@ class TridiagonalSolverTest {
     @Test
     void agreesWithEjmlDenseSolveWithAndWithoutFactorisation() {
         Random random = new Random(20261201);
-        for (int n : new int[] {1, 2, 3, 17, 200}) {
+        for (int n : new int[] {1, 2, 3, 4, 5, 17, 200}) {
             double[] lower = new double[n];
             double[] diag = new double[n];
             double[] upper = new double[n];
@@ -69,6 +69,20 @@ class TridiagonalSolverTest {
             TridiagonalSolver.solveFactored(lower, cPrime, invPivot, factored, factored);
             // REF: EJML CommonOps_DDRM.solve (dense LU) [common practice]; sheet s6.3
             assertArrayEquals(x.data, factored, 1e-12, "factored, n = " + n);
+            if (n >= 3) {
+                double[] elim = new double[n];
+                double[] subst = new double[n];
+                double[] twInv = new double[n];
+                TridiagonalSolver.factorTwisted(lower, diag, upper, elim, subst, twInv);
+                double[] scaled = new double[n];
+                for (int i = 0; i < n; i++) {
+                    scaled[i] = rhs[i] * twInv[i];
+                }
+                double[] twisted = new double[n];
+                TridiagonalSolver.solveTwisted(elim, subst, scaled, twisted);
+                // REF: EJML CommonOps_DDRM.solve (dense LU) [common practice]; sheet s6.3
+                assertArrayEquals(x.data, twisted, 1e-12, "twisted, n = " + n);
+            }
         }
     }
 
