@@ -73,6 +73,7 @@ public final class ScalarRun {
     private final boolean[] clampOn;
     private final double[][] sens;
     private final double[] sensRhs;
+    private final double[][] sensScaled;
     // u and the sensitivities sampled at the output positions before and after a step with outputs inside it
     private final double[] sampledA;
     private final double[] sampledB;
@@ -89,6 +90,9 @@ public final class ScalarRun {
     private final double[][] cacheElim;
     private final double[][] cacheSubst;
     private final double[][] cacheTwInvPivot;
+    private final double[][] cacheLapLower;
+    private final double[][] cacheLapDiag;
+    private final double[][] cacheLapUpper;
     private final double[][] cacheSLower;
     private final double[][] cacheSDiag;
     private final double[][] cacheSUpper;
@@ -144,6 +148,7 @@ public final class ScalarRun {
         clampOn = new boolean[count];
         sens = new double[model.parameters.size()][n];
         sensRhs = new double[n];
+        sensScaled = new double[model.parameters.size()][n];
         sampledA = new double[positions];
         sampledB = new double[positions];
         sensSampledA = new double[model.parameters.size()][positions];
@@ -158,6 +163,9 @@ public final class ScalarRun {
         cacheElim = new double[CACHE][n];
         cacheSubst = new double[CACHE][n];
         cacheTwInvPivot = new double[CACHE][n];
+        cacheLapLower = new double[CACHE][n];
+        cacheLapDiag = new double[CACHE][n];
+        cacheLapUpper = new double[CACHE][n];
         cacheSLower = new double[CACHE][n];
         cacheSDiag = new double[CACHE][n];
         cacheSUpper = new double[CACHE][n];
@@ -415,6 +423,8 @@ public final class ScalarRun {
                 boolean rannacher = smooth && settings.smoothing();
                 if (!withSens && !rannacher && n >= 3) {
                     fusedStep(p, slot, dt);
+                } else if (!rannacher && n >= 3) {
+                    fusedSensitivityStep(p, slot, dt);
                 } else {
                     react(p, 0.5 * dt, withSens);
                     diffuse(slot, dt, d, rannacher, withSens);
@@ -505,6 +515,9 @@ public final class ScalarRun {
             cacheSLower[k][i] = cachePLower[k][i] * ip;
             cacheSDiag[k][i] = cachePDiag[k][i] * ip;
             cacheSUpper[k][i] = cachePUpper[k][i] * ip;
+            cacheLapLower[k][i] = grid.lower[i] * ip;
+            cacheLapDiag[k][i] = grid.diag[i] * ip;
+            cacheLapUpper[k][i] = grid.upper[i] * ip;
         }
         cacheC[k] = c;
         return k;
@@ -601,6 +614,50 @@ public final class ScalarRun {
         }
         TridiagonalSolver.solveTwisted(cacheElim[slot], cacheSubst[slot], rhs, u);
         reactInto(p, tau, u, u);
+    }
+
+    /**
+     * One Strang step with sensitivities, in the same simple sweeps as {@link #fusedStep}: u and every
+     * sensitivity share the twisted factorisation. d/dD of (B - c L) u1 = (B + c L) u0 + dt B q with c = dt D / 2
+     * gives (B - c L) s1 = (B + c L) s0 + (dt/2) L (u0 + u1); the other parameters enter only the reaction.
+     * Same arithmetic as {@link #react}, {@link #diffuse}, {@link #react} up to rounding.
+     */
+    private void fusedSensitivityStep(double[] p, int slot, double dt) {
+        double tau = 0.5 * dt;
+        react(p, tau, true);
+        double[] sl = cacheSLower[slot];
+        double[] sd = cacheSDiag[slot];
+        double[] su = cacheSUpper[slot];
+        double[] elim = cacheElim[slot];
+        double[] subst = cacheSubst[slot];
+        double half = 0.5 * dt;
+        scaledRightHandSide(u, sl, sd, su, rhs, n);
+        if (sourceActive) {
+            addScaledSource(source, cacheTwInvPivot[slot], dt, rhs, n);
+        }
+        scaledRightHandSide(sens[0], sl, sd, su, sensScaled[0], n);
+        addScaledLaplacian(u, cacheLapLower[slot], cacheLapDiag[slot], cacheLapUpper[slot], half, sensScaled[0], n);
+        for (int q = 1; q < sens.length; q++) {
+            scaledRightHandSide(sens[q], sl, sd, su, sensScaled[q], n);
+        }
+        TridiagonalSolver.solveTwisted(elim, subst, rhs, u);
+        for (int q = 1; q < sens.length; q++) {
+            TridiagonalSolver.solveTwisted(elim, subst, sensScaled[q], sens[q]);
+        }
+        addScaledLaplacian(u, cacheLapLower[slot], cacheLapDiag[slot], cacheLapUpper[slot], half, sensScaled[0], n);
+        TridiagonalSolver.solveTwisted(elim, subst, sensScaled[0], sens[0]);
+        react(p, tau, true);
+    }
+
+    /** out += f (L v) divided row by row by the pivots, with L's rows already scaled ({@code ll, ld, lu}). */
+    private static void addScaledLaplacian(double[] v, double[] ll, double[] ld, double[] lu, double f, double[] out,
+            int n) {
+        int last = n - 1;
+        out[0] += f * (ld[0] * v[0] + lu[0] * v[1]);
+        for (int i = 1; i < last; i++) {
+            out[i] += f * (ll[i] * v[i - 1] + ld[i] * v[i] + lu[i] * v[i + 1]);
+        }
+        out[last] += f * (ll[last] * v[last - 1] + ld[last] * v[last]);
     }
 
     /** out = P v divided row by row by the pivots, with P's rows already scaled ({@code sl, sd, su}). */
@@ -743,10 +800,12 @@ public final class ScalarRun {
      * W = 1 - gamma tau f_u(u), k1 = f(u) / W, k2 = (f(u + tau k1) - 2 k1) / W, u1 = u + tau (3 k1 + k2) / 2.
      */
     private void nagumoWithSens(double k, double a, double tau) {
+        nagumoRos2WithSens(u, sens[0], sens[1], sens[2], n, k, a, tau);
+    }
+
+    private static void nagumoRos2WithSens(double[] u, double[] sD, double[] sK, double[] sA, int n, double k,
+            double a, double tau) {
         double gt = GAMMA * tau;
-        double[] sD = sens[0];
-        double[] sK = sens[1];
-        double[] sA = sens[2];
         for (int i = 0; i < n; i++) {
             double v = u[i];
             double g = v * (1 - v) * (v - a);
