@@ -9,7 +9,7 @@ Diffusion-decay: the closed-form Gaussian pulse with decay (Crank 1975). Nagumo:
 (h = dx_um, 3-point Laplacian, sealed ends), LSODA (rtol 1e-6, atol 1e-9, banded Jacobian), the stimulus as a
 Gaussian added at its time. Intervals: covariance s^2 (J^T J)^-1 at the solution, as in the Java run.
 
-Usage: python3 bench/fit_scipy.py OUT_DIR [repeats]
+Usage: python3 bench/fit_scipy.py OUT_DIR [repeats] [all|diffusion-decay|nagumo]
 """
 import json
 import sys
@@ -125,8 +125,9 @@ def run_case(prefix, repeats):
 def main():
     out = sys.argv[1] if len(sys.argv) > 1 else "bench/out"
     repeats = int(sys.argv[2]) if len(sys.argv) > 2 else 3
+    cases = sys.argv[3] if len(sys.argv) > 3 else "all"
     print("case,positions,frames,scipy_fit_s,,nfev,rel_err_D,rel_err_k,rel_err_third,ci_D_lo,ci_D_hi")
-    for model in ("diffusion-decay", "nagumo"):
+    for model in ("diffusion-decay", "nagumo") if cases == "all" else (cases,):
         for nx, nt in ((60, 150), (200, 400), (400, 1500)):
             run_case("%s/%s-%dx%d" % (out, model, nx, nt), repeats)
 

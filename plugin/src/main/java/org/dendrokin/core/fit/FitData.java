@@ -13,6 +13,8 @@ public final class FitData {
     private final double[] values;
     private final double[] sigmas;
     private final int[] used;
+    private final double[] weights;
+    private final double[] observed;
 
     /**
      * @param values observed value at each grid point, signal units; NaN marks a missing point
@@ -26,6 +28,12 @@ public final class FitData {
         this.used = java.util.stream.IntStream.range(0, values.length)
                 .filter(i -> Double.isFinite(values[i]) && sigmas[i] > 0 && Double.isFinite(sigmas[i]))
                 .toArray();
+        this.weights = new double[values.length];
+        this.observed = new double[values.length];
+        for (int g : used) {
+            weights[g] = 1 / (sigmas[g] * sigmas[g]);
+            observed[g] = values[g];
+        }
     }
 
     /** Unweighted data: every sigma is 1. */
@@ -68,6 +76,19 @@ public final class FitData {
 
     public double sigma(int gridIndex) {
         return sigmas[gridIndex];
+    }
+
+    /** Weight 1 / sigma^2 of a grid point, 0 for a point left out of the fit. */
+    public double weight(int gridIndex) {
+        return weights[gridIndex];
+    }
+
+    /**
+     * The observed value of a grid point, 0 for a point left out of the fit (so that weight times residual is
+     * always finite; pair it with {@link #weight}).
+     */
+    public double observed(int gridIndex) {
+        return observed[gridIndex];
     }
 
     /** A copy of the observed values over the whole grid. */

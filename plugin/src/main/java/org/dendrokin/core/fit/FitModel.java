@@ -32,6 +32,29 @@ public interface FitModel {
         return true;
     }
 
+    /**
+     * True if {@link #normalEquations} is implemented. The fitter then solves large problems through them (one
+     * pass over the data per parameter point, no n x p Jacobian kept) instead of through {@link #evaluate}.
+     */
+    default boolean hasNormalEquations() {
+        return false;
+    }
+
+    /**
+     * Predicts the grid and sums the weighted normal equations over the data in one pass: A = sum w_i J_i J_i^T,
+     * g = sum w_i r_i J_i, chi^2 = sum w_i r_i^2 with J_i = d f_i / d theta (natural scale), r_i = y_i - f_i and
+     * w_i = {@link FitData#weight}. Must agree with {@link #evaluate} to rounding and be safe to call from several
+     * threads at once. Only called when {@link #hasNormalEquations()}.
+     *
+     * @param parameters natural parameter values. Not modified.
+     * @param data       observations on this model's grid. Not modified.
+     * @param out        cleared and filled. Modified.
+     * @param fitted     if not null, receives the prediction at every grid point, length {@link #size()}. Modified.
+     */
+    default void normalEquations(double[] parameters, FitData data, NormalEquations out, double[] fitted) {
+        throw new UnsupportedOperationException(name() + " has no one-pass normal equations");
+    }
+
     /** The parameters whose intervals users read first (profiled when profiles are asked for). */
     default List<String> headlineParameters() {
         return List.of();

@@ -17,6 +17,9 @@ import org.apache.commons.math3.fitting.leastsquares.LevenbergMarquardtOptimizer
 import org.apache.commons.math3.fitting.leastsquares.ValueAndJacobianFunction;
 import org.apache.commons.math3.linear.Array2DRowRealMatrix;
 import org.apache.commons.math3.linear.ArrayRealVector;
+import org.apache.commons.math3.linear.CholeskyDecomposition;
+import org.apache.commons.math3.linear.EigenDecomposition;
+import org.apache.commons.math3.linear.MatrixUtils;
 import org.apache.commons.math3.linear.RealMatrix;
 import org.apache.commons.math3.linear.RealVector;
 import org.apache.commons.math3.linear.SingularValueDecomposition;
@@ -39,6 +42,15 @@ import org.dendrokin.core.Progress;
  * do not close. A parametric bootstrap (optional): refits to f(theta_hat) + s sigma_i z_i, z_i standard
  * normal from a seeded generator, in parallel; 2.5th and 97.5th percentiles.
  *
+ * <p>Large problems of a model with one-pass {@link FitModel#normalEquations} are handed to the optimiser in
+ * compressed form: at each point A = J^T W J, g = J^T W r and chi^2 are summed in one pass, A = R^T R (Cholesky),
+ * z = R^-T g, rho = sqrt(chi^2 - |z|^2), and the optimiser sees the p + 1 residuals (z, rho) with the Jacobian
+ * (R; 0). Since (R; 0)^T (R; 0) = J^T W J, (R; 0)^T (z, rho) = J^T W r and |(z, rho)|^2 = chi^2, every quantity
+ * the Levenberg-Marquardt iteration uses (steps, predicted and actual reductions, column scaling, the
+ * orthogonality test) is that of the full problem, while each iteration costs O(p^3) instead of O(n p^2). Forming
+ * J^T W J squares the condition number, so a start falls back to the full problem when the scaled A is worse
+ * conditioned than 1e8 (or not positive definite) anywhere on its way.
+ *
  * <p>Nothing numerical throws: a start that fails is skipped, and if all fail, or J^T J is singular, the result
  * says {@code converged = false} with the reason.
  */
@@ -46,6 +58,20 @@ public final class ModelFit {
     private static final double SINGULAR_CONDITION = 1e13;
     /** chi^2 / (n - p) below which the remaining starts are skipped (the weights make it about 1 for a good fit). */
     private static final double NOISE_LEVEL_FIT = 1.2;
+    /** Data points per parameter from which a model with one-pass normal equations is fitted in compressed form. */
+    private static final int COMPRESS_POINTS_PER_PARAMETER = 50;
+    /** Largest condition number of the scaled J^T W J for which the compressed form is trusted. */
+    private static final double COMPRESS_MAX_CONDITION = 1e8;
+
+    /** How the problem is handed to the optimiser; package-private so that tests can compare the two. */
+    enum Form {
+        /** Compressed when the model has one-pass normal equations and the data are many. */
+        AUTO,
+        /** Always the n weighted residuals and the n x p Jacobian. */
+        FULL,
+        /** Always the p + 1 compressed residuals (the model must have one-pass normal equations). */
+        COMPRESSED
+    }
 
     /**
      * How to fit.
@@ -92,15 +118,20 @@ public final class ModelFit {
     private final List<ParameterSpec> specs;
     private final int p;
     private final AtomicLong evaluations = new AtomicLong();
+    private final boolean compressed;
 
-    private ModelFit(FitModel model, FitData data, Options options) {
+    private ModelFit(FitModel model, FitData data, Options options, Form form) {
         Checks.require(model.size() == data.size(),
                 "model " + model.name() + " predicts " + model.size() + " points but the data have " + data.size());
+        Checks.require(form != Form.COMPRESSED || model.hasNormalEquations(),
+                "model " + model.name() + " has no one-pass normal equations");
         this.model = model;
         this.data = data;
         this.options = options;
         this.specs = model.parameters();
         this.p = specs.size();
+        this.compressed = form == Form.COMPRESSED || (form == Form.AUTO && model.hasNormalEquations()
+                && data.usedCount() >= COMPRESS_POINTS_PER_PARAMETER * p);
     }
 
     /**
@@ -114,8 +145,14 @@ public final class ModelFit {
      */
     public static FitResult fit(FitModel model, FitData data, List<double[]> starts, Options options,
                                 Progress progress) {
+        return fit(model, data, starts, options, progress, Form.AUTO);
+    }
+
+    /** As {@link #fit(FitModel, FitData, List, Options, Progress)}, with the form of the problem chosen. */
+    static FitResult fit(FitModel model, FitData data, List<double[]> starts, Options options, Progress progress,
+                         Form form) {
         Checks.require(!starts.isEmpty(), "a fit needs at least one starting point");
-        return new ModelFit(model, data, options).run(starts, progress);
+        return new ModelFit(model, data, options, form).run(starts, progress);
     }
 
     private FitResult run(List<double[]> starts, Progress progress) {
@@ -171,8 +208,24 @@ public final class ModelFit {
         double[] u = best.u;
         double[] theta = natural(u);
         double[] fitted = new double[model.size()];
-        model.evaluate(theta, fitted, null);
-        evaluations.incrementAndGet();
+        double[][] normal = null;
+        if (compressed) {
+            // one pass gives the prediction and J^T W J for the intervals
+            NormalEquations ne = new NormalEquations(p);
+            model.normalEquations(theta, data, ne, fitted);
+            evaluations.incrementAndGet();
+            if (ne.isFinite()) {
+                normal = new double[p][p];
+                for (int a = 0; a < p; a++) {
+                    for (int b = 0; b < p; b++) {
+                        normal[a][b] = ne.matrix(a, b) * specs.get(a).derivative(u[a]) * specs.get(b).derivative(u[b]);
+                    }
+                }
+            }
+        } else {
+            model.evaluate(theta, fitted, null);
+            evaluations.incrementAndGet();
+        }
         double chi2 = best.chiSquare;
         double rss = 0;
         for (int i = 0; i < n; i++) {
@@ -188,8 +241,8 @@ public final class ModelFit {
         double aicc = InformationCriteria.aicc(chi2, n, p);
         double bic = InformationCriteria.bic(chi2, n, p);
 
-        double[][] jac = weightedJacobian(u, new boolean[p], data);
-        double[][] cov = covariance(jac, s2);
+        double[][] cov = normal != null ? covarianceOfNormal(normal, s2)
+                : compressed ? null : covariance(weightedJacobian(u, new boolean[p], data), s2);
         boolean[] atBound = atBound(u);
         if (cov == null) {
             String names = String.join(", ", specs.stream().map(ParameterSpec::name).toList());
@@ -272,17 +325,30 @@ public final class ModelFit {
      * Minimises chi^2 over the coordinates not marked fixed, starting from u0 (fixed ones keep their u0 value).
      */
     private Local minimise(double[] u0, boolean[] fixed, FitData target) {
-        Local out = new Local();
         int[] free = IntStream.range(0, p).filter(j -> !fixed[j]).toArray();
-        Objective objective = new Objective(u0, free, target);
-        double[] start = new double[free.length];
-        for (int f = 0; f < free.length; f++) {
-            start[f] = u0[free[f]];
+        if (compressed) {
+            try {
+                CompressedObjective objective = new CompressedObjective(u0, free, target);
+                return minimise(u0, free, objective, new double[free.length + 1], () -> objective.nonFinite);
+            } catch (CompressionBreakdown e) {
+                // J^T W J is too ill-conditioned somewhere on the way: start again on the full problem
+            }
         }
+        Objective objective = new Objective(u0, free, target);
         double[] y = new double[target.usedCount()];
         for (int i = 0; i < y.length; i++) {
             int g = target.usedIndex(i);
             y[i] = target.value(g) / target.sigma(g);
+        }
+        return minimise(u0, free, objective, y, () -> objective.nonFinite);
+    }
+
+    private Local minimise(double[] u0, int[] free, ValueAndJacobianFunction objective, double[] y,
+                           java.util.function.BooleanSupplier nonFinite) {
+        Local out = new Local();
+        double[] start = new double[free.length];
+        for (int f = 0; f < free.length; f++) {
+            start[f] = u0[free[f]];
         }
         LeastSquaresProblem problem = new LeastSquaresBuilder()
                 .start(start)
@@ -305,7 +371,7 @@ public final class ModelFit {
             double cost = optimum.getCost();
             out.u = u;
             out.chiSquare = cost * cost;
-            if (!Double.isFinite(out.chiSquare) || objective.nonFinite) {
+            if (!Double.isFinite(out.chiSquare) || nonFinite.getAsBoolean()) {
                 out.failure = "the model gave no finite prediction near the optimum";
             }
         } catch (MathIllegalStateException e) {
@@ -370,6 +436,145 @@ public final class ModelFit {
                 }
             }
             return new Array2DRowRealMatrix(j, false);
+        }
+
+        @Override
+        public Pair<RealVector, RealMatrix> value(RealVector point) {
+            double[] x = point.toArray();
+            return new Pair<>(computeValue(x), computeJacobian(x));
+        }
+    }
+
+    /** Signals that the compressed form cannot be trusted at some point; the start is redone on the full problem. */
+    private static final class CompressionBreakdown extends RuntimeException {
+        private static final long serialVersionUID = 1L;
+
+        CompressionBreakdown() {
+            super(null, null, false, false);
+        }
+    }
+
+    /**
+     * The compressed problem (see the class comment): residuals (z, rho) and Jacobian (R; 0) on the free
+     * coordinates, with target 0 so that target - model = (z, rho). The optimiser asks for the value and the
+     * Jacobian of a point separately and sometimes twice; a few recent points are kept so that each costs one pass.
+     */
+    private final class CompressedObjective implements ValueAndJacobianFunction {
+        private static final int CACHE = 4;
+        private final double[] base;
+        private final int[] free;
+        private final FitData target;
+        private final NormalEquations normal = new NormalEquations(p);
+        private final double[][] keys = new double[CACHE][];
+        private final double[][] values = new double[CACHE][];
+        private final double[][][] jacobians = new double[CACHE][][];
+        private int next;
+        boolean nonFinite;
+
+        CompressedObjective(double[] base, int[] free, FitData target) {
+            this.base = base.clone();
+            this.free = free;
+            this.target = target;
+        }
+
+        private int slot(double[] uFree) {
+            for (int i = 0; i < CACHE; i++) {
+                if (keys[i] != null && Arrays.equals(keys[i], uFree)) {
+                    return i;
+                }
+            }
+            int i = next;
+            next = (next + 1) % CACHE;
+            keys[i] = null;
+            compute(uFree, i);
+            keys[i] = uFree.clone();
+            return i;
+        }
+
+        private void compute(double[] uFree, int i) {
+            double[] u = base.clone();
+            for (int f = 0; f < free.length; f++) {
+                u[free[f]] = uFree[f];
+            }
+            model.normalEquations(natural(u), target, normal, null);
+            evaluations.incrementAndGet();
+            int q = free.length;
+            double[] value = new double[q + 1];
+            values[i] = value;
+            jacobians[i] = null;
+            nonFinite = !normal.isFinite();
+            if (nonFinite) {
+                value[q] = -1e30 * Math.sqrt(target.usedCount());  // pushes the optimiser back, as on the full problem
+                return;
+            }
+            double[] chain = new double[q];
+            double[] root = new double[q];
+            for (int a = 0; a < q; a++) {
+                chain[a] = specs.get(free[a]).derivative(u[free[a]]);
+                double diag = normal.matrix(free[a], free[a]) * chain[a] * chain[a];
+                if (!(diag > 0)) {
+                    throw new CompressionBreakdown();
+                }
+                root[a] = Math.sqrt(diag);
+            }
+            // scaled A (unit diagonal), so the condition test and the Cholesky thresholds are scale-free
+            double[][] scaled = new double[q][q];
+            for (int a = 0; a < q; a++) {
+                for (int b = 0; b < q; b++) {
+                    scaled[a][b] = normal.matrix(free[a], free[b]) * chain[a] * chain[b] / (root[a] * root[b]);
+                }
+            }
+            RealMatrix s = new Array2DRowRealMatrix(scaled, false);
+            double[] eig = new EigenDecomposition(s).getRealEigenvalues();
+            double lo = Double.POSITIVE_INFINITY;
+            double hi = 0;
+            for (double ev : eig) {
+                lo = Math.min(lo, ev);
+                hi = Math.max(hi, ev);
+            }
+            if (!(lo > 0) || hi / lo > COMPRESS_MAX_CONDITION) {
+                throw new CompressionBreakdown();
+            }
+            RealMatrix l;
+            try {
+                l = new CholeskyDecomposition(s, 1e-12, 0).getL();
+            } catch (org.apache.commons.math3.linear.NonPositiveDefiniteMatrixException e) {
+                throw new CompressionBreakdown();
+            }
+            // A = D S D, S = L L^T, so R = L^T D and z solves (D L) z = g, i.e. L z = g / D
+            double[] z = new double[q];
+            for (int a = 0; a < q; a++) {
+                z[a] = normal.gradient(free[a]) * chain[a] / root[a];
+            }
+            RealVector zv = new ArrayRealVector(z, false);
+            MatrixUtils.solveLowerTriangularSystem(l, zv);
+            double zz = 0;
+            for (int a = 0; a < q; a++) {
+                zz += z[a] * z[a];
+                value[a] = -z[a];
+            }
+            value[q] = -Math.sqrt(Math.max(0, normal.chiSquare() - zz));
+            double[][] jac = new double[q + 1][q];
+            for (int a = 0; a < q; a++) {
+                for (int b = a; b < q; b++) {
+                    jac[a][b] = l.getEntry(b, a) * root[b];
+                }
+            }
+            jacobians[i] = jac;
+        }
+
+        @Override
+        public RealVector computeValue(double[] uFree) {
+            return new ArrayRealVector(values[slot(uFree)], true);
+        }
+
+        @Override
+        public RealMatrix computeJacobian(double[] uFree) {
+            double[][] jac = jacobians[slot(uFree)];
+            if (jac == null) {
+                throw new CompressionBreakdown();   // the model broke down at an accepted point
+            }
+            return new Array2DRowRealMatrix(jac, true);
         }
 
         @Override
@@ -458,11 +663,19 @@ public final class ModelFit {
                 }
             }
         }
-        double[] scale = new double[q];
         for (int a = 0; a < q; a++) {
             for (int b = 0; b < a; b++) {
                 jtj[a][b] = jtj[b][a];
             }
+        }
+        return covarianceOfNormal(jtj, s2);
+    }
+
+    /** s^2 A^-1 for A = J^T J (symmetric, not modified), or null if A is singular as for {@link #covariance}. */
+    static double[][] covarianceOfNormal(double[][] jtj, double s2) {
+        int q = jtj.length;
+        double[] scale = new double[q];
+        for (int a = 0; a < q; a++) {
             if (!(jtj[a][a] > 0) || !Double.isFinite(jtj[a][a])) {
                 return null;
             }

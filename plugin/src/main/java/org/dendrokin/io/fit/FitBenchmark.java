@@ -34,7 +34,8 @@ import org.dendrokin.io.KymographCsv;
  * h = 0.5 um, fixed time step). Both with Student t intervals from the Jacobian; profile-likelihood intervals
  * are timed separately.
  *
- * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.fit.FitBenchmark OUT_DIR [repeats]}
+ * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.fit.FitBenchmark OUT_DIR [repeats] [cases]}, cases
+ * {@code all} (the default), {@code diffusion-decay} or {@code nagumo}.
  */
 public final class FitBenchmark {
     static final int[][] SIZES = {{60, 150}, {200, 400}, {400, 1500}};
@@ -47,14 +48,23 @@ public final class FitBenchmark {
     public static void main(String[] args) throws IOException {
         Path out = Path.of(args.length > 0 ? args[0] : "bench/out");
         int repeats = args.length > 1 ? Integer.parseInt(args[1]) : 3;
+        String cases = args.length > 2 ? args[2] : "all";
+        if (!List.of("all", "diffusion-decay", "nagumo").contains(cases)) {
+            System.err.println("cases must be all, diffusion-decay or nagumo, not " + cases);
+            System.exit(2);
+        }
         Files.createDirectories(out);
         System.out.println("case,positions,frames,java_fit_s,java_profile_s,evaluations,rel_err_D,rel_err_k,"
                 + "rel_err_third,ci_D_lo,ci_D_hi");
-        for (int[] size : SIZES) {
-            diffusionDecay(out, size[0], size[1], repeats);
+        if (!cases.equals("nagumo")) {
+            for (int[] size : SIZES) {
+                diffusionDecay(out, size[0], size[1], repeats);
+            }
         }
-        for (int[] size : SIZES) {
-            nagumo(out, size[0], size[1], repeats);
+        if (!cases.equals("diffusion-decay")) {
+            for (int[] size : SIZES) {
+                nagumo(out, size[0], size[1], repeats);
+            }
         }
     }
 

@@ -107,6 +107,68 @@ class DiffusionDecayPulseTest {
         assertTrue(openErr > 10 * maxErr, "without images the sealed end is missed: " + openErr + " vs " + maxErr);
     }
 
+    @Test
+    void onePassNormalEquationsAgreeWithTheJacobianOfEvaluate() {
+        double[] even = grid(0, 20, 81);
+        double[] uneven = even.clone();
+        for (int c = 0; c < uneven.length; c++) {
+            uneven[c] += 0.03 * Math.sin(c);   // columns not evenly spaced: exact exponentials instead of the recurrence
+        }
+        double[] t = grid(0, 12, 25);
+        for (double[] x : new double[][] {even, uneven}) {
+            for (double[] walls : new double[][] {null, {0, 20}}) {
+                for (double t0 : new double[] {1.7, Double.NaN}) {
+                    for (double x0 : new double[] {6.5, Double.NaN}) {
+                        check(new DiffusionDecayPulse(x, t, t0, x0, walls, Unit.DF_F0), walls != null);
+                    }
+                }
+            }
+        }
+    }
+
+    private static void check(DiffusionDecayPulse m, boolean walls) {
+        int np = m.parameters().size();
+        double[] p = m.pack(0.8, 0.07, 1.3, 6.5, 0.9, 0.1, 1.7);
+        double[] y = new double[m.size()];
+        double[] sigma = new double[m.size()];
+        java.util.Random random = new java.util.Random(7);
+        double[] truth = new double[m.size()];
+        m.evaluate(m.pack(0.6, 0.05, 1.5, 7.0, 1.1, 0.12, 1.5), truth, null);
+        for (int g = 0; g < y.length; g++) {
+            y[g] = g % 37 == 5 ? Double.NaN : truth[g] + 0.02 * random.nextGaussian();   // some points missing
+            sigma[g] = 0.02 + 0.01 * (g % 3);
+        }
+        FitData data = new FitData(y, sigma);
+        double[] values = new double[m.size()];
+        double[] jac = new double[m.size() * np];
+        m.evaluate(p, values, jac);
+        NormalEquations expected = new NormalEquations(np);
+        double[] row = new double[np];
+        for (int i = 0; i < data.usedCount(); i++) {
+            int g = data.usedIndex(i);
+            System.arraycopy(jac, g * np, row, 0, np);
+            expected.addPoint(row, 1 / (sigma[g] * sigma[g]), y[g] - values[g]);
+        }
+        NormalEquations got = new NormalEquations(np);
+        double[] fitted = new double[m.size()];
+        m.normalEquations(p, data, got, fitted);
+        String what = m.parameters() + (walls ? " with sealed ends" : "");
+        // REF: definition of the weighted normal equations A = J^T W J, g = J^T W r, chi^2 = r^T W r [common practice]
+        assertEquals(expected.chiSquare(), got.chiSquare(), 1e-11 * expected.chiSquare(), "chi^2, " + what);
+        for (int a = 0; a < np; a++) {
+            double scaleA = Math.sqrt(expected.matrix(a, a));
+            assertEquals(expected.gradient(a), got.gradient(a), 1e-11 * scaleA * Math.sqrt(expected.chiSquare()),
+                    "g_" + a + ", " + what);
+            for (int b = 0; b < np; b++) {
+                double scale = scaleA * Math.sqrt(expected.matrix(b, b));
+                assertEquals(expected.matrix(a, b), got.matrix(a, b), 1e-11 * scale, "A_" + a + b + ", " + what);
+            }
+        }
+        for (int g = 0; g < values.length; g++) {
+            assertEquals(values[g], fitted[g], 1e-12 * (1 + Math.abs(values[g])), "prediction at " + g + ", " + what);
+        }
+    }
+
     static double[] grid(double from, double to, int n) {
         double[] g = new double[n];
         for (int i = 0; i < n; i++) {

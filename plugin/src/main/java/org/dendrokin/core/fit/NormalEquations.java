@@ -1,0 +1,106 @@
+package org.dendrokin.core.fit;
+
+import java.util.Arrays;
+
+/**
+ * The weighted normal equations of a fit at one parameter point, summed over the data without keeping the
+ * n x p Jacobian: A = sum_i w_i J_i J_i^T, g = sum_i w_i r_i J_i and chi^2 = sum_i w_i r_i^2, where J_i is the
+ * row d f_i / d theta on the natural scale, r_i = y_i - f_i the residual and w_i = 1 / sigma_i^2 the weight of
+ * the used points (0 for points left out). A model that can form them in one pass over its grid fills them in
+ * {@link FitModel#normalEquations}; {@link ModelFit} turns them into a small equivalent problem for the
+ * optimiser. Not thread-safe: one instance per evaluation in flight.
+ */
+public final class NormalEquations {
+    private final int p;
+    private final double[] matrix;
+    private final double[] gradient;
+    private double chiSquare;
+
+    /** Empty equations for {@code parameterCount} parameters. */
+    public NormalEquations(int parameterCount) {
+        this.p = parameterCount;
+        this.matrix = new double[parameterCount * parameterCount];
+        this.gradient = new double[parameterCount];
+    }
+
+    public int parameterCount() {
+        return p;
+    }
+
+    /** Sets A, g and chi^2 to zero. */
+    public void clear() {
+        Arrays.fill(matrix, 0);
+        Arrays.fill(gradient, 0);
+        chiSquare = 0;
+    }
+
+    /**
+     * Adds one data point.
+     *
+     * @param row      d f_i / d theta, natural scale, length {@link #parameterCount()}. Not modified.
+     * @param weight   w_i = 1 / sigma_i^2 (0 adds nothing but the finite products)
+     * @param residual r_i = y_i - f_i
+     */
+    public void addPoint(double[] row, double weight, double residual) {
+        for (int a = 0; a < p; a++) {
+            double wa = weight * row[a];
+            if (wa != 0) {
+                for (int b = 0; b < p; b++) {
+                    matrix[a * p + b] += wa * row[b];
+                }
+                gradient[a] += wa * residual;
+            }
+        }
+        chiSquare += weight * residual * residual;
+    }
+
+    /**
+     * Adds a partial sum (for instance one block of frames).
+     *
+     * @param partMatrix   its A, row-major p x p. Not modified.
+     * @param partGradient its g, length p. Not modified.
+     * @param partChi      its chi^2
+     */
+    public void addPartial(double[] partMatrix, double[] partGradient, double partChi) {
+        for (int i = 0; i < matrix.length; i++) {
+            matrix[i] += partMatrix[i];
+        }
+        for (int a = 0; a < p; a++) {
+            gradient[a] += partGradient[a];
+        }
+        chiSquare += partChi;
+    }
+
+    /** A_ab. */
+    public double matrix(int a, int b) {
+        return matrix[a * p + b];
+    }
+
+    /** g_a. */
+    public double gradient(int a) {
+        return gradient[a];
+    }
+
+    /** chi^2. */
+    public double chiSquare() {
+        return chiSquare;
+    }
+
+    /** True if A, g and chi^2 are all finite numbers. */
+    public boolean isFinite() {
+        if (!Double.isFinite(chiSquare)) {
+            return false;
+        }
+        for (double v : matrix) {
+            if (!Double.isFinite(v)) {
+                return false;
+            }
+        }
+        for (double v : gradient) {
+            if (!Double.isFinite(v)) {
+                return false;
+            }
+        }
+        return true;
+    }
+}
