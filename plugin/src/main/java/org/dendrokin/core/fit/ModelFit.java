@@ -387,6 +387,9 @@ public final class ModelFit {
         private final double[] base;
         private final int[] free;
         private final FitData target;
+        private double[] lastPoint;
+        private double[] lastValue;
+        private boolean lastNonFinite;
         boolean nonFinite;
 
         Objective(double[] base, int[] free, FitData target) {
@@ -405,10 +408,19 @@ public final class ModelFit {
 
         @Override
         public RealVector computeValue(double[] uFree) {
+            // The optimiser asks twice for the value of each trial point (residuals, then cost): compute it once.
+            if (lastPoint != null && Arrays.equals(lastPoint, uFree)) {
+                nonFinite = lastNonFinite;
+                return new ArrayRealVector(lastValue, true);
+            }
             double[] values = new double[model.size()];
             model.evaluate(natural(full(uFree)), values, null);
             evaluations.incrementAndGet();
-            return new ArrayRealVector(gather(values), false);
+            double[] v = gather(values);
+            lastPoint = uFree.clone();
+            lastValue = v;
+            lastNonFinite = nonFinite;
+            return new ArrayRealVector(v, true);
         }
 
         private double[] gather(double[] values) {
