@@ -32,8 +32,12 @@ public final class DiffusionDecayPulse implements FitModel {
     private static final int MAX_IMAGES = 50;
     /** Samples between exact restarts of the Gaussian recurrence (rounding grows like BLOCK^2 ulp, about 3e-14). */
     private static final int BLOCK = 16;
-    /** Grid points per block of frames summed by one task; fixed, so the sums do not depend on the core count. */
+    /**
+     * Grid points per block of frames summed by one task, and the most blocks; both fixed, so that the sums do not
+     * depend on the number of cores.
+     */
     private static final int POINTS_PER_TASK = 4096;
+    private static final int MAX_TASKS = 64;
 
     private final double[] xUm;
     private final double[] tS;
@@ -45,6 +49,25 @@ public final class DiffusionDecayPulse implements FitModel {
     private final int iTime;
     /** Column spacing, um, if the columns are evenly spaced (to 1e-10 of a step), else NaN. */
     private final double stepUm;
+    /** Work arrays of the one-pass sums, one set per thread, reused from evaluation to evaluation. */
+    private final ThreadLocal<Scratch> scratch;
+
+    private static final class Scratch {
+        final double[] e;
+        final double[] eq;
+        final double[] ex;
+        final double[] m;
+        final double[] s = new double[16];
+        final double[] ms;
+
+        Scratch(int nx, int np) {
+            e = new double[nx];
+            eq = new double[nx];
+            ex = new double[nx];
+            m = new double[np * 4];
+            ms = new double[np * 4];
+        }
+    }
 
     /**
      * @param distancesUm     positions of the columns, um. Not modified.
@@ -84,6 +107,9 @@ public final class DiffusionDecayPulse implements FitModel {
         }
         this.specs = List.copyOf(s);
         this.stepUm = evenStep(xUm);
+        int nx = xUm.length;
+        int np = specs.size();
+        this.scratch = ThreadLocal.withInitial(() -> new Scratch(nx, np));
     }
 
     private static double evenStep(double[] x) {
@@ -267,7 +293,7 @@ public final class DiffusionDecayPulse implements FitModel {
         int np = specs.size();
         int nx = xUm.length;
         int nt = tS.length;
-        int framesPerTask = Math.max(1, POINTS_PER_TASK / nx);
+        int framesPerTask = Math.max(Math.max(1, POINTS_PER_TASK / nx), (nt + MAX_TASKS - 1) / MAX_TASKS);
         int tasks = (nt + framesPerTask - 1) / framesPerTask;
         double[][] parts = new double[tasks][];
         IntStream range = IntStream.range(0, tasks);
@@ -305,13 +331,13 @@ public final class DiffusionDecayPulse implements FitModel {
         double[] part = new double[np * np + np + 1];
         int gOff = np * np;
         int chiOff = gOff + np;
-        double[] e = new double[nx];
-        double[] eq = new double[nx];
-        double[] ex = new double[nx];
-        double[] m = new double[np * 4];
-        double[] sm = new double[16];
-        double[] ms = new double[np * 4];
-        double[] tv = new double[4];
+        Scratch work = scratch.get();
+        double[] e = work.e;
+        double[] eq = work.eq;
+        double[] ex = work.ex;
+        double[] m = work.m;
+        double[] sm = work.s;
+        double[] ms = work.ms;
         for (int f = from; f < to; f++) {
             double tau = tS[f] - t0;
             int row = f * nx;
@@ -389,10 +415,6 @@ public final class DiffusionDecayPulse implements FitModel {
             s[4] = seq;  s[5] = sqq;  s[6] = sqx;  s[7] = sq;
             s[8] = sex;  s[9] = sqx;  s[10] = sxx; s[11] = sx;
             s[12] = se;  s[13] = sq;  s[14] = sx;  s[15] = s1;
-            tv[0] = te;
-            tv[1] = tq;
-            tv[2] = tx;
-            tv[3] = t1;
             // d value / d theta = M phi, phi = (e, eq, ex, 1); the rows follow the Jacobian of evaluate()
             java.util.Arrays.fill(m, 0);
             m[0] = -tau * val / v;

@@ -126,6 +126,34 @@ class DiffusionDecayPulseTest {
         }
     }
 
+    @Test
+    void onePassSumsDoNotDependOnHowTheBlocksAreScheduled() {
+        // enough frames for several blocks summed in parallel; the blocks are added in a fixed order
+        double[] x = grid(0, 40, 161);
+        double[] t = grid(0, 60, 241);
+        DiffusionDecayPulse m = new DiffusionDecayPulse(x, t, 1.0, Double.NaN, new double[] {0, 40}, Unit.DF_F0);
+        double[] y = new double[m.size()];
+        m.evaluate(m.pack(0.6, 0.05, 1.5, 12, 1.1, 0.12, 1.0), y, null);
+        double[] sigma = new double[m.size()];
+        java.util.Arrays.fill(sigma, 0.05);
+        FitData data = new FitData(y, sigma);
+        double[] p = m.pack(0.7, 0.04, 1.4, 12.5, 1.0, 0.1, 1.0);
+        NormalEquations first = new NormalEquations(p.length);
+        m.normalEquations(p, data, first, null);
+        for (int repeat = 0; repeat < 5; repeat++) {
+            NormalEquations again = new NormalEquations(p.length);
+            m.normalEquations(p, data, again, null);
+            // REF: reproducible results from seeded, fixed-order computations [common practice]
+            assertEquals(first.chiSquare(), again.chiSquare(), 0.0, "chi^2 identical to the last bit");
+            for (int a = 0; a < p.length; a++) {
+                assertEquals(first.gradient(a), again.gradient(a), 0.0, "g identical to the last bit");
+                for (int b = 0; b < p.length; b++) {
+                    assertEquals(first.matrix(a, b), again.matrix(a, b), 0.0, "A identical to the last bit");
+                }
+            }
+        }
+    }
+
     private static void check(DiffusionDecayPulse m, boolean walls) {
         int np = m.parameters().size();
         double[] p = m.pack(0.8, 0.07, 1.3, 6.5, 0.9, 0.1, 1.7);
