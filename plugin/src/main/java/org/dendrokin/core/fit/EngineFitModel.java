@@ -13,9 +13,12 @@ import org.dendrokin.core.units.Unit;
 /**
  * Any scalar engine model ({@link ScalarRun}) as a fit model: the observed signal is b + A u(x, t; theta), with
  * u from the engine (Strang-split Crank-Nicolson on the model's domain, stimuli fixed as given) and theta the
- * model's own parameters, plus the amplitude A and baseline b. The Jacobian comes from the engine's forward
- * sensitivities (exact derivatives of its discrete solution), multiplied by A. The engine runs with a fixed
- * time step chosen once from the starting parameters, so the objective is a smooth function of theta.
+ * model's own parameters, plus the amplitude A and baseline b. The engine runs with a fixed time step chosen once
+ * from the starting parameters, so the objective is a smooth function of theta, and the Jacobian columns of theta
+ * are forward differences of the engine's own solve (relative step 1e-7, runs in parallel), multiplied by A;
+ * those of A and b are exact. Forward differences cost one plain run per parameter, several times less than the
+ * engine's forward-sensitivity solve ({@link ScalarRun#solveWithSensitivities}), and agree with it to about
+ * 1e-6 relative.
  *
  * <p>Scales: D, k, r (and any other rate or diffusion coefficient) on the log scale; Nagumo's threshold a on a
  * logistic map onto (0, 0.5), where the front invades the resting state.
@@ -30,16 +33,16 @@ public final class EngineFitModel implements FitModel {
     private final List<ParameterSpec> specs;
     private final int engineParameters;
     private final ThreadLocal<Work> work;
+    /** Relative step of the forward differences (the engine's output is smooth in theta at a fixed time step). */
+    private static final double RELATIVE_STEP = 1e-7;
 
     private static final class Work {
         final ScalarRun run;
         final double[] u;
-        final double[][] sens;
 
-        Work(ScalarRun run, int size, int np) {
+        Work(ScalarRun run, int size) {
             this.run = run;
             this.u = new double[size];
-            this.sens = new double[np][size];
         }
     }
 
@@ -79,7 +82,7 @@ public final class EngineFitModel implements FitModel {
         int size = outputTimesS.length * outputPositionsUm.length;
         this.work = ThreadLocal.withInitial(() -> new Work(
                 ScalarRun.prepare(model, domain, this.outputTimesS, this.outputPositionsUm, this.stimuli, settings),
-                size, engineParameters));
+                size));
     }
 
     @Override
@@ -145,28 +148,51 @@ public final class EngineFitModel implements FitModel {
 
     @Override
     public void evaluate(double[] p, double[] values, double[] jac) {
-        Work w = work.get();
         double[] theta = java.util.Arrays.copyOf(p, engineParameters);
         double amp = p[engineParameters];
         double base = p[engineParameters + 1];
         int np = specs.size();
+        int size = values.length;
         if (jac == null) {
+            Work w = work.get();
             w.run.solve(theta, w.u);
-        } else {
-            w.run.solveWithSensitivities(theta, w.u, w.sens);
-        }
-        for (int g = 0; g < values.length; g++) {
-            values[g] = base + amp * w.u[g];
-        }
-        if (jac != null) {
-            for (int g = 0; g < values.length; g++) {
-                int r = g * np;
-                for (int j = 0; j < engineParameters; j++) {
-                    jac[r + j] = amp * w.sens[j][g];
-                }
-                jac[r + engineParameters] = w.u[g];
-                jac[r + engineParameters + 1] = 1;
+            for (int g = 0; g < size; g++) {
+                values[g] = base + amp * w.u[g];
             }
+            return;
+        }
+        // The engine's derivatives by forward differences of its own solve (fixed step, so a smooth function of
+        // theta): one run per engine parameter plus the base run, in parallel. The forward-sensitivity solve
+        // gives the same derivatives but costs several plain runs per parameter. Outputs are allocated per call:
+        // a worker that waits for these runs may meanwhile run another evaluation with its thread's work arrays.
+        double[] u = new double[size];
+        double[][] shifted = new double[engineParameters][size];
+        double[] step = new double[engineParameters];
+        for (int j = 0; j < engineParameters; j++) {
+            step[j] = RELATIVE_STEP * Math.max(Math.abs(theta[j]), specs.get(j).scale() == ParameterSpec.Scale.LOGISTIC
+                    ? 0.01 * (specs.get(j).upper() - specs.get(j).lower()) : Math.abs(theta[j]));
+            if (!(step[j] > 0)) {
+                step[j] = RELATIVE_STEP;
+            }
+        }
+        java.util.stream.IntStream.rangeClosed(0, engineParameters).parallel().forEach(j -> {
+            ScalarRun run = work.get().run;
+            if (j == engineParameters) {
+                run.solve(theta, u);
+            } else {
+                double[] t = theta.clone();
+                t[j] += step[j];
+                run.solve(t, shifted[j]);
+            }
+        });
+        for (int g = 0; g < size; g++) {
+            values[g] = base + amp * u[g];
+            int r = g * np;
+            for (int j = 0; j < engineParameters; j++) {
+                jac[r + j] = amp * (shifted[j][g] - u[g]) / step[j];
+            }
+            jac[r + engineParameters] = u[g];
+            jac[r + engineParameters + 1] = 1;
         }
     }
 }
