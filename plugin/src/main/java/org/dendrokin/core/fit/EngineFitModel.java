@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.List;
 
 import org.dendrokin.core.Checks;
+import org.dendrokin.core.Progress;
 import org.dendrokin.core.model.Domain;
 import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.core.model.SolverSettings;
@@ -32,6 +33,8 @@ public final class EngineFitModel implements FitModel {
     private final SolverSettings settings;
     private final List<ParameterSpec> specs;
     private final int engineParameters;
+    private final double fixedStepS;
+    private final Unit signalUnit;
     private final ThreadLocal<Work> work;
     /** Relative step of the forward differences (the engine's output is smooth in theta at a fixed time step). */
     private static final double RELATIVE_STEP = 1e-7;
@@ -58,6 +61,8 @@ public final class EngineFitModel implements FitModel {
     public EngineFitModel(String model, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
                           List<Stimulus> stimuli, double fixedStepS, Unit signalUnit) {
         Checks.positiveFinite(fixedStepS, "engine time step (s)");
+        this.fixedStepS = fixedStepS;
+        this.signalUnit = signalUnit;
         this.modelName = model;
         this.domain = domain;
         this.outputTimesS = outputTimesS.clone();
@@ -146,6 +151,69 @@ public final class EngineFitModel implements FitModel {
         return domain;
     }
 
+    /** Frames after the first stimulus that the first window of {@link #fitInStages} holds at least. */
+    static final int MIN_WINDOW_FRAMES = 48;
+
+    /**
+     * Fits over a growing window of frames: first the frames up to the first stimulus plus a sixteenth or a
+     * quarter of those after it, then four times as many, and so on up to all frames, each window starting from
+     * the previous window's optimum. A front that the starting values put far from the data (wrong speed) is a
+     * strongly curved, nearly flat valley for the optimiser over a long movie, where it crawls for hundreds of
+     * runs; over a short window the front is still near the stimulus, the valley is short, and each longer window
+     * starts close to its optimum, so the whole costs a few runs of the full movie. Movies too short for two
+     * windows of at least {@value #MIN_WINDOW_FRAMES} frames after the stimulus are fitted in one go. The
+     * result is that of the last window (all frames); its evaluation count includes the earlier windows.
+     *
+     * @param data     observations on this model's grid
+     * @param starts   starting points, as for {@link ModelFit#fit}
+     * @param options  as for {@link ModelFit#fit}; the earlier windows run without profiles and bootstrap
+     * @param progress as for {@link ModelFit#fit} (reported for the last window)
+     */
+    public FitResult fitInStages(FitData data, List<double[]> starts, ModelFit.Options options, Progress progress) {
+        Checks.require(data.size() == size(), "the data do not lie on this model's grid");
+        int frames = outputTimesS.length;
+        double first = Double.POSITIVE_INFINITY;
+        for (Stimulus st : stimuli) {
+            first = Math.min(first, st.timeS());
+        }
+        int before = 0;
+        while (before < frames && outputTimesS[before] < first) {
+            before++;
+        }
+        List<Integer> windows = new ArrayList<>();
+        int after = frames - before;
+        while (after / 4 >= MIN_WINDOW_FRAMES) {
+            after /= 4;
+            windows.add(0, before + after);
+        }
+        long extra = 0;
+        List<double[]> current = new ArrayList<>(starts);
+        ModelFit.Options quick = options.withProfiles(false).withBootstrap(0, options.seed());
+        int positions = outputPositionsUm.length;
+        for (int count : windows) {
+            progress.checkCancelled();
+            double[] times = java.util.Arrays.copyOf(outputTimesS, count);
+            EngineFitModel part = new EngineFitModel(modelName, domain, times, outputPositionsUm, stimuli, fixedStepS,
+                    signalUnit);
+            FitData partData = new FitData(java.util.Arrays.copyOf(data.values(), count * positions),
+                    java.util.Arrays.copyOf(data.sigmas(), count * positions));
+            List<double[]> next = new ArrayList<>();
+            for (double[] start : current) {
+                FitResult r = ModelFit.fit(part, partData, List.of(start), quick, Progress.NONE);
+                extra += r.evaluations();
+                next.add(r.converged() ? r.values() : start);
+            }
+            current = next;
+        }
+        FitResult r = ModelFit.fit(this, data, current, options, progress);
+        if (extra == 0) {
+            return r;
+        }
+        return new FitResult(r.model(), r.converged(), r.reason(), r.parameters(), r.derived(), r.pointsUsed(),
+                r.chiSquare(), r.rmse(), r.aic(), r.aicc(), r.bic(), r.correlation(), r.fitted(), r.warnings(),
+                r.evaluations() + extra);
+    }
+
     @Override
     public void evaluate(double[] p, double[] values, double[] jac) {
         double[] theta = java.util.Arrays.copyOf(p, engineParameters);
@@ -161,16 +229,187 @@ public final class EngineFitModel implements FitModel {
             }
             return;
         }
-        // The engine's derivatives by forward differences of its own solve (fixed step, so a smooth function of
-        // theta): one run per engine parameter plus the base run, in parallel. The forward-sensitivity solve
-        // gives the same derivatives but costs several plain runs per parameter. Outputs are allocated per call:
-        // a worker that waits for these runs may meanwhile run another evaluation with its thread's work arrays.
+        Runs runs = runs(theta);
+        double[] u = runs.u;
+        for (int g = 0; g < size; g++) {
+            values[g] = base + amp * u[g];
+            int r = g * np;
+            for (int j = 0; j < engineParameters; j++) {
+                jac[r + j] = amp * (runs.shifted[j][g] - u[g]) / runs.step[j];
+            }
+            jac[r + engineParameters] = u[g];
+            jac[r + engineParameters + 1] = 1;
+        }
+    }
+
+    @Override
+    public boolean hasNormalEquations() {
+        return true;
+    }
+
+    @Override
+    public void normalEquations(double[] p, FitData data, NormalEquations out, double[] fitted) {
+        Checks.require(data.size() == size(), "the data do not lie on this model's grid");
+        double[] theta = java.util.Arrays.copyOf(p, engineParameters);
+        double amp = p[engineParameters];
+        double base = p[engineParameters + 1];
+        int np = specs.size();
+        int size = size();
+        Runs runs = runs(theta);
+        int blocks = Math.max(1, Math.min(64, size / 16_384));
+        double[][] parts = new double[blocks][];
+        java.util.stream.IntStream range = java.util.stream.IntStream.range(0, blocks);
+        if (blocks > 1) {
+            range = range.parallel();
+        }
+        range.forEach(b -> parts[b] = sums(runs, data, amp, base, fitted, (int) ((long) size * b / blocks),
+                (int) ((long) size * (b + 1) / blocks)));
+        out.clear();
+        double[] partA = new double[np * np];
+        double[] partG = new double[np];
+        for (double[] part : parts) {
+            System.arraycopy(part, 0, partA, 0, np * np);
+            System.arraycopy(part, np * np, partG, 0, np);
+            out.addPartial(partA, partG, part[np * np + np]);
+        }
+    }
+
+    /** A (p x p), g (p) and chi^2 over grid points [from, to), packed in one array. */
+    private double[] sums(Runs runs, FitData data, double amp, double base, double[] fitted, int from, int to) {
+        int np = specs.size();
+        int ne = engineParameters;
+        double[] a = new double[np * np];
+        double[] g = new double[np];
+        double chi = 0;
+        double[] row = new double[np];
+        double[] inv = new double[ne];
+        for (int j = 0; j < ne; j++) {
+            inv[j] = amp / runs.step[j];
+        }
+        double[] u = runs.u;
+        if (ne == 3 && fitted == null) {
+            return sumsOfThree(runs, data, amp, base, inv, from, to);
+        }
+        for (int i = from; i < to; i++) {
+            double ui = u[i];
+            double f = base + amp * ui;
+            if (fitted != null) {
+                fitted[i] = f;
+            }
+            double w = data.weight(i);
+            if (w == 0) {
+                continue;
+            }
+            for (int j = 0; j < ne; j++) {
+                row[j] = (runs.shifted[j][i] - ui) * inv[j];
+            }
+            row[ne] = ui;
+            row[ne + 1] = 1;
+            double r = data.observed(i) - f;
+            for (int x = 0; x < np; x++) {
+                double wx = w * row[x];
+                for (int y = x; y < np; y++) {
+                    a[x * np + y] += wx * row[y];
+                }
+                g[x] += wx * r;
+            }
+            chi += w * r * r;
+        }
+        double[] part = new double[np * np + np + 1];
+        for (int x = 0; x < np; x++) {
+            for (int y = x; y < np; y++) {
+                part[x * np + y] = a[x * np + y];
+                part[y * np + x] = a[x * np + y];
+            }
+        }
+        System.arraycopy(g, 0, part, np * np, np);
+        part[np * np + np] = chi;
+        return part;
+    }
+
+    /** {@link #sums} for three engine parameters (Nagumo), the sums kept in local variables. */
+    private static double[] sumsOfThree(Runs runs, FitData data, double amp, double base, double[] inv, int from,
+            int to) {
+        double[] u = runs.u;
+        double[] s0 = runs.shifted[0];
+        double[] s1 = runs.shifted[1];
+        double[] s2 = runs.shifted[2];
+        double i0 = inv[0];
+        double i1 = inv[1];
+        double i2 = inv[2];
+        double a00 = 0, a01 = 0, a02 = 0, a03 = 0, a04 = 0;
+        double a11 = 0, a12 = 0, a13 = 0, a14 = 0;
+        double a22 = 0, a23 = 0, a24 = 0;
+        double a33 = 0, a34 = 0, a44 = 0;
+        double g0 = 0, g1 = 0, g2 = 0, g3 = 0, g4 = 0;
+        double chi = 0;
+        for (int i = from; i < to; i++) {
+            double w = data.weight(i);
+            double ui = u[i];
+            double r = data.observed(i) - (base + amp * ui);
+            double j0 = (s0[i] - ui) * i0;
+            double j1 = (s1[i] - ui) * i1;
+            double j2 = (s2[i] - ui) * i2;
+            double w0 = w * j0;
+            double w1 = w * j1;
+            double w2 = w * j2;
+            double w3 = w * ui;
+            a00 += w0 * j0;
+            a01 += w0 * j1;
+            a02 += w0 * j2;
+            a03 += w0 * ui;
+            a04 += w0;
+            a11 += w1 * j1;
+            a12 += w1 * j2;
+            a13 += w1 * ui;
+            a14 += w1;
+            a22 += w2 * j2;
+            a23 += w2 * ui;
+            a24 += w2;
+            a33 += w3 * ui;
+            a34 += w3;
+            a44 += w;
+            g0 += w0 * r;
+            g1 += w1 * r;
+            g2 += w2 * r;
+            g3 += w3 * r;
+            g4 += w * r;
+            chi += w * r * r;
+        }
+        double[][] a = {{a00, a01, a02, a03, a04}, {a01, a11, a12, a13, a14}, {a02, a12, a22, a23, a24},
+            {a03, a13, a23, a33, a34}, {a04, a14, a24, a34, a44}};
+        double[] part = new double[31];
+        for (int x = 0; x < 5; x++) {
+            System.arraycopy(a[x], 0, part, 5 * x, 5);
+        }
+        part[25] = g0;
+        part[26] = g1;
+        part[27] = g2;
+        part[28] = g3;
+        part[29] = g4;
+        part[30] = chi;
+        return part;
+    }
+
+    /** The base run and one run per engine parameter shifted by its step. */
+    private record Runs(double[] u, double[][] shifted, double[] step) {
+    }
+
+    /**
+     * The engine's derivatives by forward differences of its own solve (fixed step, so a smooth function of
+     * theta): one run per engine parameter plus the base run, in parallel. The forward-sensitivity solve gives the
+     * same derivatives but costs several plain runs per parameter. Outputs are allocated per call: a worker that
+     * waits for these runs may meanwhile run another evaluation with its thread's work arrays.
+     */
+    private Runs runs(double[] theta) {
+        int size = size();
         double[] u = new double[size];
         double[][] shifted = new double[engineParameters][size];
         double[] step = new double[engineParameters];
         for (int j = 0; j < engineParameters; j++) {
-            step[j] = RELATIVE_STEP * Math.max(Math.abs(theta[j]), specs.get(j).scale() == ParameterSpec.Scale.LOGISTIC
-                    ? 0.01 * (specs.get(j).upper() - specs.get(j).lower()) : Math.abs(theta[j]));
+            ParameterSpec spec = specs.get(j);
+            double scale = spec.scale() == ParameterSpec.Scale.LOGISTIC ? 0.01 * (spec.upper() - spec.lower()) : 0;
+            step[j] = RELATIVE_STEP * Math.max(Math.abs(theta[j]), scale);
             if (!(step[j] > 0)) {
                 step[j] = RELATIVE_STEP;
             }
@@ -185,14 +424,6 @@ public final class EngineFitModel implements FitModel {
                 run.solve(t, shifted[j]);
             }
         });
-        for (int g = 0; g < size; g++) {
-            values[g] = base + amp * u[g];
-            int r = g * np;
-            for (int j = 0; j < engineParameters; j++) {
-                jac[r + j] = amp * (shifted[j][g] - u[g]) / step[j];
-            }
-            jac[r + engineParameters] = u[g];
-            jac[r + engineParameters + 1] = 1;
-        }
+        return new Runs(u, shifted, step);
     }
 }

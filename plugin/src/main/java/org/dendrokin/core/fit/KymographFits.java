@@ -298,7 +298,7 @@ public final class KymographFits {
         for (int i = 0; i < positions.length; i++) {
             positions[i] -= xFirst;
         }
-        FitModel model;
+        EngineFitModel model;
         try {
             Domain domain = new Domain(lengthUm, h, Boundary.NO_FLUX);
             model = new EngineFitModel(name, domain, k.timesS(), positions,
@@ -315,7 +315,7 @@ public final class KymographFits {
         if (model.size() > ENGINE_PROFILE_LIMIT) {
             options = options.withProfiles(false);
         }
-        FitResult r = ModelFit.fit(model, data, starts, options, progress);
+        FitResult r = model.fitInStages(data, starts, options, progress);
         if (!setup.sealedEnds()) {
             notes.add("The " + name + " model was simulated with sealed ends at the ends of the path.");
         }
