@@ -65,18 +65,60 @@ class NagumoRecoveryTest {
     }
 
     @Test
-    @Tag("slow")
-    void recoversTheConstantsWithin20PercentAtSignalToNoiseTen() {
+    void atSignalToNoiseTenTheTruthLiesWithinTheStatedUncertainty() {
+        // One seeded replicate at SNR 10 (amplitude 1.5, noise SD 0.15). Over 20 seeds (the slow test below) the
+        // median error of a was 4% and the largest 17%; this seed is an unlucky one (a 23% low, 2.5 standard
+        // errors), so a fixed percentage would only restate it. What must hold for any seed is that the errors
+        // are of the size the fit states: within 3.3 standard errors (two-sided 99.9% if the errors are right).
         Kymograph k = Synthetic.engine("nagumo", new double[] {D, K, A}, 60, 100, 0.5, 0.5, 1.5, 0.2, 5, 5, 2, 0.15,
                 202);
         FitResult f = fit(k, 5, 5, 2).fits().get(0);
         assertTrue(f.converged(), f.reason());
-        // REF: parameter recovery against the engine run's known truth [common practice]
-        assertEquals(D, value(f, "D"), 0.2 * D, "D (um^2/s)");
-        assertEquals(K, value(f, "k"), 0.2 * K, "k (1/s)");
-        // a came out 0.152 (24% low) for this seed: the 20% target is missed for a at SNR 10; 30% is checked.
-        assertEquals(A, value(f, "a"), 0.3 * A, "a");
-        assertEquals(SPEED, value(f, "front_speed"), 0.2 * SPEED, "front speed (um/s)");
+        for (String name : List.of("D", "k", "a", "front_speed")) {
+            double truth = switch (name) {
+                case "D" -> D;
+                case "k" -> K;
+                case "a" -> A;
+                default -> SPEED;
+            };
+            ParameterEstimate e = f.estimate(name).orElseThrow();
+            assertTrue(e.identifiable(), name + " is determined when the front is seen forming at a known stimulus");
+            // REF: parameter recovery against the engine run's known truth, within the fit's own standard error
+            // [common practice]
+            assertEquals(truth, e.value(), 3.3 * e.standardError(), name);
+        }
+    }
+
+    @Test
+    @Tag("slow")
+    void overTwentySeedsAtSignalToNoiseTenTheMedianErrorIsUnderTenPercent() {
+        int replicates = 20;
+        double[][] errors = new double[3][replicates];
+        int covered = 0;
+        for (int r = 0; r < replicates; r++) {
+            Kymograph k = Synthetic.engine("nagumo", new double[] {D, K, A}, 60, 100, 0.5, 0.5, 1.5, 0.2, 5, 5, 2,
+                    0.15, 300 + r);
+            FitResult f = fit(k, 5, 5, 2).fits().get(0);
+            assertTrue(f.converged(), f.reason());
+            errors[0][r] = Math.abs(value(f, "D") / D - 1);
+            errors[1][r] = Math.abs(value(f, "k") / K - 1);
+            errors[2][r] = Math.abs(value(f, "a") / A - 1);
+            if (f.estimate("a").orElseThrow().ci95().contains(A)) {
+                covered++;
+            }
+        }
+        String[] names = {"D", "k", "a"};
+        for (int q = 0; q < 3; q++) {
+            double[] e = errors[q].clone();
+            java.util.Arrays.sort(e);
+            double median = 0.5 * (e[replicates / 2 - 1] + e[replicates / 2]);
+            // REF: parameter recovery against the engine run's known truth [common practice]; measured medians
+            // were 3-4% (a: 3.8%, largest 17%), so 10% leaves room for another JVM's rounding, not for a bias
+            assertTrue(median < 0.10, "median |relative error| of " + names[q] + " over " + replicates + " seeds: "
+                    + median);
+        }
+        // REF: a 95% interval holds the truth in 95% of replicates [definition]; P(at most 15 of 20) = 0.3%
+        assertTrue(covered >= 16, "the 95% interval of a held the truth in " + covered + " of " + replicates);
     }
 
     @Test
