@@ -608,12 +608,70 @@ public final class ScalarRun {
     private void fusedStep(double[] p, int slot, double dt) {
         double tau = 0.5 * dt;
         reactInto(p, tau, u, stage);
-        scaledRightHandSide(stage, cacheSLower[slot], cacheSDiag[slot], cacheSUpper[slot], rhs, n);
         if (sourceActive) {
+            scaledRightHandSide(stage, cacheSLower[slot], cacheSDiag[slot], cacheSUpper[slot], rhs, n);
             addScaledSource(source, cacheTwInvPivot[slot], dt, rhs, n);
+            TridiagonalSolver.solveTwisted(cacheElim[slot], cacheSubst[slot], rhs, u);
+        } else {
+            solveProduct(stage, cacheSLower[slot], cacheSDiag[slot], cacheSUpper[slot], cacheElim[slot],
+                    cacheSubst[slot], rhs, u, n);
         }
-        TridiagonalSolver.solveTwisted(cacheElim[slot], cacheSubst[slot], rhs, u);
         reactInto(p, tau, u, u);
+    }
+
+    /**
+     * {@link TridiagonalSolver#solveTwisted} for the right-hand side P v (rows scaled by the pivots), formed inside
+     * the elimination: the two recurrences leave the processor idle between their steps, and the three-point
+     * products fill that time instead of a pass of their own. Same arithmetic as {@link #scaledRightHandSide}
+     * followed by solveTwisted. Needs n &gt;= 3.
+     */
+    private static void solveProduct(double[] v, double[] sl, double[] sd, double[] su, double[] elim,
+            double[] subst, double[] work, double[] out, int n) {
+        int m = TridiagonalSolver.twistRow(n);
+        int last = n - 1;
+        double top = sd[0] * v[0] + su[0] * v[1];
+        work[0] = top;
+        double bottom = sl[last] * v[last - 1] + sd[last] * v[last];
+        work[last] = bottom;
+        int i = 1;
+        int j = last - 1;
+        for (; i < m && j > m; i++, j--) {
+            double ri = sl[i] * v[i - 1] + sd[i] * v[i] + su[i] * v[i + 1];
+            double rj = sl[j] * v[j - 1] + sd[j] * v[j] + su[j] * v[j + 1];
+            top = Math.fma(-elim[i], top, ri);
+            work[i] = top;
+            bottom = Math.fma(-elim[j], bottom, rj);
+            work[j] = bottom;
+        }
+        for (; i < m; i++) {
+            top = Math.fma(-elim[i], top, sl[i] * v[i - 1] + sd[i] * v[i] + su[i] * v[i + 1]);
+            work[i] = top;
+        }
+        for (; j > m; j--) {
+            bottom = Math.fma(-elim[j], bottom, sl[j] * v[j - 1] + sd[j] * v[j] + su[j] * v[j + 1]);
+            work[j] = bottom;
+        }
+        double rm = sl[m] * v[m - 1] + sd[m] * v[m] + su[m] * v[m + 1];
+        double x = rm - elim[m] * top - subst[m] * bottom;
+        out[m] = x;
+        double up = x;
+        double down = x;
+        i = m - 1;
+        j = m + 1;
+        for (; i >= 0 && j < n; i--, j++) {
+            up = Math.fma(-subst[i], up, work[i]);
+            out[i] = up;
+            down = Math.fma(-subst[j], down, work[j]);
+            out[j] = down;
+        }
+        for (; i >= 0; i--) {
+            up = Math.fma(-subst[i], up, work[i]);
+            out[i] = up;
+        }
+        for (; j < n; j++) {
+            down = Math.fma(-subst[j], down, work[j]);
+            out[j] = down;
+        }
     }
 
     /**
