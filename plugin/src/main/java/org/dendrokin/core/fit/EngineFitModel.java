@@ -36,6 +36,9 @@ public final class EngineFitModel implements FitModel {
     private final double fixedStepS;
     private final Unit signalUnit;
     private final ThreadLocal<Work> work;
+    /** Output buffers of finished evaluations, reused by later ones (allocation-free in steady state). */
+    private final java.util.concurrent.ConcurrentLinkedQueue<double[][]> spare =
+            new java.util.concurrent.ConcurrentLinkedQueue<>();
     /** Relative step of the forward differences (the engine's output is smooth in theta at a fixed time step). */
     private static final double RELATIVE_STEP = 1e-7;
 
@@ -240,6 +243,7 @@ public final class EngineFitModel implements FitModel {
             jac[r + engineParameters] = u[g];
             jac[r + engineParameters + 1] = 1;
         }
+        release(runs);
     }
 
     @Override
@@ -264,6 +268,7 @@ public final class EngineFitModel implements FitModel {
         }
         range.forEach(b -> parts[b] = sums(runs, data, amp, base, fitted, (int) ((long) size * b / blocks),
                 (int) ((long) size * (b + 1) / blocks)));
+        release(runs);
         out.clear();
         double[] partA = new double[np * np];
         double[] partG = new double[np];
@@ -392,7 +397,14 @@ public final class EngineFitModel implements FitModel {
     }
 
     /** The base run and one run per engine parameter shifted by its step. */
-    private record Runs(double[] u, double[][] shifted, double[] step) {
+    private record Runs(double[] u, double[][] shifted, double[] step, double[][] buffers) {
+    }
+
+    /** Hands the run buffers back for the next evaluation (kept in a shared pool, never tied to a thread). */
+    private void release(Runs runs) {
+        if (spare.size() < 4) {
+            spare.offer(runs.buffers());
+        }
     }
 
     /**
@@ -403,8 +415,12 @@ public final class EngineFitModel implements FitModel {
      */
     private Runs runs(double[] theta) {
         int size = size();
-        double[] u = new double[size];
-        double[][] shifted = new double[engineParameters][size];
+        double[][] buffers = spare.poll();
+        if (buffers == null) {
+            buffers = new double[engineParameters + 1][size];
+        }
+        double[] u = buffers[engineParameters];
+        double[][] shifted = java.util.Arrays.copyOf(buffers, engineParameters);
         double[] step = new double[engineParameters];
         for (int j = 0; j < engineParameters; j++) {
             ParameterSpec spec = specs.get(j);
@@ -424,6 +440,6 @@ public final class EngineFitModel implements FitModel {
                 run.solve(t, shifted[j]);
             }
         });
-        return new Runs(u, shifted, step);
+        return new Runs(u, shifted, step, buffers);
     }
 }
