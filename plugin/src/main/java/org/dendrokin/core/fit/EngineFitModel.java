@@ -140,7 +140,8 @@ public final class EngineFitModel implements FitModel {
         if (modelName.equals("nagumo")) {
             return "A steadily travelling bistable front shows only its speed and its width, so D, k and a of the "
                     + "nagumo fit are not separately determined by these data: report front_speed and front_width "
-                    + "(with their intervals) instead of D, k and a.";
+                    + "(with their intervals) instead of D, k and a. The three separate only when the movie shows the "
+                    + "front forming at a stimulus of known width.";
         }
         if (modelName.equals("fisher-kpp")) {
             return "A travelling front shows mainly its speed and width, so D and r of the fisher-kpp fit are not "
