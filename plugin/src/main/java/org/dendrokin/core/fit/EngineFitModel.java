@@ -157,6 +157,8 @@ public final class EngineFitModel implements FitModel {
 
     /** Frames after the first stimulus that the first window of {@link #fitInStages} holds at least. */
     static final int MIN_WINDOW_FRAMES = 48;
+    /** Relative tolerance of the windows before the last (their optimum is only a start). */
+    static final double WINDOW_TOLERANCE = 1e-5;
 
     /**
      * Fits over a growing window of frames: first the frames up to the first stimulus plus a sixteenth or a
@@ -192,7 +194,8 @@ public final class EngineFitModel implements FitModel {
         }
         long extra = 0;
         List<double[]> current = new ArrayList<>(starts);
-        ModelFit.Options quick = options.withProfiles(false).withBootstrap(0, options.seed());
+        ModelFit.Options quick = options.withProfiles(false).withBootstrap(0, options.seed())
+                .withTolerance(Math.max(options.tolerance(), WINDOW_TOLERANCE));
         int positions = outputPositionsUm.length;
         for (int count : windows) {
             progress.checkCancelled();
