@@ -172,7 +172,8 @@ public final class EngineFitModel implements FitModel {
      *
      * @param data     observations on this model's grid
      * @param starts   starting points, as for {@link ModelFit#fit}
-     * @param options  as for {@link ModelFit#fit}; the earlier windows run without profiles and bootstrap
+     * @param options  as for {@link ModelFit#fit}; the earlier windows run without profiles and bootstrap, to a
+     *                 relative tolerance of at most {@value #WINDOW_TOLERANCE}
      * @param progress as for {@link ModelFit#fit} (reported for the last window)
      */
     public FitResult fitInStages(FitData data, List<double[]> starts, ModelFit.Options options, Progress progress) {
