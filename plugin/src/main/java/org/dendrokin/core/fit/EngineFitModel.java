@@ -407,7 +407,7 @@ public final class EngineFitModel implements FitModel {
 
     /** Hands the run buffers back for the next evaluation (kept in a shared pool, never tied to a thread). */
     private void release(Runs runs) {
-        if (spare.size() < 4) {
+        if (spare.size() < 2) {
             spare.offer(runs.buffers());
         }
     }
