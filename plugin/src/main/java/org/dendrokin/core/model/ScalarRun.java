@@ -656,25 +656,7 @@ public final class ScalarRun {
         }
         double rm = sl[m] * v[m - 1] + sd[m] * v[m] + su[m] * v[m + 1];
         double x = rm - elim[m] * top - subst[m] * bottom;
-        out[m] = x;
-        double up = x;
-        double down = x;
-        i = m - 1;
-        j = m + 1;
-        for (; i >= 0 && j < n; i--, j++) {
-            up = Math.fma(-subst[i], up, work[i]);
-            out[i] = up;
-            down = Math.fma(-subst[j], down, work[j]);
-            out[j] = down;
-        }
-        for (; i >= 0; i--) {
-            up = Math.fma(-subst[i], up, work[i]);
-            out[i] = up;
-        }
-        for (; j < n; j++) {
-            down = Math.fma(-subst[j], down, work[j]);
-            out[j] = down;
-        }
+        TridiagonalSolver.substituteTwisted(subst, work, m, x, out, n);
     }
 
     /**

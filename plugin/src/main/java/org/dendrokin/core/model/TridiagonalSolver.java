@@ -169,25 +169,7 @@ public final class TridiagonalSolver {
             scaled[j] = bottom;
         }
         double x = scaled[m] - elim[m] * top - subst[m] * bottom;
-        out[m] = x;
-        double up = x;
-        double down = x;
-        i = m - 1;
-        j = m + 1;
-        for (; i >= 0 && j < n; i--, j++) {
-            up = Math.fma(-subst[i], up, scaled[i]);
-            out[i] = up;
-            down = Math.fma(-subst[j], down, scaled[j]);
-            out[j] = down;
-        }
-        for (; i >= 0; i--) {
-            up = Math.fma(-subst[i], up, scaled[i]);
-            out[i] = up;
-        }
-        for (; j < n; j++) {
-            down = Math.fma(-subst[j], down, scaled[j]);
-            out[j] = down;
-        }
+        substituteTwisted(subst, scaled, m, x, out, n);
     }
 
     private static double pivot(double p, int row) {
@@ -195,5 +177,32 @@ public final class TridiagonalSolver {
             throw new IllegalArgumentException("tridiagonal system has a zero pivot at row " + row);
         }
         return p;
+    }
+
+    /**
+     * The back substitution of the two-ended solve: from the middle unknown x = out[m] outwards to both ends,
+     * out[i] = work[i] - subst[i] out[i + 1] below m and out[j] = work[j] - subst[j] out[j - 1] above it,
+     * the two recurrences interleaved, for the first n unknowns.
+     */
+    static void substituteTwisted(double[] subst, double[] work, int m, double x, double[] out, int n) {
+        out[m] = x;
+        double up = x;
+        double down = x;
+        int i = m - 1;
+        int j = m + 1;
+        for (; i >= 0 && j < n; i--, j++) {
+            up = Math.fma(-subst[i], up, work[i]);
+            out[i] = up;
+            down = Math.fma(-subst[j], down, work[j]);
+            out[j] = down;
+        }
+        for (; i >= 0; i--) {
+            up = Math.fma(-subst[i], up, work[i]);
+            out[i] = up;
+        }
+        for (; j < n; j++) {
+            down = Math.fma(-subst[j], down, work[j]);
+            out[j] = down;
+        }
     }
 }
