@@ -1,5 +1,5 @@
 sessionKymograph();
-run("Fit Spread Models...", "models=[diffusion-decay, nagumo] time=9.75 position=15 criterion=aicc save=[]");
+run("Fit Spread Models...", "models=[diffusion-decay, nagumo] time=9.75 position=15 criterion=aicc bootstrap=20 save=[]");
 selectWindow("Fit of diffusion-decay: profiles (points: data, lines: model)");
 setLocation(720, 560);
 selectWindow("Dendrokin fits");

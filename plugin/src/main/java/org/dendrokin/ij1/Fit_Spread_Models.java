@@ -16,10 +16,12 @@ import ij.plugin.PlugIn;
 import ij.process.FloatProcessor;
 
 import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.session.FitSettings;
 import org.dendrokin.io.plot.ColourScale;
 
 /**
@@ -51,6 +53,7 @@ public class Fit_Spread_Models implements PlugIn {
             d.check("Free stimulus time and position (fitted, diffusion-decay)", false);
             d.check("Sealed ends (the path ends where the dendrite ends)", false);
             d.choice("Criterion for the best model", CRITERIA, CRITERIA[0]);
+            d.number("Bootstrap replicates (0: none; random seed 1)", 0, 0);
             d.folder("Save table, fit CSV and TIFF to folder (empty: do not save)", "");
             if (!d.show()) {
                 return;
@@ -66,9 +69,15 @@ public class Fit_Spread_Models implements PlugIn {
             boolean free = d.nextCheck();
             boolean sealed = d.nextCheck();
             String criterion = d.nextChoice();
+            double replicates = d.nextNumber();
             String folder = d.nextText();
+            if (!(replicates >= 0 && replicates <= FitSettings.MAX_BOOTSTRAP && replicates == Math.rint(replicates))) {
+                throw new IllegalArgumentException("the number of bootstrap replicates must be a whole number from 0 to "
+                        + FitSettings.MAX_BOOTSTRAP);
+            }
             KymographFits.Setup setup = KymographFits.Setup.of(t0, x0).withModels(models).withFreeStimulus(free, free)
                     .withSealedEnds(sealed).withCriterion(criterion);
+            setup = setup.withOptions(setup.options().withBootstrap((int) replicates, 1L));
             KymographFits.Outcome outcome = KymographFits.fit(k, setup, progress);
             outcome.warnings().forEach(w -> IJ.log(COMMAND + ": " + w));
             for (FitResult f : outcome.fits()) {
@@ -128,6 +137,13 @@ public class Fit_Spread_Models implements PlugIn {
                 }
                 Tables.add(t, source, p.name(), p.value(), p.unit().symbol(),
                         shown ? p.ci95().lower() : Double.NaN, shown ? p.ci95().upper() : Double.NaN, note);
+                if (p.identifiable()) {
+                    // the other intervals (Wald-t beside a profile, a bootstrap on request), one row each
+                    for (Interval other : p.otherIntervals()) {
+                        Tables.add(t, source, p.name(), p.value(), p.unit().symbol(), other.lower(), other.upper(),
+                                other.method());
+                    }
+                }
             }
             Tables.add(t, source, o.criterion().toUpperCase(Locale.ROOT), f.criterion(o.criterion()), "",
                     Double.NaN, Double.NaN, "lower is better");

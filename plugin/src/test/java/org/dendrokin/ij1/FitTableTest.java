@@ -38,4 +38,24 @@ class FitTableTest {
         assertEquals(1.1, t.getValue("ci95_low", 1), 1e-12);
         assertEquals(1.3, t.getValue("ci95_high", 1), 1e-12);
     }
+
+    @Test
+    void everyOtherIntervalOfAnIdentifiableParameterGetsARowOfItsOwn() {
+        ParameterEstimate k = new ParameterEstimate("k", Unit.RATE, 0.05, 0.001,
+                new Interval(0.048, 0.052, Interval.PROFILE), List.of(new Interval(0.0481, 0.0519, Interval.WALD_T),
+                        new Interval(0.0479, 0.0522, Interval.BOOTSTRAP)), false, true);
+        FitResult fit = new FitResult("diffusion-decay", true, null, List.of(k), List.of(), 100, 1.0, 0.1,
+                10, 11, 12, null, null, List.of(), 5);
+        KymographFits.Outcome outcome = new KymographFits.Outcome(List.of(fit), "diffusion-decay", "aicc",
+                Map.of("diffusion-decay", 1.0), new double[] {0.1}, null, List.of());
+
+        ResultsTable t = Fit_Spread_Models.table(outcome);
+
+        assertEquals(Interval.PROFILE, t.getStringValue("note", 0));
+        assertEquals(Interval.WALD_T, t.getStringValue("note", 1));
+        assertEquals(Interval.BOOTSTRAP, t.getStringValue("note", 2));
+        assertEquals(0.0479, t.getValue("ci95_low", 2), 1e-12);
+        assertEquals(0.0522, t.getValue("ci95_high", 2), 1e-12);
+        assertEquals("k", t.getStringValue("quantity", 2));
+    }
 }

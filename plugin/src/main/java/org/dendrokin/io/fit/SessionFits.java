@@ -62,7 +62,9 @@ public final class SessionFits {
         }
         KymographFits.Setup setup = KymographFits.Setup.of(stimulusTimeS, stimulusPosUm)
                 .withModels(models == null || models.isEmpty() ? KymographFits.DEFAULT_MODELS : models)
-                .withCriterion(settings.criterion());
+                .withCriterion(settings.criterion())
+                .withFreeStimulus(settings.freeStimulus(), settings.freeStimulus())
+                .withSealedEnds(settings.sealedEnds());
         setup = setup.withOptions(setup.options().withProfiles(settings.profiles())
                 .withBootstrap(settings.bootstrapReplicates(), settings.seed()));
         if (baselineLast >= baselineFirst) {

@@ -61,7 +61,8 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
     private static final Set<String> KEYS = Set.of("movie", "path", "path_roi_name", "path_width_um", "pixel_size_um",
             "frame_interval_s", "stimulus", "baseline_frames", "background", "calibration", "models",
             "bleach_correction", "fit", "description", "notes", "group");
-    private static final Set<String> FIT_KEYS = Set.of("criterion", "profiles", "bootstrap_replicates", "seed");
+    private static final Set<String> FIT_KEYS = Set.of("criterion", "profiles", "bootstrap_replicates", "seed",
+            "free_stimulus", "sealed_ends");
     private static final Pattern LINE = Pattern.compile("line (\\d+)");
 
     public SessionConfig {
@@ -177,14 +178,7 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
                 models.add(e.getAsString());
             }
         }
-        boolean bleach = true;
-        if (root.has("bleach_correction")) {
-            JsonElement e = root.get("bleach_correction");
-            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
-                throw p.bad("bleach_correction", "must be true or false", e);
-            }
-            bleach = e.getAsBoolean();
-        }
+        boolean bleach = p.flag(root, "bleach_correction", "bleach_correction", true);
         FitSettings fit = FitSettings.DEFAULT;
         if (root.has("fit")) {
             fit = fitSettings(p, p.object(root, "fit", "fit"), file, warnings);
@@ -208,18 +202,13 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
             throw p.bad("fit.criterion", "must be one of " + String.join(", ", FitSettings.CRITERIA),
                     f.get("criterion"));
         }
-        boolean profiles = d.profiles();
-        if (f.has("profiles")) {
-            JsonElement e = f.get("profiles");
-            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
-                throw p.bad("fit.profiles", "must be true or false", e);
-            }
-            profiles = e.getAsBoolean();
-        }
+        boolean profiles = p.flag(f, "profiles", "fit.profiles", d.profiles());
+        boolean freeStimulus = p.flag(f, "free_stimulus", "fit.free_stimulus", d.freeStimulus());
+        boolean sealedEnds = p.flag(f, "sealed_ends", "fit.sealed_ends", d.sealedEnds());
         int replicates = (int) p.wholeNumber(f, "bootstrap_replicates", "fit.bootstrap_replicates", 0,
                 FitSettings.MAX_BOOTSTRAP, d.bootstrapReplicates());
         long seed = p.wholeNumber(f, "seed", "fit.seed", 0, Long.MAX_VALUE, d.seed());
-        return new FitSettings(criterion, profiles, replicates, seed);
+        return new FitSettings(criterion, profiles, replicates, seed, freeStimulus, sealedEnds);
     }
 
     /** Parses strictly (no comments, no trailing commas, no single quotes); a syntax error names its line. */
@@ -305,6 +294,17 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
                 throw bad(key, "must be a number", e);
             }
             return e.getAsDouble();
+        }
+
+        boolean flag(JsonObject o, String name, String key, boolean absent) {
+            if (!o.has(name) || o.get(name).isJsonNull()) {
+                return absent;
+            }
+            JsonElement e = o.get(name);
+            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
+                throw bad(key, "must be true or false", e);
+            }
+            return e.getAsBoolean();
         }
 
         long wholeNumber(JsonObject o, String name, String key, long min, long max, long absent) {

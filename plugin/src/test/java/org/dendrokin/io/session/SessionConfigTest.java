@@ -86,14 +86,15 @@ class SessionConfigTest {
     @Test
     void readsTheFitSettingsAndRefusesBadOnes() {
         SessionConfig c = SessionConfig.parse(FILE, "{\"fit\": {\"criterion\": \"bic\", \"profiles\": false, "
-                + "\"bootstrap_replicates\": 50, \"seed\": 9}}");
-        assertEquals(new FitSettings("bic", false, 50, 9L), c.fit());
+                + "\"bootstrap_replicates\": 50, \"seed\": 9, \"free_stimulus\": true, \"sealed_ends\": true}}");
+        assertEquals(new FitSettings("bic", false, 50, 9L, true, true), c.fit());
         assertEquals(FitSettings.DEFAULT, SessionConfig.parse(FILE, "{}").fit());
         assertTrue(error("{\"fit\": {\"criterion\": \"r2\"}}").contains("key \"fit.criterion\""));
         assertTrue(error("{\"fit\": {\"bootstrap_replicates\": 2.5}}").contains("key \"fit.bootstrap_replicates\""));
         assertTrue(error("{\"fit\": {\"bootstrap_replicates\": -1}}").contains("key \"fit.bootstrap_replicates\""));
         assertTrue(error("{\"fit\": {\"profiles\": \"yes\"}}").contains("key \"fit.profiles\""));
         assertTrue(error("{\"fit\": 3}").contains("key \"fit\""));
+        assertTrue(error("{\"fit\": {\"sealed_ends\": 1}}").contains("key \"fit.sealed_ends\""));
         SessionConfig odd = SessionConfig.parse(FILE, "{\"fit\": {\"bootstrap\": 5}}");
         assertTrue(odd.warnings().get(0).contains("\"fit.bootstrap\""), odd.warnings().toString());
     }
