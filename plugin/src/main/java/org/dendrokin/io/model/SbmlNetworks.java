@@ -13,6 +13,7 @@ import javax.xml.stream.XMLStreamException;
 import org.dendrokin.core.model.Expression;
 import org.dendrokin.core.model.ReactionNetwork;
 import org.dendrokin.io.InputException;
+import org.sbml.jsbml.ASTNode;
 import org.sbml.jsbml.Compartment;
 import org.sbml.jsbml.KineticLaw;
 import org.sbml.jsbml.LocalParameter;
@@ -141,8 +142,10 @@ public final class SbmlNetworks {
                 throw new InputException(file, "reaction " + r.getId() + ": " + e.getMessage());
             }
             double[] net = new double[ids.size()];
+            double[] reactantOrders = new double[ids.size()];
             for (SpeciesReference sr : r.getListOfReactants()) {
                 add(file, r, net, ids, sr.getSpecies(), -stoich(sr));
+                add(file, r, reactantOrders, ids, sr.getSpecies(), stoich(sr));
             }
             for (SpeciesReference sr : r.getListOfProducts()) {
                 add(file, r, net, ids, sr.getSpecies(), stoich(sr));
@@ -153,13 +156,137 @@ public final class SbmlNetworks {
                             + mr.getSpecies());
                 }
             }
-            for (int s = 0; s < net.length; s++) {
-                // d[S]/dt = stoichiometry x rate / compartment size; boundary and constant species do not change
-                net[s] = fixed.get(s) ? 0 : net[s] / compartmentSize.get(s);
+            double scale = rateScale(rate, ids.size(), initial);
+            Monomial product = monomial(law.getMath(), ids, local);
+            double size = sharedSize(net, fixed, compartmentSize);
+            if (product != null && sameOrders(product.orders(), reactantOrders) && !Double.isNaN(size)) {
+                // Plain mass action in one compartment: d[S]/dt = stoichiometry x (constant / size) x product of
+                // the concentrations, built as a mass-action law so the stochastic mode counts molecule
+                // combinations, with whole stoichiometries (the compartment size moves into the constant).
+                for (int s = 0; s < net.length; s++) {
+                    net[s] = fixed.get(s) ? 0 : net[s];
+                }
+                rate = ReactionNetwork.massAction(reactantOrders, new double[ids.size()], product.constant() / size,
+                        0);
+            } else if (!Double.isNaN(size)) {
+                // one compartment: the division by its size moves into the rate, so stoichiometries stay whole
+                // molecule changes for the stochastic mode
+                for (int s = 0; s < net.length; s++) {
+                    net[s] = fixed.get(s) ? 0 : net[s];
+                }
+                if (size != 1) {
+                    rate = Expression.multiply(Expression.constant(1 / size), rate);
+                }
+            } else {
+                for (int s = 0; s < net.length; s++) {
+                    // d[S]/dt = stoichiometry x rate / compartment size; boundary and constant species do not change
+                    net[s] = fixed.get(s) ? 0 : net[s] / compartmentSize.get(s);
+                }
             }
-            reactions.add(new ReactionNetwork.Reaction(r.getId(), net, rate, rateScale(rate, ids.size(), initial)));
+            reactions.add(new ReactionNetwork.Reaction(r.getId(), net, rate, scale));
         }
         return new ReactionNetwork(ids, d, initial.stream().mapToDouble(Double::doubleValue).toArray(), reactions);
+    }
+
+    /** A kinetic law of the form constant x prod_s [S]^order_s. */
+    record Monomial(double constant, double[] orders) {
+    }
+
+    /**
+     * The kinetic law as constant x product of species powers, when it is one: a product (or quotient by
+     * constants) of numbers, parameters, compartment sizes and species raised to whole positive powers, with a
+     * non-negative finite constant. Anything else (sums, Michaelis-Menten, species in a denominator, fractional
+     * powers, functions) gives null.
+     */
+    static Monomial monomial(ASTNode node, List<String> species, Map<String, Double> values) {
+        double[] orders = new double[species.size()];
+        double constant = factor(node, species, values, orders, 1);
+        if (!(constant >= 0) || !Double.isFinite(constant)) {
+            return null;
+        }
+        for (double o : orders) {
+            if (o < 0 || o != Math.rint(o)) {
+                return null;
+            }
+        }
+        return new Monomial(constant, orders);
+    }
+
+    /**
+     * Multiplies the orders of {@code node}'s species, raised to {@code power}, into {@code orders} and returns
+     * its constant part raised to {@code power}; NaN when the node is not such a product.
+     */
+    private static double factor(ASTNode node, List<String> species, Map<String, Double> values, double[] orders,
+            double power) {
+        switch (node.getType()) {
+            case INTEGER:
+                return Math.pow(node.getInteger(), power);
+            case REAL:
+            case REAL_E:
+            case RATIONAL:
+                return Math.pow(node.getReal(), power);
+            case NAME: {
+                int s = species.indexOf(node.getName());
+                if (s >= 0) {
+                    orders[s] += power;
+                    return 1;
+                }
+                Double v = values.get(node.getName());
+                return v == null ? Double.NaN : Math.pow(v, power);
+            }
+            case TIMES: {
+                double c = 1;
+                for (int i = 0; i < node.getChildCount(); i++) {
+                    c *= factor(node.getChild(i), species, values, orders, power);
+                }
+                return c;
+            }
+            case DIVIDE:
+                return factor(node.getChild(0), species, values, orders, power)
+                        * factor(node.getChild(1), species, values, orders, -power);
+            case POWER:
+            case FUNCTION_POWER: {
+                ASTNode exponent = node.getChild(1);
+                double e;
+                if (exponent.getType() == ASTNode.Type.INTEGER) {
+                    e = exponent.getInteger();
+                } else if (exponent.isReal()) {
+                    e = exponent.getReal();
+                } else {
+                    return Double.NaN;
+                }
+                return factor(node.getChild(0), species, values, orders, power * e);
+            }
+            default:
+                return Double.NaN;
+        }
+    }
+
+    private static boolean sameOrders(double[] a, double[] b) {
+        for (int s = 0; s < a.length; s++) {
+            if (a[s] != b[s]) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /**
+     * The compartment size shared by every species the reaction changes (1 when it changes none), or NaN when
+     * they sit in compartments of different sizes.
+     */
+    private static double sharedSize(double[] net, List<Boolean> fixed, List<Double> compartmentSize) {
+        double size = Double.NaN;
+        for (int s = 0; s < net.length; s++) {
+            if (net[s] != 0 && !fixed.get(s)) {
+                if (Double.isNaN(size)) {
+                    size = compartmentSize.get(s);
+                } else if (size != compartmentSize.get(s)) {
+                    return Double.NaN;
+                }
+            }
+        }
+        return Double.isNaN(size) ? 1 : size;
     }
 
     private static void refuse(Path file, int count, String element, String id) {

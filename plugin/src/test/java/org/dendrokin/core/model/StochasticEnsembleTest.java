@@ -6,20 +6,10 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
 
-import org.apache.commons.math3.ode.FirstOrderDifferentialEquations;
-import org.apache.commons.math3.ode.nonstiff.DormandPrince853Integrator;
 import org.dendrokin.core.Progress;
 import org.junit.jupiter.api.Test;
 
 class StochasticEnsembleTest {
-    private static double[] nodes(Domain d) {
-        double[] x = new double[d.nodeCount()];
-        for (int i = 0; i < x.length; i++) {
-            x[i] = d.nodeUm(i);
-        }
-        return x;
-    }
-
     @Test
     void birthDeathIsPoissonWithMeanAndVarianceKbOverKd() {
         double kb = 10;
@@ -31,7 +21,7 @@ class StochasticEnsembleTest {
                         ReactionNetwork.massAction(new double[] {1}, new double[1], kd, 0), kd)));
         // 1 molecule per unit per um^3 and dx = 1 um: every inner voxel holds 1 um^3, so counts = values.
         Domain domain = new Domain(100, 1, Boundary.NO_FLUX);
-        double[] x = nodes(domain);
+        double[] x = MasterEquation.nodes(domain);
         double[] times = new double[11];
         for (int f = 0; f < times.length; f++) {
             times[f] = 10 + 3 * f;
@@ -68,76 +58,6 @@ class StochasticEnsembleTest {
         assertEquals(10.0, var, 4.5 * seVar, "stationary variance of the count");
     }
 
-    /**
-     * Mean and variance of a count over time for a chain where the only event takes state j (j firings so far) to
-     * j + 1 at rate a[j], from the chemical master equation dp_j/dt = a[j-1] p_(j-1) - a[j] p_j, integrated by
-     * Commons Math. count[j] is the observed count in state j. Returns {mean[t], variance[t]}.
-     */
-    private static double[][] masterEquation(double[] a, double[] count, double[] times) {
-        int states = a.length;
-        FirstOrderDifferentialEquations cme = new FirstOrderDifferentialEquations() {
-            @Override
-            public int getDimension() {
-                return states;
-            }
-
-            @Override
-            public void computeDerivatives(double t, double[] p, double[] dp) {
-                for (int j = 0; j < states; j++) {
-                    dp[j] = -a[j] * p[j] + (j > 0 ? a[j - 1] * p[j - 1] : 0);
-                }
-            }
-        };
-        double[] p = new double[states];
-        p[0] = 1;
-        double[][] out = new double[2][times.length];
-        double t = 0;
-        DormandPrince853Integrator integrator = new DormandPrince853Integrator(1e-10, 10, 1e-14, 1e-12);
-        for (int f = 0; f < times.length; f++) {
-            if (times[f] > t) {
-                integrator.integrate(cme, t, p, times[f], p);
-                t = times[f];
-            }
-            double mean = 0;
-            double second = 0;
-            for (int j = 0; j < states; j++) {
-                mean += p[j] * count[j];
-                second += p[j] * count[j] * count[j];
-            }
-            out[0][f] = mean;
-            out[1][f] = second - mean * mean;
-        }
-        return out;
-    }
-
-    /**
-     * Runs independent well-mixed voxels (no diffusion, 1 um^3 each) and checks the mean count of {@code observed}
-     * over all inner voxels and runs against the exact mean, within 4.5 standard errors from the exact variance.
-     */
-    private static void assertMatchesMasterEquation(ReactionNetwork net, String observed, double[] times,
-            double[][] exact, String what) {
-        Domain domain = new Domain(100, 1, Boundary.NO_FLUX);
-        double[] x = nodes(domain);
-        int runs = 20;
-        double[] sum = new double[times.length];
-        int samples = 0;
-        for (int r = 0; r < runs; r++) {
-            StochasticEnsemble.Voxels v = new StochasticEnsemble.Voxels(net, domain, times, x, List.of(), observed,
-                    1.0, StochasticEnsemble.seedOf(2024, r));
-            double[] out = v.simulate(Progress.NONE);
-            for (int i = 1; i < x.length - 1; i++) {
-                for (int f = 0; f < times.length; f++) {
-                    sum[f] += out[f * x.length + i];
-                }
-            }
-            samples += x.length - 2;
-        }
-        for (int f = 0; f < times.length; f++) {
-            double se = Math.sqrt(exact[1][f] / samples);
-            assertEquals(exact[0][f], sum[f] / samples, 4.5 * se, what + " at t = " + times[f] + " s");
-        }
-    }
-
     @Test
     void dimerisationCountsMoleculePairsAsTheMasterEquationDoes() {
         double k = 0.01;
@@ -159,12 +79,12 @@ class StochasticEnsembleTest {
         }
         // REF: Gillespie 1977, propensity c n (n - 1) / 2 with c = 2 k / omega for 2A -> [published];
         // mean from the chemical master equation integrated with Commons Math DormandPrince853 [common practice]
-        double[][] exact = masterEquation(pairs, count, times);
-        double[][] wrong = masterEquation(squares, count, times);
+        double[][] exact = MasterEquation.chain(pairs, count, times);
+        double[][] wrong = MasterEquation.chain(squares, count, times);
         // the check can tell the two propensities apart: n^2 would sit many standard errors away
         double se = Math.sqrt(exact[1][3] / (20 * 99.0));
         assertTrue(Math.abs(wrong[0][3] - exact[0][3]) > 10 * se, "n^2 and n (n - 1) differ detectably");
-        assertMatchesMasterEquation(net, "A", times, exact, "mean count of A under 2A -> 0");
+        MasterEquation.assertMeanMatches(net, "A", times, exact, "mean count of A under 2A -> 0");
     }
 
     @Test
@@ -186,8 +106,8 @@ class StochasticEnsembleTest {
         }
         // REF: Gillespie 1977, propensity c nA nB with c = k / omega for A + B -> C [published];
         // mean from the chemical master equation integrated with Commons Math DormandPrince853 [common practice]
-        double[][] exact = masterEquation(rate, count, times);
-        assertMatchesMasterEquation(net, "A", times, exact, "mean count of A under A + B -> C");
+        double[][] exact = MasterEquation.chain(rate, count, times);
+        MasterEquation.assertMeanMatches(net, "A", times, exact, "mean count of A under A + B -> C");
     }
 
     @Test
@@ -195,7 +115,7 @@ class StochasticEnsembleTest {
         List<String> names = List.of("X");
         ReactionNetwork net = new ReactionNetwork(names, new double[] {1.0}, new double[] {0}, List.of());
         Domain domain = new Domain(20, 0.5, Boundary.NO_FLUX);
-        double[] x = nodes(domain);
+        double[] x = MasterEquation.nodes(domain);
         double[] times = {1.5};
         List<Stimulus> pulse = List.of(Stimulus.pulse(0, 10, 1.5, 40));
         int runs = 300;
@@ -228,7 +148,7 @@ class StochasticEnsembleTest {
                 new ReactionNetwork.Reaction("death", new double[] {-1},
                         ReactionNetwork.massAction(new double[] {1}, new double[1], 0.3, 0), 0.3)));
         Domain domain = new Domain(10, 0.5, Boundary.FIXED);
-        double[] x = nodes(domain);
+        double[] x = MasterEquation.nodes(domain);
         double[] times = {0, 1, 2};
         List<Stimulus> pulse = List.of(Stimulus.pulse(0, 5, 1, 20));
         StochasticEnsemble.Summary one = StochasticEnsemble.run(net, domain, times, x, pulse, "X",
@@ -243,7 +163,7 @@ class StochasticEnsembleTest {
     void bufferedCalciumRunsStochasticallyAndKeepsTheBufferTotal() {
         ReactionNetwork net = ReactionNetwork.bufferedDiffusion(50, 0, 20, 1, 10, 5);
         Domain domain = new Domain(10, 0.5, Boundary.NO_FLUX);
-        double[] x = nodes(domain);
+        double[] x = MasterEquation.nodes(domain);
         double[] times = {0.05, 0.2};
         List<Stimulus> pulse = List.of(Stimulus.pulse(0, 5, 1, 5).onSpecies("Ca"));
         // 20 uM buffer in a 0.5 um^3 voxel is about 6000 molecules: the run is short but real

@@ -1,6 +1,8 @@
 package org.dendrokin.io.model;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -11,6 +13,7 @@ import java.util.Map;
 
 import org.dendrokin.core.model.Boundary;
 import org.dendrokin.core.model.Domain;
+import org.dendrokin.core.model.MasterEquation;
 import org.dendrokin.core.model.NetworkRun;
 import org.dendrokin.core.model.ReactionNetwork;
 import org.dendrokin.core.model.SolverSettings;
@@ -62,6 +65,17 @@ class SbmlNetworksTest {
                 + "<listOfLocalParameters><localParameter id=\"vmax\" value=\"" + vmax + "\"/>"
                 + "<localParameter id=\"Km\" value=\"" + km + "\"/></listOfLocalParameters>"
                 + "</kineticLaw></reaction></listOfReactions></model></sbml>";
+    }
+
+    /** 2A -> 0 with the kinetic law {@code law} (MathML content), parameter k, in a compartment of the given size. */
+    static String dimerisation(double k, double a0, double size, String law) {
+        return HEAD.formatted(size) + "<listOfSpecies>" + species("A", a0) + "</listOfSpecies>"
+                + "<listOfParameters><parameter id=\"k\" value=\"" + k + "\" constant=\"true\"/></listOfParameters>"
+                + "<listOfReactions><reaction id=\"pairing\" reversible=\"false\">"
+                + "<listOfReactants>"
+                + "<speciesReference species=\"A\" stoichiometry=\"2\" constant=\"true\"/></listOfReactants>"
+                + "<kineticLaw><math " + MATH + ">" + law + "</math></kineticLaw></reaction></listOfReactions>"
+                + "</model></sbml>";
     }
 
     private static double[][] wellMixed(ReactionNetwork net, double[] times) {
@@ -118,6 +132,74 @@ class SbmlNetworksTest {
             assertEquals(0.5 * (lo + hi), out[0][f], 1e-6, "S at t = " + times[f] + " s");
             assertEquals(s0 - 0.5 * (lo + hi), out[1][f], 1e-6, "P at t = " + times[f] + " s");
         }
+    }
+
+    @Test
+    void massActionLawsAreRecognisedAndOtherLawsAreNot() throws Exception {
+        List<String> ids = List.of("A", "B");
+        Map<String, Double> values = Map.of("k", 0.5, "Km", 2.0, "cell", 3.0);
+        SbmlNetworks.Monomial square = SbmlNetworks.monomial(Formulas.parse("k*A*A"), ids, values);
+        assertArrayEquals(new double[] {2, 0}, square.orders(), "orders of k*A*A");
+        assertEquals(0.5, square.constant(), 0, "constant of k*A*A");
+        SbmlNetworks.Monomial power = SbmlNetworks.monomial(Formulas.parse("k*A^2"), ids, values);
+        assertArrayEquals(new double[] {2, 0}, power.orders(), "orders of k*A^2");
+        SbmlNetworks.Monomial pair = SbmlNetworks.monomial(Formulas.parse("cell*k*A*B"), ids, values);
+        assertArrayEquals(new double[] {1, 1}, pair.orders(), "orders of cell*k*A*B");
+        assertEquals(1.5, pair.constant(), 1e-15, "constant of cell*k*A*B");
+        assertNull(SbmlNetworks.monomial(Formulas.parse("k*A/(Km+A)"), ids, values), "Michaelis-Menten");
+        assertNull(SbmlNetworks.monomial(Formulas.parse("k*A - k*B"), ids, values), "a difference");
+        assertNull(SbmlNetworks.monomial(Formulas.parse("k*A^0.5"), ids, values), "a fractional order");
+        assertNull(SbmlNetworks.monomial(Formulas.parse("k/A"), ids, values), "a species in the denominator");
+    }
+
+    @Test
+    void massActionFromSbmlCountsMoleculePairsInTheStochasticMode(@TempDir Path dir) throws Exception {
+        double k = 0.01;
+        int n0 = 10;
+        String[] laws = {
+            // cell * k * A * A: the compartment factor and the division by its size cancel
+            "<apply><times/><ci>cell</ci><ci>k</ci><ci>A</ci><ci>A</ci></apply>",
+            // k * A^2 in a compartment of size 1
+            "<apply><times/><ci>k</ci><apply><power/><ci>A</ci><cn type=\"integer\">2</cn></apply></apply>"};
+        double[] sizes = {2, 1};
+        double[] times = {1, 3, 6, 12, 25, 50};
+        int states = n0 / 2 + 1;
+        double[] pairs = new double[states];
+        double[] count = new double[states];
+        for (int j = 0; j < states; j++) {
+            int n = n0 - 2 * j;
+            count[j] = n;
+            // one molecule per concentration unit in a 1 um^3 voxel: omega = 1, propensity k n (n - 1)
+            pairs[j] = k * n * (n - 1);
+        }
+        // REF: Gillespie 1977, propensity c n (n - 1) / 2 with c = 2 k / omega for 2A -> [published];
+        // mean from the chemical master equation integrated with Commons Math DormandPrince853 [common practice]
+        double[][] exact = MasterEquation.chain(pairs, count, times);
+        for (int l = 0; l < laws.length; l++) {
+            Path file = dir.resolve("pairing" + l + ".xml");
+            Files.writeString(file, dimerisation(k, n0, sizes[l], laws[l]));
+            ReactionNetwork net = SbmlNetworks.read(file, Map.of("A", 0.0), dir.resolve("model.json"));
+            assertArrayEquals(new double[] {-2}, net.reactions().get(0).netStoichiometry(), 0,
+                    "whole stoichiometry of " + file.getFileName());
+            MasterEquation.assertMeanMatches(net, "A", times, exact, "mean count of A under 2A -> 0 from SBML " + l);
+            double[][] det = wellMixed(net, times);
+            for (int f = 0; f < times.length; f++) {
+                // REF: second-order decay d[A]/dt = -2 k [A]^2 has [A] = A0 / (1 + 2 k A0 t) [common practice]
+                assertEquals(n0 / (1 + 2 * k * n0 * times[f]), det[0][f], 1e-6, "deterministic A at t = " + times[f]);
+            }
+        }
+    }
+
+    @Test
+    void otherLawsInOneCompartmentAlsoKeepWholeStoichiometries(@TempDir Path dir) throws Exception {
+        // the rate then carries the division by the compartment size (A <-> B in a compartment of size 2 above
+        // checks the values)
+        Path file = dir.resolve("saturating.xml");
+        Files.writeString(file, dimerisation(0.01, 10, 2, "<apply><divide/><apply><times/><ci>k</ci><ci>A</ci></apply>"
+                + "<apply><plus/><cn>1</cn><ci>A</ci></apply></apply>"));
+        ReactionNetwork net = SbmlNetworks.read(file, Map.of("A", 0.0), dir.resolve("model.json"));
+        assertArrayEquals(new double[] {-2}, net.reactions().get(0).netStoichiometry(), 0,
+                "stoichiometry of 2A -> 0 under a saturating law");
     }
 
     @Test
