@@ -74,6 +74,22 @@ class SimulateCommandTest {
         }
     }
 
+    @Test
+    void timeToleranceIsReportedInTheSummary(@TempDir Path dir) throws Exception {
+        Path model = write(dir, "front.json", NAGUMO.formatted(", \"solver\": {\"time_tolerance\": 1e-3}"));
+        Path out = dir.resolve("out");
+        Outcome o = run("simulate", model.toString(), "--out", out.toString());
+        assertEquals(0, o.status(), o.err());
+        JsonObject summary = JsonParser.parseString(Files.readString(out.resolve("summary.json"))).getAsJsonObject();
+        JsonObject solver = summary.getAsJsonObject("solver");
+        assertEquals(1e-3, solver.get("time_tolerance").getAsDouble(), 0, "tolerance echoed");
+        double estimate = solver.get("time_error_estimate").getAsDouble();
+        assertTrue(estimate > 0 && estimate <= solver.get("time_error_allowed").getAsDouble(), "estimate " + estimate);
+        double step = solver.get("mean_time_step_s").getAsDouble();
+        assertEquals(20.0 / solver.get("time_steps").getAsLong(), step, 1e-12, "mean step = duration / steps (s)");
+        assertEquals(0, summary.getAsJsonArray("warnings").size(), "no warning: " + summary.get("warnings"));
+    }
+
     private static void assertBadInput(Path dir, String json, String... fragments) throws Exception {
         assertBadInputNaming(dir, "bad.json", json, fragments);
     }
@@ -103,6 +119,19 @@ class SimulateCommandTest {
         assertBadInput(dir, NAGUMO.formatted(", \"colour\": 1"), "unknown key colour");
         assertBadInput(dir, NAGUMO.formatted(", \"solver\": {\"fixed_step_s\": 2}"), "solver.fixed_step_s",
                 "too long");
+        assertBadInput(dir, NAGUMO.formatted(", \"solver\": {\"time_tolerance\": -1e-4}"),
+                "solver.time_tolerance", "positive");
+        assertBadInput(dir, NAGUMO.formatted(", \"solver\": {\"time_tolerance\": \"tight\"}"),
+                "solver.time_tolerance", "number");
+        assertBadInput(dir, NAGUMO.formatted(", \"solver\": {\"time_tolerance\": 0}"), "solver.time_tolerance",
+                "positive");
+        assertBadInput(dir, """
+                {"model": "network",
+                 "network": {"species": [{"name": "A", "D_um2_per_s": 1}, {"name": "B", "D_um2_per_s": 0}],
+                             "reactions": [{"reactants": {"A": 1}, "products": {"B": 1}, "k": 1}]},
+                 "domain": {"length_um": 10, "dx_um": 0.5}, "time": {"duration_s": 1, "output_interval_s": 0.1},
+                 "solver": {"time_tolerance": 1e-4}, "stochastic": {"runs": 2}}
+                """, "solver.time_tolerance", "deterministic");
         assertBadInput(dir, """
                 {"model": "network",
                  "network": {"species": [{"name": "A", "D_um2_per_s": 1}, {"name": "B"}],

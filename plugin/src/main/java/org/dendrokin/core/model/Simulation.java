@@ -3,8 +3,10 @@ package org.dendrokin.core.model;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
 import java.util.Objects;
+import java.util.function.Function;
 
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.Progress;
@@ -72,10 +74,17 @@ public final class Simulation {
      * @param steps      time steps taken (deterministic) or events simulated (stochastic, all runs)
      * @param frontSpeedUmPerS measured front speed, NaN when nothing travels
      * @param solverInfo settings and figures for the summary, by name
+     * @param warnings   plain sentences about numerical trouble (the result is still given)
      */
     public record Result(Kymograph kymograph, Kymograph spread, String species, long steps, double frontSpeedUmPerS,
-            Map<String, Object> solverInfo) {
+            Map<String, Object> solverInfo, List<String> warnings) {
+        public Result {
+            warnings = List.copyOf(warnings);
+        }
     }
+
+    /** Step halvings the time-error control makes at most (the last run costs 2^6 plain runs). */
+    public static final int MAX_HALVINGS = 6;
 
     /** Parameters each built-in model takes, in order. */
     public static List<String> parameterNames(String model) {
@@ -116,8 +125,15 @@ public final class Simulation {
 
     /** Runs the spec. */
     public static Result run(Spec spec, Progress progress) {
+        return run(spec, progress, MAX_HALVINGS);
+    }
+
+    /** Runs the spec with at most the given number of step halvings for the time tolerance. */
+    static Result run(Spec spec, Progress progress, int maxHalvings) {
         double[] times = spec.outputTimesS();
         double[] x = spec.outputPositionsUm();
+        double spanS = times[times.length - 1];
+        List<String> warnings = new ArrayList<>();
         Map<String, Object> info = new LinkedHashMap<>();
         info.put("grid_nodes", spec.domain().nodeCount());
         info.put("dx_um", spec.domain().spacingUm());
@@ -162,21 +178,26 @@ public final class Simulation {
                 stimuli = scaled;
                 p = new double[] {dEff, kEff};
             }
-            ScalarRun run = ScalarRun.prepare(scalarModel, spec.domain(), times, x, stimuli, spec.settings());
-            double[] out = new double[times.length * x.length];
-            run.solve(p, out);
-            progress.report("simulation", 1, 1);
-            info.put("spatial_order", run.spatialOrder());
-            info.put("time_steps", run.lastStepCount());
-            Kymograph k = new Kymograph(x, times, out, "model units");
+            String runModel = scalarModel;
+            List<Stimulus> runStimuli = stimuli;
+            double[] values = p;
+            Solved solved = controlled(spec.settings(), spanS, maxHalvings, info, warnings, progress, settings -> {
+                ScalarRun run = ScalarRun.prepare(runModel, spec.domain(), times, x, runStimuli, settings);
+                double[] out = new double[times.length * x.length];
+                run.solve(values, out);
+                return new Solved(out, run.lastStepCount(), run.spatialOrder());
+            });
+            Kymograph k = new Kymograph(x, times, solved.out(), "model units");
             String shown = model.equals("buffered-diffusion-rapid") ? "Ca" : "u";
-            return new Result(k, null, shown, run.lastStepCount(), FrontSpeed.measure(k, origin), info);
+            return new Result(k, null, shown, solved.steps(), FrontSpeed.measure(k, origin), info, warnings);
         }
         ReactionNetwork network = networkOf(spec);
         String observed = spec.observed() != null ? spec.observed() : defaultObserved(spec);
         Checks.require(network.indexOf(observed) >= 0, "the observed species '" + observed
                 + "' is not in the model " + network.species());
         if (spec.stochastic() != null) {
+            Checks.require(spec.settings().timeTolerance() == 0, "the time tolerance applies to deterministic runs"
+                    + " only; the stochastic mode has no time step to control");
             StochasticEnsemble.Summary summary = StochasticEnsemble.run(network, spec.domain(), times, x,
                     spec.stimuli(), observed, spec.stochastic(), progress);
             info.put("method", "next-subvolume (spatial Gillespie)");
@@ -185,17 +206,102 @@ public final class Simulation {
             info.put("events", summary.events());
             Kymograph mean = new Kymograph(x, times, summary.mean(), "model units");
             Kymograph sd = new Kymograph(x, times, summary.sd(), "model units");
-            return new Result(mean, sd, observed, summary.events(), FrontSpeed.measure(mean, origin), info);
+            return new Result(mean, sd, observed, summary.events(), FrontSpeed.measure(mean, origin), info,
+                    warnings);
         }
-        NetworkRun run = NetworkRun.prepare(network, spec.domain(), times, x, spec.stimuli(), spec.settings(),
-                observed);
-        info.put("spatial_order", run.spatialOrder());
-        double[][] out = new double[network.speciesCount()][];
-        out[network.indexOf(observed)] = new double[times.length * x.length];
-        run.solve(out);
+        int shown = network.indexOf(observed);
+        Solved solved = controlled(spec.settings(), spanS, maxHalvings, info, warnings, progress, settings -> {
+            NetworkRun run = NetworkRun.prepare(network, spec.domain(), times, x, spec.stimuli(), settings, observed);
+            double[][] out = new double[network.speciesCount()][];
+            out[shown] = new double[times.length * x.length];
+            run.solve(out);
+            return new Solved(out[shown], run.lastStepCount(), run.spatialOrder());
+        });
+        Kymograph k = new Kymograph(x, times, solved.out(), "model units");
+        return new Result(k, null, observed, solved.steps(), FrontSpeed.measure(k, origin), info, warnings);
+    }
+
+    /** One deterministic run: the observed output, the steps taken and the spatial order used. */
+    private record Solved(double[] out, long steps, int spatialOrder) {
+    }
+
+    /**
+     * Runs once with the given settings, or, when they ask for a time tolerance, halves the step until the
+     * Richardson estimate of the time error of the finer of the last two runs meets it (or the halvings run
+     * out). Both runs of a pair use the same grid, so their difference is time error alone. Returns the finest
+     * plain run (not the extrapolated one, which may lose positivity) and records the figures in {@code info}.
+     */
+    private static Solved controlled(SolverSettings settings, double spanS, int maxHalvings, Map<String, Object> info,
+            List<String> warnings, Progress progress, Function<SolverSettings, Solved> solver) {
+        double tolerance = settings.timeTolerance();
+        Solved coarse = solver.apply(settings);
+        info.put("spatial_order", coarse.spatialOrder());
+        if (tolerance == 0) {
+            progress.report("simulation", 1, 1);
+            info.put("time_steps", coarse.steps());
+            return coarse;
+        }
+        Solved fine = coarse;
+        double error = Double.NaN;
+        double scale = 1;
+        long allSteps = coarse.steps();
+        int halvings = 0;
+        while (halvings < maxHalvings) {
+            halvings++;
+            progress.report("time-step halving", halvings, maxHalvings);
+            fine = solver.apply(settings.halved(halvings));
+            allSteps += fine.steps();
+            error = richardsonError(coarse, fine);
+            scale = 1;
+            for (double v : fine.out()) {
+                scale = Math.max(scale, Math.abs(v));
+            }
+            if (error <= tolerance * scale || Double.isNaN(error)) {
+                break; // met, or not finite (a smaller step will not repair the model)
+            }
+            coarse = fine;
+        }
         progress.report("simulation", 1, 1);
-        info.put("time_steps", run.lastStepCount());
-        Kymograph k = new Kymograph(x, times, out[network.indexOf(observed)], "model units");
-        return new Result(k, null, observed, run.lastStepCount(), FrontSpeed.measure(k, origin), info);
+        double meanStepS = spanS / fine.steps();
+        info.put("time_steps", fine.steps());
+        info.put("time_tolerance", tolerance);
+        boolean finite = Double.isFinite(error) && Double.isFinite(scale);
+        info.put("time_error_estimate", finite ? error : null);
+        info.put("time_error_allowed", finite ? tolerance * scale : null);
+        info.put("time_step_halvings", halvings);
+        info.put("step_factor_used", settings.halved(halvings).stepFactor());
+        info.put("mean_time_step_s", meanStepS);
+        info.put("time_steps_all_runs", allSteps);
+        if (!finite) {
+            warnings.add("The time error could not be estimated because the run gave values that are not finite"
+                    + " numbers, so solver.time_tolerance was not checked.");
+        } else if (!(error <= tolerance * scale)) {
+            warnings.add(String.format(Locale.ROOT, "The estimated time error (%.3g, signal units) is still above"
+                    + " the allowed %.3g after %d halvings of the time step (mean step %.3g s), so the result is the"
+                    + " finest run and may be less accurate in time than solver.time_tolerance asks.", error,
+                    tolerance * scale, halvings, meanStepS));
+        }
+        return fine;
+    }
+
+    /**
+     * Richardson estimate of the time error of the finer run, for a scheme of order 2:
+     * max |u_fine - u_coarse| / (r^2 - 1), r the ratio of the step counts (2 when every gap between events
+     * halves its step; 3 in the denominator). A gap too short to be split again keeps its step, so r may fall
+     * below 2; it is then bounded below by 1.5 (denominator 1.25), which errs on the safe side.
+     */
+    private static double richardsonError(Solved coarse, Solved fine) {
+        double diff = 0;
+        double[] a = coarse.out();
+        double[] b = fine.out();
+        for (int i = 0; i < a.length; i++) {
+            double d = Math.abs(b[i] - a[i]);
+            if (Double.isNaN(d)) {
+                return Double.NaN;
+            }
+            diff = Math.max(diff, d);
+        }
+        double r = Math.min(2.0, Math.max(1.5, fine.steps() / (double) coarse.steps()));
+        return diff / (r * r - 1);
     }
 }

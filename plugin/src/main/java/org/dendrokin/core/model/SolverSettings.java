@@ -30,17 +30,27 @@ import org.dendrokin.core.Checks;
  *                    divides the spatial error of smooth fronts by roughly (h / width)^2 x 20. Order 4 is used
  *                    only on cables of uniform cross-section; elsewhere the solver falls back to order 2.
  *                    Default 4.
+ * @param timeTolerance 0 (default) to run once with the rule; if positive, {@link Simulation} halves the step
+ *                    (all of stepFactor, maxStepS and fixedStepS) until the Richardson estimate of the time
+ *                    error of the observed output is at most timeTolerance * max(1, max |u|), dimensionless.
+ *                    The single runs ({@link ScalarRun}, {@link NetworkRun}) ignore it.
  */
 public record SolverSettings(double stepFactor, double maxStepS, double fixedStepS, boolean smoothing,
-        int spatialOrder) {
+        int spatialOrder, double timeTolerance) {
     /** The defaults: factor 0.5, no upper bound, no fixed step, smoothing on, compact fourth order in space. */
-    public static final SolverSettings DEFAULT = new SolverSettings(0.5, Double.POSITIVE_INFINITY, 0, true, 4);
+    public static final SolverSettings DEFAULT = new SolverSettings(0.5, Double.POSITIVE_INFINITY, 0, true, 4, 0);
 
     public SolverSettings {
         Checks.positiveFinite(stepFactor, "step factor");
         Checks.require(maxStepS > 0, "the largest time step must be positive, got " + maxStepS);
         Checks.nonNegativeFinite(fixedStepS, "fixed time step (s)");
         Checks.require(spatialOrder == 2 || spatialOrder == 4, "the spatial order must be 2 or 4, got " + spatialOrder);
+        Checks.nonNegativeFinite(timeTolerance, "time tolerance");
+    }
+
+    /** Settings without time-error control. */
+    public SolverSettings(double stepFactor, double maxStepS, double fixedStepS, boolean smoothing, int spatialOrder) {
+        this(stepFactor, maxStepS, fixedStepS, smoothing, spatialOrder, 0);
     }
 
     /** Settings with the default spatial order (4). */
@@ -49,23 +59,33 @@ public record SolverSettings(double stepFactor, double maxStepS, double fixedSte
     }
 
     public SolverSettings withSpatialOrder(int order) {
-        return new SolverSettings(stepFactor, maxStepS, fixedStepS, smoothing, order);
+        return new SolverSettings(stepFactor, maxStepS, fixedStepS, smoothing, order, timeTolerance);
     }
 
     public SolverSettings withStepFactor(double factor) {
-        return new SolverSettings(factor, maxStepS, fixedStepS, smoothing, spatialOrder);
+        return new SolverSettings(factor, maxStepS, fixedStepS, smoothing, spatialOrder, timeTolerance);
     }
 
     public SolverSettings withMaxStepS(double step) {
-        return new SolverSettings(stepFactor, step, fixedStepS, smoothing, spatialOrder);
+        return new SolverSettings(stepFactor, step, fixedStepS, smoothing, spatialOrder, timeTolerance);
     }
 
     public SolverSettings withFixedStepS(double step) {
-        return new SolverSettings(stepFactor, maxStepS, step, smoothing, spatialOrder);
+        return new SolverSettings(stepFactor, maxStepS, step, smoothing, spatialOrder, timeTolerance);
     }
 
     public SolverSettings withSmoothing(boolean on) {
-        return new SolverSettings(stepFactor, maxStepS, fixedStepS, on, spatialOrder);
+        return new SolverSettings(stepFactor, maxStepS, fixedStepS, on, spatialOrder, timeTolerance);
+    }
+
+    public SolverSettings withTimeTolerance(double tolerance) {
+        return new SolverSettings(stepFactor, maxStepS, fixedStepS, smoothing, spatialOrder, tolerance);
+    }
+
+    /** These settings with every step bound (factor, largest step, fixed step) divided by 2^halvings. */
+    public SolverSettings halved(int halvings) {
+        double f = Math.scalb(1.0, -halvings);
+        return new SolverSettings(stepFactor * f, maxStepS * f, fixedStepS * f, smoothing, spatialOrder, timeTolerance);
     }
 
     /** The step limit of the rule, s, for the given rate (1/s), spacing (um), D (um^2/s) and width (um). */

@@ -156,7 +156,8 @@ public final class ModelFile {
         SolverSettings settings = SolverSettings.DEFAULT;
         if (root.has("solver")) {
             JsonObject s = object(root, "solver", "solver");
-            keys(s, "solver.", Set.of("step_factor", "max_step_s", "fixed_step_s", "smoothing", "spatial_order"));
+            keys(s, "solver.", Set.of("step_factor", "max_step_s", "fixed_step_s", "smoothing", "spatial_order",
+                    "time_tolerance"));
             if (s.has("step_factor")) {
                 settings = settings.withStepFactor(positive(s, "step_factor", "solver.step_factor"));
             }
@@ -175,6 +176,9 @@ public final class ModelFile {
             }
             if (s.has("smoothing")) {
                 settings = settings.withSmoothing(bool(s, "smoothing", "solver.smoothing"));
+            }
+            if (s.has("time_tolerance")) {
+                settings = settings.withTimeTolerance(positive(s, "time_tolerance", "solver.time_tolerance"));
             }
         }
 
@@ -244,6 +248,10 @@ public final class ModelFile {
             if (!kind.equals("network") && !kind.equals("buffered-diffusion") && !kind.equals("fitzhugh-nagumo")) {
                 throw fail("stochastic needs a reaction network (model \"network\" or \"buffered-diffusion\"); "
                         + model + " is a continuum model only");
+            }
+            if (settings.timeTolerance() > 0) {
+                throw fail("solver.time_tolerance applies to deterministic runs only; remove it or the stochastic"
+                        + " block");
             }
             if (kind.equals("fitzhugh-nagumo")) {
                 throw fail("stochastic is not available for fitzhugh-nagumo, whose rates change sign; write it as a"

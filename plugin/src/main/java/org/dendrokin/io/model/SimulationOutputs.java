@@ -42,7 +42,7 @@ public final class SimulationOutputs {
         String unit = ScalarUnit.of(spec.model());
         Kymograph k = result.kymograph().withValues(result.kymograph().values(), unit);
         List<Path> files = new ArrayList<>();
-        List<String> warnings = new ArrayList<>();
+        List<String> warnings = new ArrayList<>(result.warnings());
         Path csv = outDir.resolve("kymograph.csv");
         KymographCsv.write(k, csv);
         files.add(csv);
