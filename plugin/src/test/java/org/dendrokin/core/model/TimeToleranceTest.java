@@ -38,6 +38,14 @@ class TimeToleranceTest {
                 settings, null);
     }
 
+    private static Simulation.Spec protocolSpec(SolverSettings settings) {
+        // Nagumo with a pulse, a short injection and a late pulse: event gaps of uneven length, some short
+        Domain domain = new Domain(60, 0.25, Boundary.NO_FLUX);
+        return new Simulation.Spec("nagumo", Map.of("D", 1.0, "k", 2.0, "a", 0.2), null, null, domain, 12, 0.25,
+                nodes(domain), List.of(Stimulus.pulse(0, 5, 2.0, 1.0), Stimulus.injection(3.03, 0.07, 40, 1.5, 0.8),
+                        Stimulus.pulse(3.11, 50, 1.0, 0.6)), settings, null);
+    }
+
     private static double[] nodes(Domain d) {
         double[] x = new double[d.nodeCount()];
         for (int i = 0; i < x.length; i++) {
@@ -106,6 +114,7 @@ class TimeToleranceTest {
         assertHonest(TimeToleranceTest::nagumoSpec, 1e-4, 8, "Nagumo front");
         // REF: FitzHugh 1961 / Nagumo 1962 as a two-species network [published equations]; Richardson as above
         assertHonest(TimeToleranceTest::networkSpec, 1e-5, 8, "FitzHugh-Nagumo network");
+        assertHonest(TimeToleranceTest::protocolSpec, 1e-4, 8, "uneven protocol");
     }
 
     @Test
