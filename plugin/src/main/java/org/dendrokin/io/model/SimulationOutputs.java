@@ -39,6 +39,7 @@ public final class SimulationOutputs {
         } catch (IllegalArgumentException e) {
             throw new InputException(modelFile, e.getMessage());
         }
+        FiniteOutput.require(modelFile, spec, result);
         String unit = ScalarUnit.of(spec.model());
         Kymograph k = result.kymograph().withValues(result.kymograph().values(), unit);
         List<Path> files = new ArrayList<>();
