@@ -156,6 +156,15 @@ public final class StochasticEnsemble {
             this.reactions = network.reactions().size();
             this.d = network.diffusionUm2PerS();
             this.stoich = network.stoichiometry();
+            for (int r = 0; r < reactions; r++) {
+                for (int s = 0; s < m; s++) {
+                    double nu = stoich[r][s];
+                    Checks.require(nu == Math.rint(nu), "reaction " + network.reactions().get(r).name()
+                            + " changes " + network.species().get(s) + " by " + nu + " per firing, but the stochastic"
+                            + " mode needs whole molecules (an SBML reaction between compartments of different sizes"
+                            + " has no whole-molecule form)");
+                }
+            }
             this.stimuli = stimuli;
             this.timeline = new Timeline(outputTimesS, stimuli);
             this.outputTimes = outputTimesS;

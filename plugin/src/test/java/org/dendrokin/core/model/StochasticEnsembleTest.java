@@ -2,6 +2,7 @@ package org.dendrokin.core.model;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
@@ -108,6 +109,19 @@ class StochasticEnsembleTest {
         // mean from the chemical master equation integrated with Commons Math DormandPrince853 [common practice]
         double[][] exact = MasterEquation.chain(rate, count, times);
         MasterEquation.assertMeanMatches(net, "A", times, exact, "mean count of A under A + B -> C");
+    }
+
+    @Test
+    void fractionalStoichiometryIsRefusedWithTheReactionNamed() {
+        // half a molecule per firing, as an SBML reaction between compartments of sizes 1 and 2 gives
+        ReactionNetwork net = new ReactionNetwork(List.of("A", "B"), new double[2], new double[] {1, 0}, List.of(
+                new ReactionNetwork.Reaction("transport", new double[] {-1, 0.5},
+                        ReactionNetwork.massAction(new double[] {1, 0}, new double[2], 1, 0), 1)));
+        Domain domain = new Domain(2, 1, Boundary.NO_FLUX);
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> StochasticEnsemble.run(net,
+                domain, new double[] {1}, MasterEquation.nodes(domain), List.of(), "A",
+                new StochasticSettings(1, 1, 1, 1.0), Progress.NONE));
+        assertTrue(e.getMessage().contains("transport") && e.getMessage().contains("whole molecules"), e.getMessage());
     }
 
     @Test
