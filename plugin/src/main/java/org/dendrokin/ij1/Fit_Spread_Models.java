@@ -148,7 +148,8 @@ public class Fit_Spread_Models implements PlugIn {
             Tables.add(t, source, o.criterion().toUpperCase(Locale.ROOT), f.criterion(o.criterion()), "",
                     Double.NaN, Double.NaN, "lower is better");
             Double w = o.weights().get(f.model());
-            Tables.add(t, source, "Akaike weight", w == null ? Double.NaN : w, "", Double.NaN, Double.NaN, "");
+            Tables.add(t, source, "Akaike weight", w == null || !f.converged() ? Double.NaN : w, "", Double.NaN,
+                    Double.NaN, f.converged() ? "" : "not converged: takes no part in the comparison");
             Tables.add(t, source, "RMSE", f.rmse(), "", Double.NaN, Double.NaN, "unweighted, signal units");
         }
         return t;

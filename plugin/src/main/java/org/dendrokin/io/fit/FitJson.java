@@ -25,12 +25,15 @@ public final class FitJson {
     private FitJson() {
     }
 
-    /** One JSON object per fit, in the outcome's order, each with its Akaike weight. */
+    /**
+     * One JSON object per fit, in the outcome's order, each with its Akaike weight (null for a fit that did not
+     * converge: it takes no part in the comparison).
+     */
     public static List<JsonObject> fits(KymographFits.Outcome outcome) {
         Map<String, Double> weights = outcome.weights();
         return outcome.fits().stream().map(f -> {
             JsonObject o = fit(f);
-            o.add("akaike_weight", number(weights.getOrDefault(f.model(), Double.NaN)));
+            o.add("akaike_weight", number(f.converged() ? weights.getOrDefault(f.model(), Double.NaN) : Double.NaN));
             o.addProperty("weight_criterion", outcome.criterion());
             return o;
         }).toList();

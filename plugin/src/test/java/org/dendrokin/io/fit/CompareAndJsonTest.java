@@ -135,6 +135,7 @@ class CompareAndJsonTest {
             assertFalse(g.get("converged").getAsBoolean());
             assertTrue(g.getAsJsonObject("parameters").entrySet().isEmpty(), "no numbers from a failed fit");
             assertFalse(g.get("reason").getAsString().isBlank(), "a reason is given");
+            assertTrue(g.get("akaike_weight").isJsonNull(), "a fit that did not converge takes no Akaike weight");
         }
     }
 }
