@@ -5,9 +5,14 @@ import ij.ImagePlus;
 import ij.WindowManager;
 import ij.plugin.PlugIn;
 
+import org.dendrokin.core.kymo.Extraction;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.kymo.KymographExtractor;
 import org.dendrokin.core.path.DendritePath;
+import org.dendrokin.core.preprocess.BackgroundEstimator;
+import org.dendrokin.core.preprocess.DeltaF;
 import org.dendrokin.io.compare.ModelComparison;
+import org.dendrokin.io.movie.ImagePlusFrames;
 
 /**
  * Plugins > Dendrokin > Simulate Along Line: runs a built-in reaction-diffusion model along the dendrite and
@@ -42,9 +47,17 @@ public class Simulate_Along_Line implements PlugIn {
             if (!folder.isEmpty()) {
                 Compare_With_Simulation.saveKymograph(image, simulated, java.nio.file.Path.of(folder));
             }
-            Display.showKymograph(image);
+            ImagePlus measured = current.getStackSize() > 1 ? measured(current, model.stimulusTimeS(), progress) : null;
+            if (measured != null) {
+                // the measured dF/F0 beside the model, both on the model's display range for a fair look
+                measured.setDisplayRange(image.getDisplayRangeMin(), image.getDisplayRangeMax());
+                Display.showKymograph(measured);
+                Display.showKymograph(image, measured);
+            } else {
+                Display.showKymograph(image);
+            }
             progress.finish(COMMAND + ": " + model.model() + " simulated on " + grid.positionCount() + " positions x "
-                    + grid.frameCount() + " frames.");
+                    + grid.frameCount() + " frames" + (measured != null ? ", beside the measured dF/F0." : "."));
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
         }
@@ -75,6 +88,45 @@ public class Simulate_Along_Line implements PlugIn {
             t[i] = i * cal.frameIntervalS();
         }
         return new Kymograph(d, t, new double[n * frames], "dF/F0");
+    }
+
+    /**
+     * The measured kymograph along the movie's line, on the simulation's grid (one sample per pixel along the
+     * line, a band as wide as the line), as dF/F0: background from pixels away from the line subtracted, F0 the
+     * median of the frames before the stimulus. Null, with a line in the Log, when no frame precedes the stimulus
+     * (then there is no F0 to compare with).
+     */
+    static ImagePlus measured(ImagePlus movie, double stimulusTimeS, IjProgress progress) {
+        ImageSettings cal = ImageSettings.of(movie);
+        double px = cal.pixelSizeUm();
+        int before = (int) Math.ceil(stimulusTimeS / cal.frameIntervalS()) - 1;
+        if (before < 0) {
+            IJ.log(COMMAND + ": the stimulus is at the first frame, so there is no baseline for F0; only the model"
+                    + " is shown.");
+            return null;
+        }
+        LineSelection line = LineSelection.of(movie.getRoi(), "selection");
+        ImagePlusFrames frames = new ImagePlusFrames(movie, movie.getChannel() - 1);
+        double bandUm = Math.max(1, line.widthPx()) * px;
+        Extraction e = KymographExtractor.extract(frames, line.path(), px, cal.frameIntervalS(), bandUm, px,
+                progress);
+        int count = Math.min(16, before + 1);
+        int[] picks = new int[count];
+        for (int i = 0; i < count; i++) {
+            picks[i] = (int) Math.round(i * (double) before / Math.max(1, count - 1));
+        }
+        BackgroundEstimator.Estimate bg = BackgroundEstimator.fromFarPixels(frames, e.xPx(), e.yPx(),
+                (bandUm / 2 + 3.0) / px, picks, progress);
+        double background = Double.isFinite(bg.value()) ? bg.value() : 0;
+        double[] v = e.kymograph().values();
+        for (int i = 0; i < v.length; i++) {
+            v[i] -= background;
+        }
+        Kymograph intensity = e.kymograph().withValues(v, e.kymograph().signalUnit());
+        Kymograph dff = DeltaF.compute(intensity, 0, Math.min(before, intensity.frameCount() - 1)).kymograph();
+        IJ.log(COMMAND + ": measured dF/F0 along the line, background " + String.format(java.util.Locale.ROOT,
+                "%.4g", background) + " (" + bg.description() + "), F0 from frames 0-" + before + ".");
+        return KymographImage.toImage(dff, movie.getShortTitle() + " measured (dF/F0)");
     }
 
     /** A sensible default stimulus time: a tenth of the way through the recording. */
