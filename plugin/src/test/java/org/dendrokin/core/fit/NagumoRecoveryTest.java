@@ -122,6 +122,46 @@ class NagumoRecoveryTest {
     }
 
     @Test
+    void speedAndWidthComeBackFromMcKeansExactFront() {
+        // Data made without the engine: McKean's exact travelling front, 1.5 / (1 + exp((x - X(t)) / w)) + noise,
+        // seen from 30 s on (100 positions x 90 frames, 0.5 um and 0.5 s). Only the front's position at 30 s is
+        // read off a noise-free engine run from the stimulus used in the fit, so that the fitted model can be where
+        // the data are; its speed and shape are the closed form's.
+        Kymograph engine = Synthetic.engine("nagumo", new double[] {D, K, A}, 100, 61, 0.5, 0.5, 1.0, 0, 0, 0, 2, 0,
+                1);
+        double[] at30 = engine.row(60);
+        double front30 = Double.NaN;
+        for (int i = 1; i < at30.length && Double.isNaN(front30); i++) {
+            if (at30[i - 1] >= 0.5 && at30[i] < 0.5) {
+                front30 = engine.distanceUm(i - 1) + 0.5 * (at30[i - 1] - 0.5) / (at30[i - 1] - at30[i]);
+            }
+        }
+        assertTrue(front30 > 5 && front30 < 20, "the engine's front at 30 s: " + front30 + " um");
+        double[] x = new double[100];
+        double[] t = new double[90];
+        for (int i = 0; i < x.length; i++) {
+            x[i] = 0.5 * i;
+        }
+        double[] v = new double[x.length * t.length];
+        for (int f = 0; f < t.length; f++) {
+            t[f] = 30 + 0.5 * f;
+            for (int i = 0; i < x.length; i++) {
+                // REF: McKean 1970, exact Nagumo front u = 1 / (1 + exp((x - c t) / w)) [published formula]; sheet s5.2
+                v[f * x.length + i] = 1.5 / (1 + Math.exp((x[i] - front30 - SPEED * (t[f] - 30)) / WIDTH));
+            }
+        }
+        Synthetic.addNoise(v, 0.05, 204);
+        FitResult f = fit(new Kymograph(x, t, v, "dF/F0"), 0, 0, 2).fits().get(0);
+        assertTrue(f.converged(), f.reason());
+        // REF: McKean 1970 speed and width [published formula]; sheet s5.2
+        assertEquals(SPEED, value(f, "front_speed"), 0.05 * SPEED, "front speed (um/s)");
+        assertEquals(WIDTH, value(f, "front_width"), 0.10 * WIDTH, "front width (um)");
+        assertTrue(f.estimate("front_speed").orElseThrow().ci95().contains(SPEED), "speed interval holds the truth");
+        assertTrue(f.warnings().stream().anyMatch(w -> w.contains("front_speed") && w.contains("front_width")),
+                "a steady front: the warnings point to the speed and width, which the data do fix");
+    }
+
+    @Test
     @Tag("slow")
     void aSteadyFrontFixesOnlySpeedAndWidthAndTheToolSaysSo() {
         // Only the steadily travelling part is in view: frames from 30 s on, stimulus at the sealed left end at 0 s.
