@@ -290,7 +290,6 @@ public final class DiffusionDecayPulse implements FitModel {
     @Override
     public void normalEquations(double[] p, FitData data, NormalEquations out, double[] fitted) {
         Checks.require(data.size() == size(), "the data do not lie on this model's grid");
-        int np = specs.size();
         int nx = xUm.length;
         int nt = tS.length;
         int framesPerTask = Math.max(Math.max(1, POINTS_PER_TASK / nx), (nt + MAX_TASKS - 1) / MAX_TASKS);
@@ -303,12 +302,8 @@ public final class DiffusionDecayPulse implements FitModel {
         range.forEach(b -> parts[b] = sweep(p, data, fitted, b * framesPerTask,
                 Math.min(nt, (b + 1) * framesPerTask)));
         out.clear();
-        double[] partA = new double[np * np];
-        double[] partG = new double[np];
         for (double[] part : parts) {
-            System.arraycopy(part, 0, partA, 0, np * np);
-            System.arraycopy(part, np * np, partG, 0, np);
-            out.addPartial(partA, partG, part[np * np + np]);
+            out.addPacked(part);
         }
     }
 

@@ -262,7 +262,6 @@ public final class EngineFitModel implements FitModel {
         double[] theta = java.util.Arrays.copyOf(p, engineParameters);
         double amp = p[engineParameters];
         double base = p[engineParameters + 1];
-        int np = specs.size();
         int size = size();
         Runs runs = runs(theta);
         int blocks = Math.max(1, Math.min(64, size / 16_384));
@@ -275,12 +274,8 @@ public final class EngineFitModel implements FitModel {
                 (int) ((long) size * (b + 1) / blocks)));
         release(runs);
         out.clear();
-        double[] partA = new double[np * np];
-        double[] partG = new double[np];
         for (double[] part : parts) {
-            System.arraycopy(part, 0, partA, 0, np * np);
-            System.arraycopy(part, np * np, partG, 0, np);
-            out.addPartial(partA, partG, part[np * np + np]);
+            out.addPacked(part);
         }
     }
 

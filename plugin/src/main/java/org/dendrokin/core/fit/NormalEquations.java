@@ -55,20 +55,19 @@ public final class NormalEquations {
     }
 
     /**
-     * Adds a partial sum (for instance one block of frames).
+     * Adds a partial sum (for instance one block of frames) packed in one array: A row-major (p x p), then g (p), then chi^2, the layout the models'
+     * block sweeps fill.
      *
-     * @param partMatrix   its A, row-major p x p. Not modified.
-     * @param partGradient its g, length p. Not modified.
-     * @param partChi      its chi^2
+     * @param packed length p^2 + p + 1. Not modified.
      */
-    public void addPartial(double[] partMatrix, double[] partGradient, double partChi) {
+    public void addPacked(double[] packed) {
         for (int i = 0; i < matrix.length; i++) {
-            matrix[i] += partMatrix[i];
+            matrix[i] += packed[i];
         }
         for (int a = 0; a < p; a++) {
-            gradient[a] += partGradient[a];
+            gradient[a] += packed[matrix.length + a];
         }
-        chiSquare += partChi;
+        chiSquare += packed[matrix.length + p];
     }
 
     /** A_ab. */

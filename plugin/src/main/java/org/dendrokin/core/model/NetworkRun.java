@@ -79,35 +79,17 @@ public final class NetworkRun {
         sampler = new OutputSampler(outputPositionsUm, domain.lengthUm(), grid.h, n);
         int count = this.stimuli.size();
         stimulusSpecies = new int[count];
-        profile = new double[count][];
-        clampMask = new boolean[count][];
-        double narrowest = Double.POSITIVE_INFINITY;
         for (int s = 0; s < count; s++) {
             Stimulus st = this.stimuli.get(s);
             String name = st.species() == null ? observedDefault : st.species();
             stimulusSpecies[s] = network.indexOf(name);
             Checks.require(stimulusSpecies[s] >= 0, "a stimulus names species '" + name
                     + "', which the network does not have " + network.species());
-            if (st.kind() == Stimulus.Kind.CLAMP) {
-                clampMask[s] = new boolean[n];
-                boolean any = false;
-                for (int i = 0; i < n; i++) {
-                    boolean end = grid.fixedEnds && (i == 0 || i == n - 1);
-                    clampMask[s][i] = !end && st.clamps(grid.x(i));
-                    any |= clampMask[s][i];
-                }
-                Checks.require(any, "the clamp at " + st.positionUm() + " um covers no grid node");
-                narrowest = Math.min(narrowest, grid.h);
-            } else {
-                profile[s] = new double[n];
-                for (int i = 0; i < n; i++) {
-                    boolean end = grid.fixedEnds && (i == 0 || i == n - 1);
-                    profile[s][i] = end ? 0 : st.profile(grid.x(i));
-                }
-                narrowest = Math.min(narrowest, st.widthUm());
-            }
         }
-        minWidthUm = narrowest;
+        StimulusLayout layout = new StimulusLayout(grid, this.stimuli);
+        profile = layout.profile;
+        clampMask = layout.clampMask;
+        minWidthUm = layout.minWidthUm;
         c = new double[m][n];
         rhs = new double[n];
         source = new double[m][n];

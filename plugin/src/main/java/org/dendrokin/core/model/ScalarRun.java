@@ -115,32 +115,10 @@ public final class ScalarRun {
         this.positions = outputPositionsUm.length;
         sampler = new OutputSampler(outputPositionsUm, domain.lengthUm(), grid.h, n);
         int count = this.stimuli.size();
-        profile = new double[count][];
-        clampMask = new boolean[count][];
-        double narrowest = Double.POSITIVE_INFINITY;
-        for (int s = 0; s < count; s++) {
-            Stimulus st = this.stimuli.get(s);
-            if (st.kind() == Stimulus.Kind.CLAMP) {
-                clampMask[s] = new boolean[n];
-                boolean any = false;
-                for (int i = 0; i < n; i++) {
-                    boolean end = grid.fixedEnds && (i == 0 || i == n - 1);
-                    clampMask[s][i] = !end && st.clamps(grid.x(i));
-                    any |= clampMask[s][i];
-                }
-                Checks.require(any, "the clamp at " + st.positionUm() + " um covers no grid node: make width_um at"
-                        + " least half the grid spacing (" + grid.h + " um) or move it inside the domain");
-                narrowest = Math.min(narrowest, grid.h);
-            } else {
-                profile[s] = new double[n];
-                for (int i = 0; i < n; i++) {
-                    boolean end = grid.fixedEnds && (i == 0 || i == n - 1);
-                    profile[s][i] = end ? 0 : st.profile(grid.x(i));
-                }
-                narrowest = Math.min(narrowest, st.widthUm());
-            }
-        }
-        minWidthUm = narrowest;
+        StimulusLayout layout = new StimulusLayout(grid, this.stimuli);
+        profile = layout.profile;
+        clampMask = layout.clampMask;
+        minWidthUm = layout.minWidthUm;
         u = new double[n];
         rhs = new double[n];
         lapU0 = new double[n];
