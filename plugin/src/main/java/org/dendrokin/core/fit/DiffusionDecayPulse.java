@@ -46,6 +46,10 @@ public final class DiffusionDecayPulse implements FitModel {
     private final double[] walls;
     private final List<ParameterSpec> specs;
     private final int iPosition;
+    private final int iWidth;
+    /** True when t0 is fitted: the model is then a point source and has no width parameter. */
+    private final boolean point;
+    private final int iBase;
     private final int iTime;
     /** Column spacing, um, if the columns are evenly spaced (to 1e-10 of a step), else NaN. */
     private final double stepUm;
@@ -97,9 +101,12 @@ public final class DiffusionDecayPulse implements FitModel {
         if (iPosition >= 0) {
             s.add(ParameterSpec.linear("position", Unit.MICROMETRE));
         }
-        if (!Double.isNaN(stimulusTimeS)) {
+        iWidth = Double.isNaN(stimulusTimeS) ? -1 : s.size();
+        point = iWidth < 0;
+        if (iWidth >= 0) {
             s.add(ParameterSpec.positive("width", Unit.MICROMETRE));
         }
+        iBase = s.size();
         s.add(ParameterSpec.linear("baseline", signalUnit));
         iTime = Double.isNaN(stimulusTimeS) ? s.size() : -1;
         if (iTime >= 0) {
@@ -162,18 +169,17 @@ public final class DiffusionDecayPulse implements FitModel {
         p[0] = d;
         p[1] = k;
         p[2] = amplitude;
-        int i = 3;
         if (iPosition >= 0) {
-            p[i++] = positionUm;
+            p[iPosition] = positionUm;
         }
-        if (iTime < 0) {
-            p[i++] = widthUm;
+        if (iWidth >= 0) {
+            p[iWidth] = widthUm;
         } else {
             p[2] = amplitude * widthUm * Math.sqrt(2 * Math.PI);   // the released amount of a point source
         }
-        p[i++] = baseline;
+        p[iBase] = baseline;
         if (iTime >= 0) {
-            p[i] = timeS;
+            p[iTime] = timeS;
         }
         return p;
     }
@@ -184,13 +190,9 @@ public final class DiffusionDecayPulse implements FitModel {
         double d = p[0];
         double k = p[1];
         double amp = p[2];
-        int i = 3;
-        double x0 = iPosition >= 0 ? p[i++] : fixedPositionUm;
-        boolean point = iTime >= 0;
-        int iWidth = point ? -1 : i;
-        double s0 = point ? 0 : p[i++];
-        int iBase = i;
-        double base = p[i];
+        double x0 = iPosition >= 0 ? p[iPosition] : fixedPositionUm;
+        double s0 = iWidth >= 0 ? p[iWidth] : 0;
+        double base = p[iBase];
         double t0 = iTime >= 0 ? p[iTime] : fixedTimeS;
         int nx = xUm.length;
         double lenUm = walls == null ? 0 : walls[1] - walls[0];
@@ -313,13 +315,9 @@ public final class DiffusionDecayPulse implements FitModel {
         double d = p[0];
         double k = p[1];
         double amp = p[2];
-        int i = 3;
-        double x0 = iPosition >= 0 ? p[i++] : fixedPositionUm;
-        boolean point = iTime >= 0;
-        int iWidth = point ? -1 : i;
-        double s0 = point ? 0 : p[i++];
-        int iBase = i;
-        double base = p[i];
+        double x0 = iPosition >= 0 ? p[iPosition] : fixedPositionUm;
+        double s0 = iWidth >= 0 ? p[iWidth] : 0;
+        double base = p[iBase];
         double t0 = iTime >= 0 ? p[iTime] : fixedTimeS;
         int nx = xUm.length;
         double lenUm = walls == null ? 0 : walls[1] - walls[0];

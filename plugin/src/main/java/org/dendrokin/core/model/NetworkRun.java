@@ -244,8 +244,7 @@ public final class NetworkRun {
                 break;
             }
             double gap = tl.breaksS[j + 1] - tl.breaksS[j];
-            double target = settings.fixedStepS() > 0 ? settings.fixedStepS() : dtMax;
-            long count = Math.max(1, (long) Math.ceil(gap / target - 1e-9));
+            long count = settings.stepCount(gap, dtMax);
             double dt = gap / count;
             double t = tl.breaksS[j];
             for (long step = 0; step < count; step++) {

@@ -375,8 +375,7 @@ public final class ScalarRun {
                 break;
             }
             double gap = tl.breaksS[j + 1] - tl.breaksS[j];
-            double target = settings.fixedStepS() > 0 ? settings.fixedStepS() : dtMax;
-            long count = Math.max(1, (long) Math.ceil(gap / target - 1e-9));
+            long count = settings.stepCount(gap, dtMax);
             double dt = gap / count;
             int slot = factorisation(0.5 * dt * d);
             double t = tl.breaksS[j];

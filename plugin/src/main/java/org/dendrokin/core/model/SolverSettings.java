@@ -88,6 +88,15 @@ public record SolverSettings(double stepFactor, double maxStepS, double fixedSte
         return new SolverSettings(stepFactor * f, maxStepS * f, fixedStepS * f, smoothing, spatialOrder, timeTolerance);
     }
 
+    /**
+     * Number of equal steps across a gap between two event times: enough that none is longer than the fixed
+     * step, if one is set, or else than {@code dtMaxS} (from {@link #maxStep}); at least one.
+     */
+    public long stepCount(double gapS, double dtMaxS) {
+        double target = fixedStepS > 0 ? fixedStepS : dtMaxS;
+        return Math.max(1, (long) Math.ceil(gapS / target - 1e-9));
+    }
+
     /** The step limit of the rule, s, for the given rate (1/s), spacing (um), D (um^2/s) and width (um). */
     public double maxStep(double ratePerS, double hUm, double dUm2PerS, double widthUm) {
         double limit = maxStepS;
