@@ -6,13 +6,13 @@ import java.io.PrintWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Locale;
-import java.util.Map;
 import java.util.Set;
 import java.util.concurrent.Callable;
 
-import com.google.gson.JsonElement;
-import com.google.gson.JsonObject;
-
+import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.Interval;
+import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
@@ -89,30 +89,23 @@ final class DemoCommand implements Callable<Integer> {
 
     /** The preferred model and its rate and diffusion constants, as results.json holds them. */
     private static String bestFit(SessionRunner.Result r) {
-        if (r.bestModel() == null) {
-            return r.fits().isEmpty() ? "" : "  best model       none: no model fit converged\n";
+        AnalysisResult a = r.analysis();
+        if (a.bestModel() == null) {
+            return a.fitResults().isEmpty() ? "" : "  best model       none: no model fit converged\n";
         }
-        StringBuilder b = new StringBuilder(String.format(Locale.ROOT, "  best model       %s%n", r.bestModel()));
-        for (JsonObject fit : r.fits()) {
-            if (!r.bestModel().equals(fit.get("model").getAsString()) || !fit.has("parameters")) {
+        StringBuilder b = new StringBuilder(String.format(Locale.ROOT, "  best model       %s%n", a.bestModel()));
+        FitResult best = a.bestFit().orElseThrow();
+        for (ParameterEstimate p : best.parameters()) {
+            if (!HEADLINE.contains(p.name())) {
                 continue;
             }
-            for (Map.Entry<String, JsonElement> p : fit.getAsJsonObject("parameters").entrySet()) {
-                if (!HEADLINE.contains(p.getKey()) || !p.getValue().isJsonObject()) {
-                    continue;
-                }
-                JsonObject q = p.getValue().getAsJsonObject();
-                JsonElement ci = q.get("ci95");
-                String interval = ci != null && ci.isJsonArray() && ci.getAsJsonArray().size() == 2
-                        && !ci.getAsJsonArray().get(0).isJsonNull() && !ci.getAsJsonArray().get(1).isJsonNull()
-                        ? String.format(Locale.ROOT, " (95%% interval %s to %s)",
-                                ReportHtml.number(ci.getAsJsonArray().get(0).getAsDouble()),
-                                ReportHtml.number(ci.getAsJsonArray().get(1).getAsDouble()))
-                        : " (interval not determined by these data)";
-                b.append(String.format(Locale.ROOT, "    %-14s %s %s%s%n", p.getKey(),
-                        ReportHtml.number(q.get("value").getAsDouble()),
-                        q.has("unit") ? q.get("unit").getAsString() : "", interval));
-            }
+            Interval ci = p.ci95();
+            String interval = ci != null && ci.isFinite()
+                    ? String.format(Locale.ROOT, " (95%% interval %s to %s)", ReportHtml.number(ci.lower()),
+                            ReportHtml.number(ci.upper()))
+                    : " (interval not determined by these data)";
+            b.append(String.format(Locale.ROOT, "    %-14s %s %s%s%n", p.name(), ReportHtml.number(p.value()),
+                    p.unit().symbol(), interval));
         }
         return b.toString();
     }

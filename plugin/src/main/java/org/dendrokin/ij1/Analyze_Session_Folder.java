@@ -1,20 +1,20 @@
 package org.dendrokin.ij1;
 
 import java.nio.file.Path;
+import java.util.List;
 
 import ij.IJ;
 import ij.ImagePlus;
 import ij.measure.ResultsTable;
 import ij.plugin.PlugIn;
 
+import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.Interval;
+import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.spread.SpreadAnalysis;
-import org.dendrokin.io.KymographCsv;
 import org.dendrokin.io.SessionRunner;
-
-import com.google.gson.JsonArray;
-import com.google.gson.JsonElement;
-import com.google.gson.JsonObject;
 
 /**
  * Plugins > Dendrokin > Analyze Session Folder: runs the same analysis as the command line's {@code analyze}
@@ -43,7 +43,7 @@ public class Analyze_Session_Folder implements PlugIn {
             Path outDir = output.isEmpty() ? defaultOutput(sessionDir) : Path.of(output);
             SessionRunner.Result result = SessionRunner.analyze(sessionDir, outDir, progress);
             result.warnings().forEach(w -> IJ.log(COMMAND + " (" + result.session() + "): " + w));
-            Kymograph k = KymographCsv.read(outDir.resolve(SessionRunner.KYMOGRAPH_CSV), result.signalUnit());
+            Kymograph k = result.analysis().signal();
             ImagePlus image = KymographImage.toImage(k, result.session());
             Display.showKymograph(image);
             Tables.show(table(result), "Dendrokin session " + result.session());
@@ -69,49 +69,36 @@ public class Analyze_Session_Folder implements PlugIn {
         Tables.add(t, "spread", "length constant", "um", s == null ? null : s.lengthConstant(), why);
         Tables.add(t, "spread", "decay time", "s", s == null ? null : s.decayTime(), why);
         Tables.add(t, "spread", "apparent D", "um^2/s", s == null ? null : s.apparentD(), why);
-        addFits(t, r.fits(), r.bestModel());
+        addFits(t, r.analysis().fits());
         return t;
     }
 
-    /** Rows from fits in the results.json form: {model, converged, aic, parameters: {P: {value, unit, ci95}}}. */
-    static void addFits(ResultsTable t, Iterable<JsonObject> fits, String bestModel) {
-        for (JsonObject fit : fits) {
-            String model = fit.has("model") ? fit.get("model").getAsString() : "model";
-            boolean converged = !fit.has("converged") || fit.get("converged").getAsBoolean();
-            String source = model + (model.equals(bestModel) ? " (best)" : "") + (converged ? "" : " (not converged)");
-            for (String block : new String[] {"parameters", "derived"}) {
-                if (!fit.has(block) || !fit.get(block).isJsonObject()) {
-                    continue;
-                }
-                for (var e : fit.getAsJsonObject(block).entrySet()) {
-                    JsonObject p = e.getValue().getAsJsonObject();
-                    double[] ci = ci(p.get("ci95"));
-                    Tables.add(t, source, e.getKey(), number(p.get("value")),
-                            p.has("unit") ? p.get("unit").getAsString() : "", ci[0], ci[1],
-                            p.has("ci_method") && !p.get("ci_method").isJsonNull() ? p.get("ci_method").getAsString()
-                                    : "");
+    /** Rows of each fit: its parameters and derived quantities, then its criteria and Akaike weight. */
+    static void addFits(ResultsTable t, KymographFits.Outcome outcome) {
+        if (outcome == null) {
+            return;
+        }
+        for (FitResult fit : outcome.fits()) {
+            String model = fit.model();
+            boolean converged = fit.converged();
+            String source = model + (model.equals(outcome.bestModel()) ? " (best)" : "")
+                    + (converged ? "" : " (not converged)");
+            if (converged) {
+                for (List<ParameterEstimate> block : List.of(fit.parameters(), fit.derived())) {
+                    for (ParameterEstimate p : block) {
+                        Interval ci = p.ci95();
+                        Tables.add(t, source, p.name(), p.value(), p.unit().symbol(),
+                                ci == null ? Double.NaN : ci.lower(), ci == null ? Double.NaN : ci.upper(),
+                                ci == null ? "" : ci.method());
+                    }
                 }
             }
-            for (String criterion : new String[] {"aicc", "aic", "bic", "rmse", "akaike_weight"}) {
-                if (fit.has(criterion)) {
-                    String name = criterion.equals("akaike_weight") ? "Akaike weight"
-                            : criterion.toUpperCase(java.util.Locale.ROOT);
-                    Tables.add(t, source, name, number(fit.get(criterion)), "",
-                            Double.NaN, Double.NaN, "");
-                }
+            double weight = converged ? outcome.weights().getOrDefault(model, Double.NaN) : Double.NaN;
+            double[] criteria = {fit.aicc(), fit.aic(), fit.bic(), fit.rmse(), weight};
+            String[] names = {"AICC", "AIC", "BIC", "RMSE", "Akaike weight"};
+            for (int i = 0; i < names.length; i++) {
+                Tables.add(t, source, names[i], converged ? criteria[i] : Double.NaN, "", Double.NaN, Double.NaN, "");
             }
         }
-    }
-
-    private static double number(JsonElement e) {
-        return e == null || e.isJsonNull() ? Double.NaN : e.getAsDouble();
-    }
-
-    private static double[] ci(JsonElement e) {
-        if (e == null || !e.isJsonArray() || e.getAsJsonArray().size() != 2) {
-            return new double[] {Double.NaN, Double.NaN};
-        }
-        JsonArray a = e.getAsJsonArray();
-        return new double[] {number(a.get(0)), number(a.get(1))};
     }
 }

@@ -150,14 +150,25 @@ public final class KymographFits {
      * @param progress reports per model; checked for cancellation
      */
     public static Outcome fit(Kymograph k, Setup setup, Progress progress) {
+        return fit(k, setup, null, progress);
+    }
+
+    /**
+     * Fits every model of the setup to the kymograph, with starting values from spread measures the caller has
+     * already made (a session analysis measures the spread once and shows the same figures everywhere).
+     *
+     * @param k        the kymograph (dF/F0 or concentration; NaN marks missing samples). Not modified.
+     * @param setup    what to fit
+     * @param measured the model-free spread measures of this kymograph about the setup's stimulus, or null to
+     *                 measure them here
+     * @param progress reports per model; checked for cancellation
+     */
+    public static Outcome fit(Kymograph k, Setup setup, SpreadAnalysis.Result measured, Progress progress) {
         List<String> warnings = new ArrayList<>();
         double t0 = setup.stimulusTimeS();
         double x0 = setup.stimulusPositionUm();
         int[] baseline = setup.baselineFrames();
-        int firstAfter = 0;
-        while (firstAfter < k.frameCount() && k.timeS(firstAfter) < t0 - 1e-9 * Math.max(1, Math.abs(t0))) {
-            firstAfter++;
-        }
+        int firstAfter = k.firstFrameAtOrAfter(t0);
         if (baseline == null) {
             baseline = new int[] {0, firstAfter - 1};
         }
@@ -165,7 +176,7 @@ public final class KymographFits {
         double b0 = baselineLevel(k, baseline);
         double noise = org.dendrokin.core.preprocess.Robust.median(sigma);
         Kymograph zeroed = shifted(k, -b0);
-        SpreadAnalysis.Result spread = SpreadAnalysis.measure(zeroed, t0, x0, noise);
+        SpreadAnalysis.Result spread = measured != null ? measured : SpreadAnalysis.measure(zeroed, t0, x0, noise);
         int framesAfter = k.frameCount() - firstAfter;
         if (framesAfter < 2) {
             warnings.add(String.format(Locale.ROOT, "Only %d frame(s) after the stimulus: no model can be fitted to "

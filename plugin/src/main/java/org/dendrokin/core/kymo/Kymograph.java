@@ -109,6 +109,21 @@ public final class Kymograph {
         return new Kymograph(distancesUm, timesS, newValues, newUnit);
     }
 
+    /**
+     * The first frame at or after a time: the first frame of a response to a stimulus at {@code timeS}. A frame
+     * within 1e-9 relative of the time counts as at it. Returns {@link #frameCount()} when every frame is earlier.
+     *
+     * @param timeS time, s
+     */
+    public int firstFrameAtOrAfter(double timeS) {
+        double tolerance = 1e-9 * Math.max(1, Math.abs(timeS));
+        int f = 0;
+        while (f < timesS.length && timesS[f] < timeS - tolerance) {
+            f++;
+        }
+        return f;
+    }
+
     /** Number of NaN values. */
     public long nanCount() {
         long n = 0;

@@ -110,10 +110,7 @@ public final class Preprocessing {
 
         int firstResponse = nt;
         if (Double.isFinite(t0)) {
-            firstResponse = 0;
-            while (firstResponse < nt && raw.timeS(firstResponse) < t0 - 1e-9 * Math.max(1, Math.abs(t0))) {
-                firstResponse++;
-            }
+            firstResponse = raw.firstFrameAtOrAfter(t0);
         }
         int b0;
         int b1;

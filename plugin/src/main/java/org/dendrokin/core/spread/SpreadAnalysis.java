@@ -87,10 +87,7 @@ public final class SpreadAnalysis {
         double dx = signal.distanceStepUm();
         double dt = signal.timeStepS();
         String unit = signal.signalUnit();
-        int first = 0;
-        while (first < nt && signal.timeS(first) < stimulusTimeS - 1e-9 * Math.max(1, Math.abs(stimulusTimeS))) {
-            first++;
-        }
+        int first = signal.firstFrameAtOrAfter(stimulusTimeS);
         int after = nt - first;
         double[] relTimes = new double[Math.max(0, after)];
         for (int f = first; f < nt; f++) {

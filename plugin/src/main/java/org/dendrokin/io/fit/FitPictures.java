@@ -14,6 +14,7 @@ import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.plot.ColourScale;
 import org.dendrokin.io.plot.Heatmap;
 import org.dendrokin.io.plot.LinePlot;
+import org.dendrokin.io.plot.Picture;
 import org.dendrokin.io.plot.Pictures;
 
 /**
@@ -25,16 +26,6 @@ public final class FitPictures {
     private static final int H = 420;
 
     private FitPictures() {
-    }
-
-    /**
-     * A written picture.
-     *
-     * @param file    file name in the output folder
-     * @param title   short title
-     * @param caption what it shows, in a sentence or two
-     */
-    public record Picture(String file, String title, String caption) {
     }
 
     /** The model's prediction on the measured grid as a kymograph. */
@@ -81,10 +72,7 @@ public final class FitPictures {
                         range[1], unit)));
 
         int nt = measured.frameCount();
-        int first = 0;
-        while (first < nt - 1 && measured.timeS(first) < stimulusTimeS) {
-            first++;
-        }
+        int first = Math.min(nt - 1, measured.firstFrameAtOrAfter(stimulusTimeS));
         LinePlot profiles = new LinePlot("Profiles along the dendrite", "distance (um)", "signal (" + unit + ")");
         int shown = 0;
         for (int q = 1; q <= 4 && first < nt; q++) {

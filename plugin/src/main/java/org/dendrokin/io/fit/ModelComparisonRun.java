@@ -19,6 +19,7 @@ import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.KymographCsv;
 import org.dendrokin.io.compare.ModelComparison;
+import org.dendrokin.io.session.ResultsJson;
 
 import com.google.gson.Gson;
 import com.google.gson.GsonBuilder;
@@ -131,8 +132,8 @@ public final class ModelComparisonRun {
                 ss.lengthConstant(), warnings);
         JsonObject out = new JsonObject();
         out.addProperty("model", model);
-        out.add("residual_norm", FitJson.number(norm));
-        out.add("rmse", FitJson.number(rmse));
+        out.add("residual_norm", ResultsJson.finiteOrNull(norm));
+        out.add("rmse", ResultsJson.finiteOrNull(rmse));
         out.addProperty("signal_unit", signalUnit);
         JsonObject speed = new JsonObject();
         speed.add("measured", estimate(sm.frontSpeed()));
@@ -168,11 +169,11 @@ public final class ModelComparisonRun {
             return com.google.gson.JsonNull.INSTANCE;
         }
         JsonObject o = new JsonObject();
-        o.add("value", FitJson.number(e.value()));
+        o.add("value", ResultsJson.finiteOrNull(e.value()));
         o.addProperty("unit", e.unit());
         JsonArray ci = new JsonArray();
-        ci.add(FitJson.number(e.lo95()));
-        ci.add(FitJson.number(e.hi95()));
+        ci.add(ResultsJson.finiteOrNull(e.lo95()));
+        ci.add(ResultsJson.finiteOrNull(e.hi95()));
         o.add("ci95", ci);
         o.addProperty("ci_method", e.method());
         return o;

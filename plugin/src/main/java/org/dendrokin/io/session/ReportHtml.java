@@ -6,16 +6,23 @@ import java.nio.file.Path;
 import java.util.List;
 import java.util.Locale;
 
+import java.util.stream.Stream;
+
+import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.CalibrationStage;
+import org.dendrokin.core.analysis.Warning;
+import org.dendrokin.core.calib.Calibration;
+import org.dendrokin.core.calib.CalibrationSummary;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.preprocess.BleachCorrection;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.AtomicFiles;
-import org.dendrokin.io.SessionRunner;
 import org.dendrokin.io.ToolVersion;
-
-import com.google.gson.JsonObject;
+import org.dendrokin.io.calib.CalibrationSetup;
+import org.dendrokin.io.fit.FitReportHtml;
+import org.dendrokin.io.plot.Picture;
 
 /**
  * Writes {@code report.html}: one self-contained page (no scripts, no web fonts; pictures are PNG files beside
@@ -26,10 +33,20 @@ public final class ReportHtml {
     private ReportHtml() {
     }
 
-    /** Writes the report. */
-    public static void write(Path target, String session, SessionRunner.Inputs in, Preprocessing.Result pre,
-            Kymograph signal, String calibration, SpreadAnalysis.Result spread, List<JsonObject> fits, String bestModel,
-            List<SessionPictures.Picture> pictures, List<String> warnings) {
+    /**
+     * Writes the report.
+     *
+     * @param target   the file to write
+     * @param in       the session's inputs
+     * @param a        the analysis
+     * @param pictures the pictures beside the report, in the order shown
+     */
+    public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures) {
+        String session = in.sessionName();
+        Kymograph signal = a.signal();
+        Preprocessing.Result pre = a.preprocessing();
+        SpreadAnalysis.Result spread = a.spread();
+        AnalysisResult.Movie movie = a.movie();
         StringBuilder h = new StringBuilder(16384);
         h.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<title>Dendrokin report: ")
                 .append(esc(session)).append("</title>\n<style>\n")
@@ -50,16 +67,18 @@ public final class ReportHtml {
 
         h.append("<h2>What was analysed</h2>\n<table>\n");
         row(h, "Session folder", esc(in.sessionDir().toAbsolutePath().normalize().toString()));
-        row(h, "Movie", esc(in.sessionDir().relativize(in.movieFile()).toString()) + String.format(Locale.ROOT,
-                ": %d x %d pixels, %d frames, %d-bit", in.width(), in.height(), in.frameCount(), in.bitDepth()));
-        row(h, "Pixel size", number(in.pixelSizeUm()) + " um" + source(in.config().pixelSizeUm() != null));
-        row(h, "Frame interval", number(in.frameIntervalS()) + " s" + source(in.config().frameIntervalS() != null)
-                + "; frame i is at time i x " + number(in.frameIntervalS()) + " s");
-        row(h, "Path", esc(in.sessionDir().relativize(in.pathFile()).toString()) + ", " + number(in.pathLengthUm())
-                + " um long; averaged over a band " + number(in.config().pathWidthUm()) + " um wide; "
+        row(h, "Movie", esc(in.relative(in.movieFile())) + String.format(Locale.ROOT,
+                ": %d x %d pixels, %d frames, %d-bit", movie.widthPx(), movie.heightPx(), movie.frameCount(),
+                in.bitDepth()));
+        row(h, "Pixel size", number(movie.pixelSizeUm()) + " um" + source(in.config().pixelSizeUm() != null));
+        row(h, "Frame interval", number(movie.frameIntervalS()) + " s" + source(in.config().frameIntervalS() != null)
+                + "; frame i is at time i x " + number(movie.frameIntervalS()) + " s");
+        row(h, "Path", esc(in.relative(in.pathFile())) + ", " + number(movie.pathLengthUm())
+                + " um long; averaged over a band " + number(movie.pathWidthUm()) + " um wide; "
                 + signal.positionCount() + " positions every " + number(signal.distanceStepUm())
                 + " um from the first vertex");
-        row(h, "Background", String.format(Locale.ROOT, "%.1f", in.backgroundValue()) + " grey values. " + esc(in.backgroundDescription()));
+        row(h, "Background", String.format(Locale.ROOT, "%.1f", a.background().value()) + " grey values. "
+                + esc(a.background().description()));
         Preprocessing.Stimulus s = pre.stimulus();
         String stim = s.known() ? "t = " + number(s.timeS()) + " s at " + number(s.positionUm())
                 + " um along the path (" + esc(s.source()) + ")" : "none given or found";
@@ -73,7 +92,8 @@ public final class ReportHtml {
         row(h, "Baseline (F0)", String.format(Locale.ROOT, "median of frames %d to %d at each position",
                 pre.baselineFirst(), pre.baselineLast()));
         row(h, "Bleaching correction", bleach(in.config().bleachCorrection(), pre.bleach()));
-        row(h, "Calibration", esc(calibration) + " The analysed signal is in " + esc(signal.signalUnit()) + ".");
+        row(h, "Calibration", esc(calibrationSentence(in.calibration(), a.calibrated())) + " The analysed signal is in "
+                + esc(signal.signalUnit()) + ".");
         h.append("</table>\n");
 
         h.append("<h2>Numbers</h2>\n<p>Model-free measures of the spread, read directly off the kymograph. The 95% "
@@ -96,9 +116,11 @@ public final class ReportHtml {
                 "exponential fit to the samples outside the response");
         h.append("</table>\n");
 
-        h.append(org.dendrokin.io.fit.FitReportHtml.section(fits, bestModel));
+        h.append(FitReportHtml.section(a.fits()));
 
         h.append("<h2>Warnings</h2>\n");
+        List<String> warnings = Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text)
+                .toList();
         if (warnings.isEmpty()) {
             h.append("<p>None.</p>\n");
         } else {
@@ -110,7 +132,7 @@ public final class ReportHtml {
         }
 
         h.append("<h2>Pictures</h2>\n");
-        for (SessionPictures.Picture p : pictures) {
+        for (Picture p : pictures) {
             h.append("<figure><img src=\"").append(esc(p.file())).append("\" alt=\"").append(esc(p.title()))
                     .append("\"><figcaption><b>").append(esc(p.title())).append(".</b> ").append(esc(p.caption()))
                     .append("</figcaption></figure>\n");
@@ -132,6 +154,33 @@ public final class ReportHtml {
                 + "use. Laser and uncaging work follows your institution's safety rules.</p></div>\n");
         h.append("</body>\n</html>\n");
         AtomicFiles.writeString(target, h.toString());
+    }
+
+    /** One sentence for the report: the calibration method, its constants, and what was flagged. */
+    public static String calibrationSentence(CalibrationSetup setup, CalibrationStage.Calibrated applied) {
+        Calibration cal = setup.calibration();
+        String description = cal.description();
+        StringBuilder b = new StringBuilder(description.isEmpty() ? description
+                : Character.toUpperCase(description.charAt(0)) + description.substring(1));
+        if (setup.sourceFile() != null) {
+            b.append(" (from ").append(setup.sourceFile()).append(')');
+        }
+        b.append('.');
+        if (applied.summary() != null) {
+            CalibrationSummary s = applied.summary();
+            b.append(String.format(Locale.ROOT, " Samples above %s of the indicator's range are flagged (%s of the "
+                    + "samples) and above %s set to NaN; %s of the samples have no concentration in all.",
+                    percent(s.limits().flagAbove()), percent(s.fractionFlagged()), percent(s.limits().rejectAbove()),
+                    percent(s.fractionNan())));
+            b.append(applied.propagated()
+                    ? " The calibration's own uncertainty was propagated to a per-sample SD (concentration_sd.csv)."
+                    : " No uncertainty of the calibration constants was given, so none was propagated.");
+        }
+        return b.toString();
+    }
+
+    private static String percent(double f) {
+        return String.format(Locale.ROOT, "%.1f%%", 100 * f);
     }
 
     private static String source(boolean fromSession) {

@@ -1,27 +1,320 @@
 package org.dendrokin.io.session;
 
+import java.nio.file.Path;
 import java.util.List;
+import java.util.Map;
+import java.util.stream.Stream;
 
+import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.CalibrationStage;
+import org.dendrokin.core.analysis.Headline;
+import org.dendrokin.core.analysis.Warning;
+import org.dendrokin.core.calib.Calibration;
+import org.dendrokin.core.calib.CalibrationSummary;
+import org.dendrokin.core.calib.SampleStatus;
+import org.dendrokin.core.calib.SaturationLimits;
+import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.Interval;
+import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.fit.ParameterEstimate;
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.spread.Estimate;
+import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.ToolVersion;
+import org.dendrokin.io.calib.CalibrationSetup;
 
 import com.google.gson.GsonBuilder;
 import com.google.gson.JsonArray;
 import com.google.gson.JsonElement;
 import com.google.gson.JsonNull;
 import com.google.gson.JsonObject;
+import com.google.gson.JsonPrimitive;
 
 /**
- * Builds and writes {@code results.json}. The contract's keys ({@code tool_version}, {@code session},
- * {@code signal_unit}, {@code kymograph}, {@code fits}, {@code best_model}, {@code spread}, {@code warnings})
- * come first; extra sections follow. Fits are passed in as ready JSON objects, so a fitting module adds its
- * entries without this class knowing their structure. Infinite interval ends are written as null.
+ * Builds and writes {@code results.json}, the one place that knows its layout. The contract's keys
+ * ({@code tool_version}, {@code session}, {@code signal_unit}, {@code kymograph}, {@code fits},
+ * {@code best_model}, {@code spread}, {@code warnings}) come first; the sections describing the inputs and the
+ * preprocessing follow. Non-finite numbers, and interval ends the data leave open, are written as null (JSON
+ * cannot hold them).
+ *
+ * <p>A fit is {@code {"model", "converged", "aic", "aicc", "bic", "rmse", "points", "parameters": {NAME:
+ * {"value", "unit", "ci95": [lo, hi], "ci_method", "standard_error", "identifiable", ...}}, "derived": {...},
+ * "warnings": [...], "akaike_weight", "weight_criterion"}}; a fit that did not converge has
+ * {@code "converged": false}, a {@code "reason"} and no parameters (its numbers are not estimates).
  */
 public final class ResultsJson {
+    /** File name of the results. */
+    public static final String FILE_NAME = "results.json";
+
     private ResultsJson() {
     }
 
-    /** {@code {"value": v, "unit": u, "ci95": [lo, hi], "method": m}}, or JSON null for a null estimate. */
+    /**
+     * The whole document of one analysis.
+     *
+     * @param in            the session's inputs
+     * @param a             the analysis
+     * @param kymographFile file name of the kymograph CSV beside it
+     */
+    public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile) {
+        Kymograph signal = a.signal();
+        JsonObject root = new JsonObject();
+        root.addProperty("tool_version", ToolVersion.get());
+        root.addProperty("session", in.sessionName());
+        root.addProperty("signal_unit", signal.signalUnit());
+        JsonObject kymo = new JsonObject();
+        kymo.addProperty("file", kymographFile);
+        kymo.addProperty("distance_step_um", signal.distanceStepUm());
+        kymo.addProperty("time_step_s", signal.timeStepS());
+        root.add("kymograph", kymo);
+        JsonArray fitArray = new JsonArray();
+        if (a.fits() != null) {
+            fits(a.fits()).forEach(fitArray::add);
+        }
+        root.add("fits", fitArray);
+        root.add("best_model", a.bestModel() == null ? JsonNull.INSTANCE : new JsonPrimitive(a.bestModel()));
+        root.add("spread", spread(a.spread(), a.headline()));
+        root.add("movie", movie(in, a));
+        root.add("path", path(in, a));
+        root.add("stimulus", stimulus(a.stimulus()));
+        JsonArray baseline = new JsonArray();
+        baseline.add(a.preprocessing().baselineFirst());
+        baseline.add(a.preprocessing().baselineLast());
+        root.add("baseline_frames", baseline);
+        JsonObject bg = new JsonObject();
+        bg.addProperty("value", a.background().value());
+        bg.addProperty("how", a.background().description());
+        root.add("background", bg);
+        JsonObject bleach = new JsonObject();
+        bleach.addProperty("requested", in.config().bleachCorrection());
+        bleach.addProperty("applied", a.preprocessing().bleach().applied());
+        bleach.add("time_constant", estimate(a.preprocessing().bleach().timeConstant()));
+        root.add("bleach_correction", bleach);
+        root.add("baseline_noise_sd_dF_F0", finiteOrNull(a.preprocessing().deltaF().typicalNoiseSd()));
+        root.add("calibration", calibration(in.calibration(), a.calibrated()));
+        JsonArray w = new JsonArray();
+        Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text).forEach(w::add);
+        root.add("warnings", w);
+        return root;
+    }
+
+    /** Writes the document, pretty-printed, through a temporary file. */
+    public static void write(JsonObject results, Path target) {
+        String text = new GsonBuilder().setPrettyPrinting().serializeNulls().disableHtmlEscaping().create()
+                .toJson(results);
+        AtomicFiles.writeString(target, text + "\n");
+    }
+
+    // ---- sections ------------------------------------------------------------------------------------------
+
+    private static JsonObject spread(SpreadAnalysis.Result spread, Headline headline) {
+        JsonObject o = new JsonObject();
+        JsonElement modelFree = estimate(spread == null ? null : spread.frontSpeed());
+        if (headline.frontSpeedFromModel()) {
+            ParameterEstimate e = headline.modelFrontSpeed();
+            JsonObject fs = new JsonObject();
+            fs.add("value", number(e.value()));
+            fs.addProperty("unit", e.unit().symbol());
+            JsonArray ci = new JsonArray();
+            ci.add(number(e.ci95() == null ? Double.NaN : e.ci95().lower()));
+            ci.add(number(e.ci95() == null ? Double.NaN : e.ci95().upper()));
+            fs.add("ci95", ci);
+            fs.addProperty("ci_method", e.ci95() == null ? "" : e.ci95().method());
+            fs.addProperty("source", "model:" + headline.bestModel());
+            o.add("front_speed", fs);
+        } else {
+            o.add("front_speed", modelFree);
+        }
+        o.add("length_constant", estimate(spread == null ? null : spread.lengthConstant()));
+        o.add("decay_time", estimate(spread == null ? null : spread.decayTime()));
+        JsonElement d = estimate(spread == null ? null : spread.apparentD());
+        if (d.isJsonObject() && spread.varianceWindowS() != null) {
+            JsonArray window = new JsonArray();
+            window.add(spread.varianceWindowS()[0]);
+            window.add(spread.varianceWindowS()[1]);
+            d.getAsJsonObject().add("time_window_s", window);
+        }
+        o.add("apparent_D", d);
+        o.addProperty("positions_with_arrival", spread == null ? 0 : spread.arrivalTimeS().length);
+        if (headline.frontSpeedFromModel()) {
+            o.add("front_speed_model_free", modelFree);
+        }
+        return o;
+    }
+
+    private static JsonObject movie(SessionInputs in, AnalysisResult a) {
+        AnalysisResult.Movie m = a.movie();
+        JsonObject movie = new JsonObject();
+        movie.addProperty("file", in.relative(in.movieFile()));
+        movie.addProperty("width_px", m.widthPx());
+        movie.addProperty("height_px", m.heightPx());
+        movie.addProperty("frames", m.frameCount());
+        movie.addProperty("bit_depth", in.bitDepth());
+        movie.addProperty("pixel_size_um", m.pixelSizeUm());
+        movie.addProperty("frame_interval_s", m.frameIntervalS());
+        return movie;
+    }
+
+    private static JsonObject path(SessionInputs in, AnalysisResult a) {
+        JsonObject path = new JsonObject();
+        path.addProperty("file", in.relative(in.pathFile()));
+        path.addProperty("length_um", a.movie().pathLengthUm());
+        path.addProperty("band_width_um", a.movie().pathWidthUm());
+        path.addProperty("positions", a.extraction().kymograph().positionCount());
+        path.addProperty("fraction_outside_image", a.extraction().fractionOutside());
+        return path;
+    }
+
+    private static JsonObject stimulus(Preprocessing.Stimulus s) {
+        JsonObject stim = new JsonObject();
+        stim.add("time_s", finiteOrNull(s.timeS()));
+        stim.add("position_um", finiteOrNull(s.positionUm()));
+        stim.addProperty("source", s.source());
+        if (s.detection() != null) {
+            stim.addProperty("detection_strength_noise_sd", s.detection().strength());
+            stim.addProperty("detection", s.detection().describe());
+        }
+        return stim;
+    }
+
+    /**
+     * The {@code calibration} object: method, description, constants, source file, the limits with their reason,
+     * counts and fractions of flagged and NaN samples, and whether an uncertainty was propagated (the per-sample
+     * SD then goes to {@code concentration_sd.csv}).
+     */
+    public static JsonObject calibration(CalibrationSetup setup, CalibrationStage.Calibrated applied) {
+        Calibration cal = setup.calibration();
+        JsonObject o = new JsonObject();
+        o.addProperty("method", cal.method());
+        o.addProperty("description", cal.description());
+        o.addProperty("signal_in", switch (cal.input()) {
+            case INTENSITY -> "background-subtracted intensity";
+            case RATIO -> "ratio of background-subtracted channels";
+            case DF_F0 -> "dF/F0";
+        });
+        o.addProperty("unit", cal.outputUnit().symbol());
+        JsonObject constants = new JsonObject();
+        for (Map.Entry<String, Double> e : cal.constants().entrySet()) {
+            constants.add(e.getKey(), number(e.getValue()));
+        }
+        o.add("constants", constants);
+        o.add("source_file", setup.sourceFile() == null ? JsonNull.INSTANCE : new JsonPrimitive(setup.sourceFile()));
+        if (setup.channels() != null) {
+            JsonObject ch = new JsonObject();
+            ch.addProperty("numerator_channel", setup.channels().numerator());
+            ch.addProperty("denominator_channel", setup.channels().denominator());
+            o.add("channels", ch);
+        }
+        if (applied.summary() != null) {
+            CalibrationSummary s = applied.summary();
+            SaturationLimits l = s.limits();
+            JsonObject t = new JsonObject();
+            t.addProperty("flag_saturation_above", l.flagAbove());
+            t.addProperty("reject_saturation_above", l.rejectAbove());
+            t.addProperty("why", "fractional saturation f of the indicator's range; the error amplification "
+                    + "d ln c / d ln F is at least 1 / (n (1 - f)): 5 at f = 0.8 and 20 at f = 0.95 for n = 1");
+            o.add("thresholds", t);
+            JsonObject counts = new JsonObject();
+            counts.addProperty("samples_with_signal", s.finiteInputs());
+            counts.addProperty("flagged", s.count(SampleStatus.FLAGGED));
+            counts.addProperty("nan_near_saturation", s.count(SampleStatus.REJECTED));
+            counts.addProperty("nan_at_or_above_saturation", s.count(SampleStatus.ABOVE_RANGE));
+            counts.addProperty("nan_at_or_below_zero", s.count(SampleStatus.BELOW_RANGE));
+            o.add("counts", counts);
+            o.addProperty("fraction_flagged", s.fractionFlagged());
+            o.addProperty("fraction_nan", s.fractionNan());
+            o.addProperty("uncertainty_propagated", applied.propagated());
+        }
+        JsonArray w = new JsonArray();
+        applied.warnings().forEach(w::add);
+        o.add("warnings", w);
+        return o;
+    }
+
+    // ---- fits ----------------------------------------------------------------------------------------------
+
+    /**
+     * One object per fit, in the outcome's order, each with its Akaike weight (null for a fit that did not
+     * converge: it takes no part in the comparison).
+     */
+    public static List<JsonObject> fits(KymographFits.Outcome outcome) {
+        Map<String, Double> weights = outcome.weights();
+        return outcome.fits().stream().map(f -> {
+            JsonObject o = fit(f);
+            o.add("akaike_weight", number(f.converged() ? weights.getOrDefault(f.model(), Double.NaN) : Double.NaN));
+            o.addProperty("weight_criterion", outcome.criterion());
+            return o;
+        }).toList();
+    }
+
+    /** One fit. */
+    public static JsonObject fit(FitResult f) {
+        JsonObject o = new JsonObject();
+        o.addProperty("model", f.model());
+        o.addProperty("converged", f.converged());
+        if (!f.converged()) {
+            o.addProperty("reason", f.reason());
+        }
+        o.add("aic", number(f.converged() ? f.aic() : Double.NaN));
+        o.add("aicc", number(f.converged() ? f.aicc() : Double.NaN));
+        o.add("bic", number(f.converged() ? f.bic() : Double.NaN));
+        o.add("rmse", number(f.converged() ? f.rmse() : Double.NaN));
+        o.addProperty("points", f.pointsUsed());
+        if (f.converged()) {
+            o.add("parameters", estimates(f.parameters()));
+            o.add("derived", estimates(f.derived()));
+        } else {
+            o.add("parameters", new JsonObject());
+        }
+        JsonArray w = new JsonArray();
+        f.warnings().forEach(w::add);
+        o.add("warnings", w);
+        return o;
+    }
+
+    private static JsonObject estimates(List<ParameterEstimate> list) {
+        JsonObject o = new JsonObject();
+        for (ParameterEstimate e : list) {
+            JsonObject p = new JsonObject();
+            p.add("value", number(e.value()));
+            p.addProperty("unit", e.unit().symbol());
+            p.add("ci95", interval(e.ci95()));
+            p.add("ci_method", e.ci95() == null ? JsonNull.INSTANCE : new JsonPrimitive(e.ci95().method()));
+            p.add("standard_error", number(e.standardError()));
+            p.addProperty("identifiable", e.identifiable());
+            if (e.atBound()) {
+                p.addProperty("at_bound", true);
+            }
+            if (!e.otherIntervals().isEmpty()) {
+                JsonArray others = new JsonArray();
+                for (Interval i : e.otherIntervals()) {
+                    JsonObject io = new JsonObject();
+                    io.add("ci95", interval(i));
+                    io.addProperty("ci_method", i.method());
+                    others.add(io);
+                }
+                p.add("other_intervals", others);
+            }
+            o.add(e.name(), p);
+        }
+        return o;
+    }
+
+    private static JsonElement interval(Interval i) {
+        if (i == null) {
+            return JsonNull.INSTANCE;
+        }
+        JsonArray a = new JsonArray();
+        a.add(number(i.lower()));
+        a.add(number(i.upper()));
+        return a;
+    }
+
+    // ---- numbers -------------------------------------------------------------------------------------------
+
+    /** {@code {"value": v, "unit": u, "ci95": [lo, hi], "interval_method": m}}, or JSON null for a null estimate. */
     public static JsonElement estimate(Estimate e) {
         if (e == null) {
             return JsonNull.INSTANCE;
@@ -39,54 +332,10 @@ public final class ResultsJson {
 
     /** A finite number, or JSON null for NaN and infinities (which JSON cannot hold). */
     public static JsonElement finiteOrNull(double v) {
-        return Double.isFinite(v) ? new com.google.gson.JsonPrimitive(v) : JsonNull.INSTANCE;
+        return Double.isFinite(v) ? new JsonPrimitive(v) : JsonNull.INSTANCE;
     }
 
-    /**
-     * Assembles the document.
-     *
-     * @param toolVersion    the tool's version
-     * @param session        the session folder's name
-     * @param signalUnit     {@code "dF/F0"} or {@code "uM"}
-     * @param kymographFile  file name of the kymograph CSV
-     * @param distanceStepUm column spacing, um
-     * @param timeStepS      row spacing, s
-     * @param fits           one JSON object per fitted model (may be empty)
-     * @param bestModel      name of the preferred fit, or null
-     * @param spread         the {@code spread} object
-     * @param extra          further top-level sections, in order (name, value pairs as a JSON object)
-     * @param warnings       plain sentences
-     */
-    public static JsonObject build(String toolVersion, String session, String signalUnit, String kymographFile,
-            double distanceStepUm, double timeStepS, List<JsonObject> fits, String bestModel, JsonObject spread,
-            JsonObject extra, List<String> warnings) {
-        JsonObject root = new JsonObject();
-        root.addProperty("tool_version", toolVersion);
-        root.addProperty("session", session);
-        root.addProperty("signal_unit", signalUnit);
-        JsonObject kymo = new JsonObject();
-        kymo.addProperty("file", kymographFile);
-        kymo.addProperty("distance_step_um", distanceStepUm);
-        kymo.addProperty("time_step_s", timeStepS);
-        root.add("kymograph", kymo);
-        JsonArray fitArray = new JsonArray();
-        fits.forEach(fitArray::add);
-        root.add("fits", fitArray);
-        root.add("best_model", bestModel == null ? JsonNull.INSTANCE : new com.google.gson.JsonPrimitive(bestModel));
-        root.add("spread", spread);
-        for (String key : extra.keySet()) {
-            root.add(key, extra.get(key));
-        }
-        JsonArray w = new JsonArray();
-        warnings.forEach(w::add);
-        root.add("warnings", w);
-        return root;
-    }
-
-    /** Writes the document, pretty-printed, through a temporary file. */
-    public static void write(JsonObject results, java.nio.file.Path target) {
-        String text = new GsonBuilder().setPrettyPrinting().serializeNulls().disableHtmlEscaping().create()
-                .toJson(results);
-        AtomicFiles.writeString(target, text + "\n");
+    private static JsonElement number(double v) {
+        return finiteOrNull(v);
     }
 }

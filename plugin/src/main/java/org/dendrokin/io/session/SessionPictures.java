@@ -14,12 +14,15 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 
+import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.preprocess.Preprocessing;
+import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.core.spread.SpreadAnalysis;
-import org.dendrokin.io.SessionRunner;
+import org.dendrokin.io.fit.FitPictures;
 import org.dendrokin.io.plot.Heatmap;
 import org.dendrokin.io.plot.LinePlot;
+import org.dendrokin.io.plot.Picture;
 import org.dendrokin.io.plot.Pictures;
 
 /** The pictures of an analysis, written as PNG next to the report. */
@@ -31,29 +34,26 @@ public final class SessionPictures {
     }
 
     /**
-     * A written picture.
+     * Writes every picture that the data allow and returns them in report order: the path, the kymographs, the
+     * bleaching fit, the model-free spread measures, then the preferred model beside the measurement.
      *
-     * @param file    file name in the output folder
-     * @param title   short title
-     * @param caption one or two sentences saying what it shows
+     * @param outDir where to write (must exist)
+     * @param a      the analysis
      */
-    public record Picture(String file, String title, String caption) {
-    }
-
-    /** Writes every picture that the data allow and returns them in report order. */
-    public static List<Picture> writeAll(Path outDir, SessionRunner.Inputs in, Preprocessing.Result pre,
-            Kymograph signal, SpreadAnalysis.Result spread) {
+    public static List<Picture> writeAll(Path outDir, AnalysisResult a) {
         List<Picture> out = new ArrayList<>();
-        Pictures.savePng(pathPicture(in, pre), outDir.resolve("path.png"));
+        Preprocessing.Result pre = a.preprocessing();
+        Kymograph signal = a.signal();
+        Pictures.savePng(pathPicture(a), outDir.resolve("path.png"));
         out.add(new Picture("path.png", "The path on the movie",
                 "Mean of the baseline frames (grey), the analysed path (orange line; its band is "
-                        + fmt(in.config().pathWidthUm()) + " um wide), its first vertex (open circle; distance 0) "
+                        + fmt(a.movie().pathWidthUm()) + " um wide), its first vertex (open circle; distance 0) "
                         + "and the stimulus (filled circle), if known."));
         Pictures.savePng(Heatmap.of(signal, "Signal along the dendrite (" + signal.signalUnit() + ")").render(signal),
                 outDir.resolve("kymograph.png"));
         out.add(new Picture("kymograph.png", "Kymograph", "The analysed signal (" + signal.signalUnit()
                 + ") along the path (across) over time (down). Grey marks positions outside the image."));
-        Kymograph raw = in.extraction().kymograph();
+        Kymograph raw = a.extraction().kymograph();
         Kymograph rawLabelled = raw.withValues(raw.values(), "grey value");
         Pictures.savePng(Heatmap.of(rawLabelled, "Raw intensity along the dendrite").render(rawLabelled),
                 outDir.resolve("kymograph-raw.png"));
@@ -69,9 +69,18 @@ public final class SessionPictures {
             out.add(new Picture("bleaching.png", "Photobleaching", "Mean intensity of the samples outside the "
                     + "response, each position divided by its baseline median, with the fitted exponential."));
         }
-        if (spread == null) {
-            return out;
+        SpreadAnalysis.Result spread = a.spread();
+        if (spread != null) {
+            out.addAll(spreadPictures(outDir, signal, spread));
         }
+        a.bestFit().ifPresent(best -> out.addAll(FitPictures.write(outDir, "fit-" + best.model(),
+                best.model() + " fit", signal, FitPictures.simulated(signal, best), a.stimulus().timeS(),
+                a.stimulus().positionUm(), Robust.median(a.fits().noiseSd()))));
+        return out;
+    }
+
+    private static List<Picture> spreadPictures(Path outDir, Kymograph signal, SpreadAnalysis.Result spread) {
+        List<Picture> out = new ArrayList<>();
         String unit = signal.signalUnit();
         if (spread.arrivalTimeS().length > 0) {
             double[] absD = Arrays.stream(spread.arrivalDistanceUm()).map(Math::abs).toArray();
@@ -144,10 +153,10 @@ public final class SessionPictures {
         return out;
     }
 
-    private static BufferedImage pathPicture(SessionRunner.Inputs in, Preprocessing.Result pre) {
-        int w = in.width();
-        int h = in.height();
-        float[] img = in.referenceImage();
+    private static BufferedImage pathPicture(AnalysisResult a) {
+        int w = a.movie().widthPx();
+        int h = a.movie().heightPx();
+        float[] img = a.referenceImage();
         double[] finite = new double[img.length];
         for (int i = 0; i < img.length; i++) {
             finite[i] = img[i];
@@ -166,8 +175,8 @@ public final class SessionPictures {
         Graphics2D g = out.createGraphics();
         g.setRenderingHint(RenderingHints.KEY_ANTIALIASING, RenderingHints.VALUE_ANTIALIAS_ON);
         g.setRenderingHint(RenderingHints.KEY_TEXT_ANTIALIASING, RenderingHints.VALUE_TEXT_ANTIALIAS_ON);
-        double[] xs = in.extraction().xPx();
-        double[] ys = in.extraction().yPx();
+        double[] xs = a.extraction().xPx();
+        double[] ys = a.extraction().yPx();
         Path2D.Double line = new Path2D.Double();
         for (int i = 0; i < xs.length; i++) {
             if (i == 0) {
@@ -182,9 +191,9 @@ public final class SessionPictures {
         if (xs.length > 0) {
             g.draw(new Ellipse2D.Double(xs[0] * scale - 6, ys[0] * scale - 6, 12, 12));
         }
-        Preprocessing.Stimulus s = pre.stimulus();
+        Preprocessing.Stimulus s = a.stimulus();
         if (s.known() && xs.length > 0) {
-            double[] d = in.extraction().kymograph().distancesUm();
+            double[] d = a.extraction().kymograph().distancesUm();
             int best = 0;
             for (int i = 1; i < d.length; i++) {
                 if (Math.abs(d[i] - s.positionUm()) < Math.abs(d[best] - s.positionUm())) {
@@ -196,8 +205,9 @@ public final class SessionPictures {
         }
         g.setColor(Color.WHITE);
         g.fillRect(0, h * scale, w * scale, margin);
-        double barUm = niceBar(w * in.pixelSizeUm() / 4);
-        int barPx = (int) Math.round(barUm / in.pixelSizeUm() * scale);
+        double px = a.movie().pixelSizeUm();
+        double barUm = niceBar(w * px / 4);
+        int barPx = (int) Math.round(barUm / px * scale);
         g.setColor(Color.BLACK);
         g.fillRect(10, h * scale + 12, barPx, 5);
         g.setFont(new Font(Font.SANS_SERIF, Font.PLAIN, 13));

@@ -24,6 +24,7 @@ import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.core.units.Unit;
 import org.dendrokin.io.KymographCsv;
 import org.dendrokin.io.compare.ModelComparison;
+import org.dendrokin.io.session.ResultsJson;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -120,7 +121,7 @@ class CompareAndJsonTest {
         }
         KymographFits.Outcome o = KymographFits.fit(new Kymograph(x, t, v, "dF/F0"),
                 KymographFits.Setup.of(3, 7).withModels(List.of(DiffusionDecayPulse.NAME)), Progress.NONE);
-        JsonObject f = FitJson.fits(o).get(0);
+        JsonObject f = ResultsJson.fits(o).get(0);
         assertTrue(f.get("converged").getAsBoolean());
         JsonObject d = f.getAsJsonObject("parameters").getAsJsonObject("D");
         assertEquals("um^2/s", d.get("unit").getAsString());
@@ -131,7 +132,7 @@ class CompareAndJsonTest {
 
         KymographFits.Outcome failed = KymographFits.fit(new Kymograph(x, new double[] {0, 0.25, 0.5, 3.0},
                 new double[4 * x.length], "dF/F0"), KymographFits.Setup.of(3, 7), Progress.NONE);
-        for (JsonObject g : FitJson.fits(failed)) {
+        for (JsonObject g : ResultsJson.fits(failed)) {
             assertFalse(g.get("converged").getAsBoolean());
             assertTrue(g.getAsJsonObject("parameters").entrySet().isEmpty(), "no numbers from a failed fit");
             assertFalse(g.get("reason").getAsString().isBlank(), "a reason is given");

@@ -1,0 +1,99 @@
+package org.dendrokin.core.analysis;
+
+import java.util.List;
+import java.util.Optional;
+
+import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.kymo.Extraction;
+import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.preprocess.Preprocessing;
+import org.dendrokin.core.spread.SpreadAnalysis;
+
+/**
+ * Everything one analysis found, as typed values. Every output (results.json, the report, the pictures, the
+ * ImageJ tables, the terminal summary, the batch table) is written from this one record, so that they cannot
+ * disagree.
+ *
+ * @param movie          the analysed channel's size and the sizes used
+ * @param extraction     the raw kymograph along the path and the sample centres
+ * @param background     the background subtracted, frame by frame, and how it was found
+ * @param referenceImage mean of up to 10 baseline frames, row-major, {@code width x height} values (shared)
+ * @param preprocessing  background subtraction, stimulus, baseline, bleaching correction and dF/F0
+ * @param calibrated     the signal after the calibration (dF/F0 when there is none)
+ * @param spread         model-free spread measures, or null when no stimulus is known
+ * @param fits           the model fits and their comparison, or null when none could run
+ * @param headline       the numbers shown first
+ * @param warnings       plain sentences, in the order they arose
+ */
+public record AnalysisResult(Movie movie, Extraction extraction, Background background, float[] referenceImage,
+                             Preprocessing.Result preprocessing, CalibrationStage.Calibrated calibrated,
+                             SpreadAnalysis.Result spread, KymographFits.Outcome fits, Headline headline,
+                             List<Warning> warnings) {
+    public AnalysisResult {
+        warnings = List.copyOf(warnings);
+    }
+
+    /**
+     * The analysed channel as the analysis saw it.
+     *
+     * @param widthPx        frame width, pixels
+     * @param heightPx       frame height, pixels
+     * @param frameCount     number of frames
+     * @param pixelSizeUm    pixel size used, um
+     * @param frameIntervalS frame interval used, s
+     * @param pathLengthUm   length of the path, um
+     * @param pathWidthUm    width of the band averaged across the path, um
+     */
+    public record Movie(int widthPx, int heightPx, int frameCount, double pixelSizeUm, double frameIntervalS,
+                        double pathLengthUm, double pathWidthUm) {
+    }
+
+    /**
+     * The background subtracted.
+     *
+     * @param perFrame    grey value of each frame
+     * @param value       a representative value (the given one, the estimate, or the median over frames)
+     * @param description one or two sentences for the report
+     */
+    public record Background(double[] perFrame, double value, String description) {
+        public Background {
+            perFrame = perFrame.clone();
+        }
+
+        @Override
+        public double[] perFrame() {
+            return perFrame.clone();
+        }
+    }
+
+    /** The analysed signal (dF/F0 or concentration). */
+    public Kymograph signal() {
+        return calibrated.signal();
+    }
+
+    /** The stimulus used. */
+    public Preprocessing.Stimulus stimulus() {
+        return preprocessing.stimulus();
+    }
+
+    /** The preferred model by the chosen criterion, or null. */
+    public String bestModel() {
+        return headline.bestModel();
+    }
+
+    /** The fits in the order asked, or an empty list when none ran. */
+    public List<FitResult> fitResults() {
+        return fits == null ? List.of() : fits.fits();
+    }
+
+    /** The preferred fit, if one converged. */
+    public Optional<FitResult> bestFit() {
+        return fits == null ? Optional.empty() : fits.best();
+    }
+
+    /** The warnings' sentences, in order. */
+    public List<String> warningTexts() {
+        return warnings.stream().map(Warning::text).toList();
+    }
+}
