@@ -10,6 +10,7 @@ import java.util.Set;
 import java.util.concurrent.Callable;
 
 import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.Headline;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.ParameterEstimate;
@@ -75,8 +76,13 @@ final class DemoCommand implements Callable<Integer> {
     static String summary(SessionRunner.Result r) {
         StringBuilder b = new StringBuilder();
         b.append("Analysed session ").append(r.session()).append('\n');
-        b.append(line("front speed", r.spread() == null ? null : r.spread().frontSpeed()));
-        b.append(line("length constant", r.spread() == null ? null : r.spread().lengthConstant()));
+        Headline headline = r.analysis().headline();
+        b.append(line("front speed", headline.frontSpeed(), r.spread() == null ? "no stimulus is known"
+                : r.spread().front().verdict().phrase()));
+        b.append(line("peak decay length", r.spread() == null ? null : r.spread().peakDecayLength()));
+        if (headline.lengthConstant() != null) {
+            b.append(line("length constant", headline.lengthConstantEstimate()));
+        }
         b.append(line("decay time", r.spread() == null ? null : r.spread().decayTime()));
         b.append(line("apparent D", r.spread() == null ? null : r.spread().apparentD()));
         b.append(bestFit(r));
@@ -91,9 +97,9 @@ final class DemoCommand implements Callable<Integer> {
     private static String bestFit(SessionRunner.Result r) {
         AnalysisResult a = r.analysis();
         if (a.bestModel() == null) {
-            return a.fitResults().isEmpty() ? "" : "  best model       none: no model fit converged\n";
+            return a.fitResults().isEmpty() ? "" : "  best model        none: no model fit converged\n";
         }
-        StringBuilder b = new StringBuilder(String.format(Locale.ROOT, "  best model       %s%n", a.bestModel()));
+        StringBuilder b = new StringBuilder(String.format(Locale.ROOT, "  best model        %s%n", a.bestModel()));
         FitResult best = a.bestFit().orElseThrow();
         for (ParameterEstimate p : best.parameters()) {
             if (!HEADLINE.contains(p.name())) {
@@ -104,17 +110,21 @@ final class DemoCommand implements Callable<Integer> {
                     ? String.format(Locale.ROOT, " (95%% interval %s to %s)", ReportHtml.number(ci.lower()),
                             ReportHtml.number(ci.upper()))
                     : " (interval not determined by these data)";
-            b.append(String.format(Locale.ROOT, "    %-14s %s %s%s%n", p.name(), ReportHtml.number(p.value()),
+            b.append(String.format(Locale.ROOT, "    %-15s %s %s%s%n", p.name(), ReportHtml.number(p.value()),
                     p.unit().symbol(), interval));
         }
         return b.toString();
     }
 
     private static String line(String name, Estimate e) {
+        return line(name, e, "");
+    }
+
+    private static String line(String name, Estimate e, String why) {
         if (e == null) {
-            return String.format(Locale.ROOT, "  %-16s not available%n", name);
+            return String.format(Locale.ROOT, "  %-17s not available%s%n", name, why.isEmpty() ? "" : " (" + why + ")");
         }
-        return String.format(Locale.ROOT, "  %-16s %s %s (95%% interval %s to %s)%n", name,
+        return String.format(Locale.ROOT, "  %-17s %s %s (95%% interval %s to %s)%n", name,
                 ReportHtml.number(e.value()), e.unit(), ReportHtml.number(e.lo95()), ReportHtml.number(e.hi95()));
     }
 

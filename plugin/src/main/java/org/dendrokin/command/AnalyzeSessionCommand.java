@@ -49,8 +49,8 @@ public class AnalyzeSessionCommand extends ContextCommand {
             }
             signalUnit = r.signalUnit();
             bestModel = r.bestModel();
-            if (r.spread() != null && r.spread().frontSpeed() != null) {
-                frontSpeedUmPerS = r.spread().frontSpeed().value();
+            if (r.analysis().headline().frontSpeed() != null) {
+                frontSpeedUmPerS = r.analysis().headline().frontSpeed().value();
             }
             report = r.report().toFile();
         } catch (RuntimeException e) {

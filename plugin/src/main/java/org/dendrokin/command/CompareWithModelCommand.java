@@ -59,11 +59,11 @@ public class CompareWithModelCommand extends ModelParameters {
             if (c.simulatedSpread().frontSpeed() != null) {
                 simulatedFrontSpeedUmPerS = c.simulatedSpread().frontSpeed().value();
             }
-            if (c.measuredSpread().lengthConstant() != null) {
-                measuredLengthConstantUm = c.measuredSpread().lengthConstant().value();
+            if (c.measuredSpread().peakDecayLength() != null) {
+                measuredLengthConstantUm = c.measuredSpread().peakDecayLength().value();
             }
-            if (c.simulatedSpread().lengthConstant() != null) {
-                simulatedLengthConstantUm = c.simulatedSpread().lengthConstant().value();
+            if (c.simulatedSpread().peakDecayLength() != null) {
+                simulatedLengthConstantUm = c.simulatedSpread().peakDecayLength().value();
             }
         } catch (RuntimeException e) {
             cancel(Commands.sentence(e));

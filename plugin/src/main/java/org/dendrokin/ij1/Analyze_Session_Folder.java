@@ -8,6 +8,7 @@ import ij.ImagePlus;
 import ij.measure.ResultsTable;
 import ij.plugin.PlugIn;
 
+import org.dendrokin.core.analysis.Headline;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
@@ -65,8 +66,10 @@ public class Analyze_Session_Folder implements PlugIn {
         ResultsTable t = Tables.quantities();
         SpreadAnalysis.Result s = r.spread();
         String why = s == null ? "no stimulus was known or found" : String.join(" ", s.warnings());
-        Tables.add(t, "spread", "front speed", "um/s", s == null ? null : s.frontSpeed(), why);
-        Tables.add(t, "spread", "length constant", "um", s == null ? null : s.lengthConstant(), why);
+        Headline headline = r.analysis().headline();
+        Tables.add(t, headline.frontSpeedFromModel() ? headline.bestModel() + " (best)" : "spread", "front speed",
+                "um/s", headline.frontSpeed(), s == null ? why : s.front().verdict().phrase());
+        Tables.add(t, "spread", "peak decay length", "um", s == null ? null : s.peakDecayLength(), why);
         Tables.add(t, "spread", "decay time", "s", s == null ? null : s.decayTime(), why);
         Tables.add(t, "spread", "apparent D", "um^2/s", s == null ? null : s.apparentD(), why);
         addFits(t, r.analysis().fits());

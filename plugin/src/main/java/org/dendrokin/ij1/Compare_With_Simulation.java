@@ -103,7 +103,7 @@ public class Compare_With_Simulation implements PlugIn {
         for (int i = 0; i < 2; i++) {
             String why = String.join(" ", results[i].warnings());
             Tables.add(t, sources[i], "front speed", "um/s", results[i].frontSpeed(), why);
-            Tables.add(t, sources[i], "length constant", "um", results[i].lengthConstant(), why);
+            Tables.add(t, sources[i], "length constant", "um", results[i].peakDecayLength(), why);
             Tables.add(t, sources[i], "decay time", "s", results[i].decayTime(), why);
         }
         double[] p = model.parameters();

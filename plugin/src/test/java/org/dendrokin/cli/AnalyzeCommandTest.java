@@ -130,7 +130,7 @@ class AnalyzeCommandTest {
         }
         assertTrue(json.get("best_model").isJsonPrimitive(), "the demo has a preferred model");
         String best = json.get("best_model").getAsString();
-        assertTrue(r.out().contains("best model       " + best), r.out());
+        assertTrue(r.out().contains("best model        " + best), r.out());
         assertTrue(r.out().contains("um^2/s") && r.out().contains("1/s"), r.out());
         assertTrue(Files.isRegularFile(out.resolve("report.html")));
         assertTrue(Files.isRegularFile(out.resolve("demo-session/session.json")), "inputs unpacked inside --out");

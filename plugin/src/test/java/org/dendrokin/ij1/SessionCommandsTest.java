@@ -42,13 +42,13 @@ class SessionCommandsTest {
         direct = SessionRunner.analyze(original, dir.resolve("direct"), Progress.NONE);
     }
 
-    private static double frontSpeed(ResultsTable t) {
+    private static double decayTime(ResultsTable t) {
         for (int i = 0; i < t.size(); i++) {
-            if (t.getStringValue("quantity", i).equals("front speed")) {
+            if (t.getStringValue("quantity", i).equals("decay time")) {
                 return t.getValue("value", i);
             }
         }
-        throw new AssertionError("no front speed row");
+        throw new AssertionError("no decay time row");
     }
 
     @Test
@@ -57,9 +57,9 @@ class SessionCommandsTest {
         IJ.run("Analyze Session Folder...", "session=[" + original + "] output=[" + out + "]");
         assertTrue(Files.isRegularFile(out.resolve("results.json")), "results.json written");
         assertTrue(Files.isRegularFile(out.resolve("report.html")), "report written");
-        assertNotNull(direct.spread().frontSpeed(), "the runner measured a front speed");
-        assertEquals(direct.spread().frontSpeed().value(), frontSpeed(Analyzer.getResultsTable()), 1e-12,
-                "front speed, um/s, same as SessionRunner.analyze");
+        assertNotNull(direct.spread().decayTime(), "the runner measured a decay time");
+        assertEquals(direct.spread().decayTime().value(), decayTime(Analyzer.getResultsTable()), 1e-12,
+                "decay time, s, same as SessionRunner.analyze");
         ImagePlus kymograph = WindowManager.getCurrentImage();
         assertEquals("dF/F0", kymograph.getCalibration().getValueUnit());
     }
@@ -79,8 +79,8 @@ class SessionCommandsTest {
         assertEquals(1.0, config.pathWidthUm(), 0, "band width, um");
         fitOnlyDiffusionDecay(saved);
         SessionRunner.Result again = SessionRunner.analyze(saved, dir.resolve("again"), Progress.NONE);
-        assertEquals(direct.spread().frontSpeed().value(), again.spread().frontSpeed().value(), 1e-9,
-                "front speed, um/s, of the saved folder");
+        assertEquals(direct.spread().decayTime().value(), again.spread().decayTime().value(), 1e-9,
+                "decay time, s, of the saved folder");
     }
 
     private static String readQuietly(Path file) {

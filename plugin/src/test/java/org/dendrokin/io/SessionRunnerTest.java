@@ -1,6 +1,7 @@
 package org.dendrokin.io;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNotNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -95,12 +96,20 @@ class SessionRunnerTest {
         assertEquals(0.5, r.getAsJsonObject("kymograph").get("time_step_s").getAsDouble(), 1e-12);
         assertTrue(r.get("fits").isJsonArray());
         JsonObject spread = r.getAsJsonObject("spread");
-        for (String key : List.of("front_speed", "length_constant", "decay_time")) {
+        for (String key : List.of("front_speed", "length_constant", "peak_decay_length", "decay_time")) {
             assertTrue(spread.has(key), key);
+        }
+        for (String key : List.of("length_constant", "peak_decay_length", "decay_time")) {
             JsonObject e = spread.getAsJsonObject(key);
             assertTrue(e.has("value") && e.has("unit") && e.getAsJsonArray("ci95").size() == 2, key);
         }
-        assertEquals("um/s", spread.getAsJsonObject("front_speed").get("unit").getAsString());
+        assertEquals("um", spread.getAsJsonObject("length_constant").get("unit").getAsString());
+        assertEquals("model:diffusion-decay", spread.getAsJsonObject("length_constant").get("source").getAsString());
+        // A spreading pulse has no front of constant speed: no figure, and the reason instead.
+        assertTrue(spread.get("front_speed").isJsonNull(), "no front speed for a diffusing pulse");
+        JsonObject front = spread.getAsJsonObject("front");
+        assertFalse(front.get("present").getAsBoolean());
+        assertTrue(front.get("reason").getAsString().contains("square of the distance"), front.toString());
     }
 
     @Test

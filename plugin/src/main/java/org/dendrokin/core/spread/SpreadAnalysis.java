@@ -5,6 +5,7 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 
+import org.apache.commons.math3.distribution.NormalDistribution;
 import org.apache.commons.math3.fitting.GaussianCurveFitter;
 import org.apache.commons.math3.fitting.WeightedObservedPoints;
 import org.apache.commons.math3.stat.regression.SimpleRegression;
@@ -23,11 +24,18 @@ import org.dendrokin.core.units.Unit;
  * <li>Front arrival: at each position, the time after the stimulus at which the signal (3-frame centred moving
  * average) first reaches half of its own peak, interpolated linearly between frames. Positions whose peak is
  * below 4 noise standard deviations of that average, or below a tenth of the largest peak, are left out.</li>
- * <li>Front speed: the Theil-Sen slope of distance from the stimulus against arrival time (um/s), with Sen's
- * rank interval ({@link TheilSen}). Both sides of the stimulus are pooled by absolute distance.</li>
- * <li>Length constant: the peak amplitude P(d) at distance d fitted as P0 exp(-d / lambda) by least squares on
+ * <li>Front speed, only where the arrival times show a front of constant speed: arrival must grow with
+ * distance, the arrivals must spread over more than two frames, and they must not slow down as passive diffusion
+ * does (under diffusion the arrival time grows with the square of the distance, Crank 1975, sheet s2.5; tested by
+ * the speeds over the nearer and farther half of the positions and by which of a line in distance or in distance
+ * squared fits the arrivals better). The speed is the Theil-Sen slope of distance from the stimulus against
+ * arrival time (um/s), with Sen's rank interval ({@link TheilSen}), both sides of the stimulus pooled by absolute
+ * distance; each side also gets its own.</li>
+ * <li>Peak decay length: the peak amplitude P(d) at distance d fitted as P0 exp(-d / L) by least squares on
  * ln P (Commons Math {@link SimpleRegression}); the interval is the slope's Student t interval, mapped through
- * lambda = -1 / slope.</li>
+ * L = -1 / slope. For a brief release the peak also falls because the signal dilutes as it spreads, so L is
+ * shorter than the length constant sqrt(D / k) of a reaction-diffusion model except far from the stimulus; the
+ * name length constant is kept for sqrt(D / k) of a fitted model.</li>
  * <li>Decay time: the integrated signal I(t) = sum over positions of signal times the position step (um times
  * signal unit), from its peak to the end of the movie, fitted as A exp(-(t - t_peak) / tau) by
  * {@link ExponentialFit}. Under diffusion with first-order decay and sealed ends, I(t) is M exp(-k t) exactly,
@@ -43,19 +51,29 @@ import org.dendrokin.core.units.Unit;
  * </ul>
  */
 public final class SpreadAnalysis {
+    /**
+     * Ratio of the peak at the farthest quarter of the positions followed to that at the nearest quarter below
+     * which the spread counts as dying out rather than as a front of constant shape, whose peak stays the same.
+     */
+    static final double DECREMENT_RATIO = 0.5;
+    /** Frames at the end of the movie within which a position that first nears its peak may still be rising. */
+    static final int END_FRAMES = 3;
+    /** Share of the signal beyond the path's ends, at the end of the movie, above which the decay time is flagged. */
+    static final double LEAKAGE_WARNING = 0.02;
+
     private SpreadAnalysis() {
     }
 
     /**
      * Everything measured.
      *
-     * @param frontSpeed       um/s, or null
-     * @param lengthConstant   um, or null
+     * @param frontSpeed       um/s, or null when no constant-speed front is seen ({@code front} says why)
+     * @param peakDecayLength  e-fold distance of the peak amplitude from the stimulus, um, or null
      * @param decayTime        s, or null
      * @param apparentD        um^2/s, or null
      * @param arrivalDistanceUm signed distance from the stimulus of each position with an arrival time
      * @param arrivalTimeS     arrival time after the stimulus, s (same length)
-     * @param peakDistanceUm   signed distance from the stimulus of each position used for the length constant
+     * @param peakDistanceUm   signed distance from the stimulus of each position used for the peak decay length
      * @param peakAmplitude    peak signal at those positions (signal unit)
      * @param timesS           frame times after the stimulus, s (relative to the stimulus)
      * @param integrated       integrated signal at those times, um times signal unit
@@ -64,12 +82,63 @@ public final class SpreadAnalysis {
      * @param varianceWindowS  {first, last} time after the stimulus used for the apparent D, s, or null
      * @param lines            for drawing the fitted lines: {front intercept (um at arrival 0), peak amplitude at
      *                         distance 0 (signal unit), variance intercept (um^2 at time 0)}; NaN where not fitted
+     * @param front            whether the arrival times show a front of constant speed, and the speed on each side
      * @param warnings         plain sentences
      */
-    public record Result(Estimate frontSpeed, Estimate lengthConstant, Estimate decayTime, Estimate apparentD,
+    public record Result(Estimate frontSpeed, Estimate peakDecayLength, Estimate decayTime, Estimate apparentD,
             double[] arrivalDistanceUm, double[] arrivalTimeS, double[] peakDistanceUm, double[] peakAmplitude,
             double[] timesS, double[] integrated, double[] integratedFit, double[] variance, double[] varianceWindowS,
-            double[] lines, List<String> warnings) {
+            double[] lines, Front front, List<String> warnings) {
+    }
+
+    /** What the arrival times show. */
+    public enum FrontVerdict {
+        /** A front of constant speed. */
+        FRONT("a front of constant speed"),
+        /** Too few responding positions, or too short a stretch, to follow a front. */
+        TOO_FEW_POSITIONS("too few positions to follow a front"),
+        /** Arrival does not grow with distance. */
+        NO_INCREASE("arrival does not grow with distance"),
+        /** Every position responds within about two frames. */
+        SIMULTANEOUS("near-simultaneous arrival"),
+        /** Arrival grows with the square of the distance. */
+        DIFFUSIVE("diffusive spread: arrival grows with distance squared"),
+        /** The peak falls off steeply with distance: a decaying spread rather than a front of constant shape. */
+        DECREMENTAL("the peak falls off with distance: no front of constant shape");
+
+        private final String phrase;
+
+        FrontVerdict(String phrase) {
+            this.phrase = phrase;
+        }
+
+        /** A few words for a table cell or a terminal line. */
+        public String phrase() {
+            return phrase;
+        }
+    }
+
+    /**
+     * What the arrival times say about a front.
+     *
+     * @param verdict        what the arrival times show
+     * @param reason         why there is no front speed, one sentence without its full stop (empty for a front)
+     * @param nearSpeedUmPerS Theil-Sen speed over the nearer half of the positions, um/s, or NaN
+     * @param farSpeedUmPerS  Theil-Sen speed over the farther half, um/s, or NaN
+     * @param left           front speed on the side of smaller distances along the path, or null
+     * @param right          front speed on the side of larger distances, or null
+     */
+    public record Front(FrontVerdict verdict, String reason, double nearSpeedUmPerS, double farSpeedUmPerS,
+                        Estimate left, Estimate right) {
+        /** True when the arrival times show a front of constant speed. */
+        public boolean present() {
+            return verdict == FrontVerdict.FRONT;
+        }
+
+        /** No front, for the given reason. */
+        public static Front absent(FrontVerdict verdict, String reason) {
+            return new Front(verdict, reason, Double.NaN, Double.NaN, null, null);
+        }
     }
 
     /**
@@ -99,7 +168,7 @@ public final class SpreadAnalysis {
                     + "measure the spread.", after, nx));
             double[] nan = nanArray(relTimes.length);
             return new Result(null, null, null, null, empty, empty, empty, empty, relTimes, nan, nan, nan, null,
-                    nanArray(3), warnings);
+                    nanArray(3), Front.absent(FrontVerdict.TOO_FEW_POSITIONS, "too few frames or positions"), warnings);
         }
         double noise = Double.isFinite(noiseSd) && noiseSd > 0 ? noiseSd : 0;
 
@@ -124,11 +193,16 @@ public final class SpreadAnalysis {
         boolean[] responds = new boolean[nx];
         List<double[]> arrivals = new ArrayList<>();
         List<double[]> peaks = new ArrayList<>();
+        int rising = 0;
         for (int p = 0; p < nx; p++) {
             if (!(peak[p] > threshold) || !(globalPeak > 0)) {
                 continue;
             }
             responds[p] = true;
+            if (stillRising(smooth[p], first, peak[p])) {
+                rising++;
+                continue;
+            }
             double d = signal.distanceUm(p) - stimulusPositionUm;
             peaks.add(new double[] {d, peak[p]});
             double half = peak[p] / 2;
@@ -141,7 +215,7 @@ public final class SpreadAnalysis {
                     } else {
                         t = signal.timeS(f);
                     }
-                    arrivals.add(new double[] {d, Math.max(0, t - stimulusTimeS)});
+                    arrivals.add(new double[] {d, Math.max(0, t - stimulusTimeS), peak[p]});
                     break;
                 }
             }
@@ -155,24 +229,38 @@ public final class SpreadAnalysis {
                     + "available.");
             double[] nan = nanArray(relTimes.length);
             return new Result(null, null, null, null, arrD, arrT, pkD, pkA, relTimes, nan, nan, nan, null, nanArray(3),
-                    warnings);
+                    Front.absent(FrontVerdict.TOO_FEW_POSITIONS, "no response stands out from the noise"), warnings);
         }
 
+        if (rising > 0) {
+            warnings.add(String.format(Locale.ROOT, "At %d responding position%s the signal was still rising at the end "
+                    + "of the movie, so %s peak and arrival time are not known; %s left out of the front and the peak "
+                    + "decay length.", rising, rising == 1 ? "" : "s", rising == 1 ? "its" : "their",
+                    rising == 1 ? "it was" : "they were"));
+        }
         double[] lines = nanArray(3);
-        Estimate speed = frontSpeed(arrD, arrT, dx, lines, warnings);
+        // Positions that had responded by the first frame after the stimulus were reached by the stimulus itself,
+        // not by a spread: they say nothing about a front.
+        double initial = signal.timeS(first) - stimulusTimeS + 1e-9 * Math.max(1, dt);
+        List<double[]> spreading = arrivals.stream().filter(a -> a[1] > initial).toList();
+        double[] sprD = column(spreading, 0);
+        double[] sprT = column(spreading, 1);
+        Front front = front(sprD, sprT, column(spreading, 2), arrivals.size(), dx, dt,
+                relTimes[relTimes.length - 1], warnings);
+        Estimate speed = front.present() ? frontSpeed(sprD, sprT, lines) : null;
         if (speed != null && (responds[0] || responds[nx - 1])) {
             double reach = 0;
-            for (double d : arrD) {
+            for (double d : sprD) {
                 reach = Math.max(reach, Math.abs(d));
             }
             warnings.add(String.format(Locale.ROOT, "The response reached the end of the path, so the front was "
                     + "followed over only %.3g um. A front read off a short stretch is biased: near the stimulus it is "
                     + "still leaving the stimulated site, and it can speed up near a sealed end.", reach));
-        } else if (speed != null && arrD.length < 10) {
+        } else if (speed != null && sprD.length < 10) {
             warnings.add(String.format(Locale.ROOT, "The front was followed at only %d positions; its speed is "
-                    + "uncertain and may be biased by the stimulated site itself.", arrD.length));
+                    + "uncertain and may be biased by the stimulated site itself.", sprD.length));
         }
-        Estimate lambda = lengthConstant(pkD, pkA, lines, warnings);
+        Estimate lambda = peakDecayLength(pkD, pkA, lines, warnings);
 
         // Integrated signal and its decay.
         double[] integrated = new double[after];
@@ -200,38 +288,170 @@ public final class SpreadAnalysis {
         double[] variance = nanArray(after);
         double[] window = new double[2];
         Estimate d = apparentD(signal, first, stimulusPositionUm, noise, variance, relTimes, window, lines, warnings);
+        if (decay != null && d != null && !(responds[0] || responds[nx - 1])) {
+            leakageWarning(signal, stimulusPositionUm, d.value(), lines[2], relTimes[relTimes.length - 1], decay,
+                    warnings);
+        }
         return new Result(speed, lambda, decay, d, arrD, arrT, pkD, pkA, relTimes, integrated, integratedFit, variance,
-                d == null ? null : window, lines, warnings);
+                d == null ? null : window, lines, front, warnings);
     }
 
-    private static Estimate frontSpeed(double[] distance, double[] arrival, double dx, double[] lines,
-            List<String> warnings) {
+    /**
+     * Decides from the arrival times whether a front of constant speed passes: arrival must grow with distance,
+     * spread over more than two frames, and not slow down with distance as passive diffusion does (arrival time
+     * growing with the square of the distance: the speed over the farther half of the positions less than two
+     * thirds of that over the nearer half, and a line in distance squared closer to the arrival times than a
+     * line in distance).
+     */
+    private static Front front(double[] distance, double[] arrival, double[] peaks, int responding, double dx,
+                               double dt, double observedS, List<String> warnings) {
         double[] absD = Arrays.stream(distance).map(Math::abs).toArray();
         double span = Arrays.stream(absD).max().orElse(0) - Arrays.stream(absD).min().orElse(0);
+        if (responding >= 5 && distance.length < responding / 2) {
+            String reason = String.format(Locale.ROOT, "%d of the %d responding positions had responded by the first "
+                    + "frame after the stimulus, so the response arrived nearly everywhere at once and no front can be "
+                    + "followed", responding - distance.length, responding);
+            warnings.add("The front speed is not available: " + reason + ".");
+            return Front.absent(FrontVerdict.SIMULTANEOUS, reason);
+        }
         if (distance.length < 5 || span < 3 * dx) {
-            warnings.add("The front speed is not available: the response was seen at too few positions to follow a "
-                    + "front.");
-            return null;
+            String reason = "beyond the stimulated site the response was seen at too few positions to follow a front";
+            warnings.add("The front speed is not available: " + reason + ".");
+            return Front.absent(FrontVerdict.TOO_FEW_POSITIONS, reason);
+        }
+        double[] sortedT = arrival.clone();
+        Arrays.sort(sortedT);
+        double arrivalSpread = quantile(sortedT, 0.9) - quantile(sortedT, 0.1);
+        if (arrivalSpread < 2 * dt) {
+            String reason = String.format(Locale.ROOT, "the response arrived at nearly the same time at every position "
+                    + "(80%% of the arrivals within %.3g s, about %.1f frames), so no front can be followed",
+                    arrivalSpread, arrivalSpread / dt);
+            warnings.add("The front speed is not available: " + reason + ".");
+            return Front.absent(FrontVerdict.SIMULTANEOUS, reason);
         }
         TheilSen.Line line = TheilSen.fit(arrival, absD);
         if (!(line.slope() > 0) || !Double.isFinite(line.slope())) {
-            warnings.add("The front speed is not available: arrival times do not increase with distance from the "
-                    + "stimulus (the response arrived everywhere at once, or the stimulus position is off).");
-            return null;
+            String reason = "arrival times do not increase with distance from the stimulus (the response arrived "
+                    + "everywhere at once, or the stimulus position is off)";
+            warnings.add("The front speed is not available: " + reason + ".");
+            return Front.absent(FrontVerdict.NO_INCREASE, reason);
         }
+        double[] halves = halfSpeeds(absD, arrival);
+        double vNear = halves[0];
+        double vFar = halves[1];
+        if (vNear > 0 && vFar > 0 && vNear / vFar > 1.5 && quadraticCloser(absD, arrival)) {
+            String reason = String.format(Locale.ROOT, "the spread slows down with distance (about %.3g um/s over "
+                    + "the nearer half of the positions and %.3g um/s over the farther half) and the arrival time grows "
+                    + "with the square of the distance, as when a signal spreads by passive diffusion; no single speed "
+                    + "describes it", vNear, vFar);
+            warnings.add("The front speed is not available: " + reason + ".");
+            return new Front(FrontVerdict.DIFFUSIVE, reason, vNear, vFar, null, null);
+        }
+        double[] drop = peakDrop(absD, arrival, peaks, observedS / 2);
+        if (drop[1] < DECREMENT_RATIO * drop[0]) {
+            String reason = String.format(Locale.ROOT, "the peak falls from %.3g near the stimulus to %.3g at the "
+                    + "farthest positions followed, so the signal dies out as it spreads (as diffusion with decay "
+                    + "does) instead of travelling as a front of constant shape", drop[0], drop[1]);
+            warnings.add("The front speed is not available: " + reason + ".");
+            return new Front(FrontVerdict.DECREMENTAL, reason, vNear, vFar, null, null);
+        }
+        if (vNear > 0 && vFar > 0 && vFar / vNear > 1.5) {
+            warnings.add(String.format(Locale.ROOT, "The front speeds up with distance: about %.3g um/s over the nearer "
+                    + "half of the positions and %.3g um/s over the farther half. One front speed does not describe "
+                    + "it; check for a regenerative wave or an effect of the path's end.", vNear, vFar));
+        }
+        Estimate left = sideSpeed(distance, arrival, -1, dx);
+        Estimate right = sideSpeed(distance, arrival, +1, dx);
+        if (left != null && right != null && (left.hi95() < right.lo95() || right.hi95() < left.lo95())) {
+            warnings.add(String.format(Locale.ROOT, "The fronts on the two sides of the stimulus travel at different "
+                    + "speeds: %.3g um/s towards the start of the path and %.3g um/s towards its end (95%% intervals "
+                    + "%.3g to %.3g and %.3g to %.3g um/s do not overlap).", left.value(), right.value(), left.lo95(),
+                    left.hi95(), right.lo95(), right.hi95()));
+        }
+        return new Front(FrontVerdict.FRONT, "", vNear, vFar, left, right);
+    }
+
+    /**
+     * True when a position's signal first came within 10% of its largest value in the last {@value #END_FRAMES}
+     * frames: it may still have been rising when the movie ended, so its peak and its arrival time at half of the
+     * peak are not known.
+     */
+    private static boolean stillRising(double[] smooth, int first, double peak) {
+        int n = smooth.length;
+        for (int f = first; f < n; f++) {
+            if (smooth[f] >= 0.9 * peak) {
+                return f >= n - END_FRAMES;
+            }
+        }
+        return true;
+    }
+
+    /**
+     * Median peak of the nearest and of the farthest quarter of the positions reached by {@code untilS} after the
+     * stimulus, {near, far}: a position reached late may not have reached its full height when the movie ended (a
+     * broad front rises slowly), so only the earlier half of the movie is compared. NaN with fewer than 8 such
+     * positions.
+     */
+    private static double[] peakDrop(double[] absD, double[] arrival, double[] peaks, double untilS) {
+        Integer[] order = java.util.stream.IntStream.range(0, absD.length).filter(i -> arrival[i] <= untilS)
+                .boxed().toArray(Integer[]::new);
+        if (order.length < 8) {
+            return new double[] {Double.NaN, Double.NaN};
+        }
+        Arrays.sort(order, (a, b) -> Double.compare(absD[a], absD[b]));
+        int quarter = Math.max(1, order.length / 4);
+        double[] near = new double[quarter];
+        double[] far = new double[quarter];
+        for (int i = 0; i < quarter; i++) {
+            near[i] = peaks[order[i]];
+            far[i] = peaks[order[order.length - 1 - i]];
+        }
+        return new double[] {Robust.median(near), Robust.median(far)};
+    }
+
+    /** The Theil-Sen front speed over all positions, both sides pooled by absolute distance. */
+    private static Estimate frontSpeed(double[] distance, double[] arrival, double[] lines) {
+        double[] absD = Arrays.stream(distance).map(Math::abs).toArray();
+        TheilSen.Line line = TheilSen.fit(arrival, absD);
         lines[0] = line.intercept();
-        slowingWarning(absD, arrival, warnings);
         double lo = Math.max(0, line.slopeLo95());
         return new Estimate(line.slope(), Unit.SPEED.symbol(), lo, line.slopeHi95(),
                 "Theil-Sen slope, Sen 1968 rank interval");
     }
 
+    /** The front speed on one side of the stimulus (sign -1 or +1), or null with fewer than 5 positions there. */
+    private static Estimate sideSpeed(double[] distance, double[] arrival, int sign, double dx) {
+        List<double[]> side = new ArrayList<>();
+        for (int i = 0; i < distance.length; i++) {
+            if (Math.signum(distance[i]) == sign) {
+                side.add(new double[] {arrival[i], Math.abs(distance[i])});
+            }
+        }
+        if (side.size() < 5) {
+            return null;
+        }
+        double[] t = column(side, 0);
+        double[] d = column(side, 1);
+        if (Arrays.stream(d).max().orElse(0) - Arrays.stream(d).min().orElse(0) < 3 * dx) {
+            return null;
+        }
+        try {
+            TheilSen.Line line = TheilSen.fit(t, d);
+            if (!(line.slope() > 0) || !Double.isFinite(line.slope())) {
+                return null;
+            }
+            return new Estimate(line.slope(), Unit.SPEED.symbol(), Math.max(0, line.slopeLo95()), line.slopeHi95(),
+                    "Theil-Sen slope on one side, Sen 1968 rank interval");
+        } catch (IllegalArgumentException e) {
+            return null;
+        }
+    }
+
     /**
-     * Compares the speed over the nearer and the farther half of the positions (Theil-Sen on each); a front that
-     * slows by more than half (as passive diffusion does, arrival growing with distance squared) or speeds up
-     * as much is not described by one speed.
+     * Theil-Sen speeds over the nearer and the farther half of the positions, {near, far} in um/s; NaN where a
+     * half has fewer than 4 positions or too few distinct distances.
      */
-    private static void slowingWarning(double[] absD, double[] arrival, List<String> warnings) {
+    private static double[] halfSpeeds(double[] absD, double[] arrival) {
         double[] sorted = absD.clone();
         Arrays.sort(sorted);
         double split = sorted[sorted.length / 2];
@@ -241,24 +461,38 @@ public final class SpreadAnalysis {
             (absD[i] < split ? near : far).add(new double[] {arrival[i], absD[i]});
         }
         if (near.size() < 4 || far.size() < 4) {
-            return;
+            return new double[] {Double.NaN, Double.NaN};
         }
         try {
-            double vNear = TheilSen.fit(column(near, 0), column(near, 1)).slope();
-            double vFar = TheilSen.fit(column(far, 0), column(far, 1)).slope();
-            if (vNear > 0 && vFar > 0 && (vNear / vFar > 1.5 || vFar / vNear > 1.5)) {
-                warnings.add(String.format(Locale.ROOT, "The front %s: about %.3g um/s over the nearer half of the "
-                        + "positions and %.3g um/s over the farther half. One front speed does not describe it; %s",
-                        vNear > vFar ? "slows down with distance" : "speeds up with distance", vNear, vFar,
-                        vNear > vFar ? "passive diffusion behaves this way (arrival time grows with the square of "
-                                + "the distance)." : "check for a regenerative wave or an effect of the path's end."));
-            }
+            return new double[] {TheilSen.fit(column(near, 0), column(near, 1)).slope(),
+                    TheilSen.fit(column(far, 0), column(far, 1)).slope()};
         } catch (IllegalArgumentException e) {
-            // too few distinct distances on one side: no comparison
+            return new double[] {Double.NaN, Double.NaN};
         }
     }
 
-    private static Estimate lengthConstant(double[] distance, double[] peak, double[] lines, List<String> warnings) {
+    /**
+     * True when arrival = a + b d^2 leaves a smaller sum of squared residuals than arrival = a + b d (both least
+     * squares, two parameters each): the arrival times follow the diffusive law better than a constant speed.
+     */
+    private static boolean quadraticCloser(double[] absD, double[] arrival) {
+        SimpleRegression linear = new SimpleRegression();
+        SimpleRegression quadratic = new SimpleRegression();
+        for (int i = 0; i < absD.length; i++) {
+            linear.addData(absD[i], arrival[i]);
+            quadratic.addData(absD[i] * absD[i], arrival[i]);
+        }
+        return quadratic.getSumSquaredErrors() < linear.getSumSquaredErrors();
+    }
+
+    private static double quantile(double[] sorted, double q) {
+        double pos = q * (sorted.length - 1);
+        int i = (int) Math.floor(pos);
+        int k = Math.min(sorted.length - 1, i + 1);
+        return sorted[i] + (pos - i) * (sorted[k] - sorted[i]);
+    }
+
+    private static Estimate peakDecayLength(double[] distance, double[] peak, double[] lines, List<String> warnings) {
         SimpleRegression reg = new SimpleRegression();
         for (int i = 0; i < distance.length; i++) {
             if (peak[i] > 0) {
@@ -266,12 +500,12 @@ public final class SpreadAnalysis {
             }
         }
         if (reg.getN() < 4) {
-            warnings.add("The length constant is not available: the response was seen at fewer than 4 positions.");
+            warnings.add("The peak decay length is not available: the response was seen at fewer than 4 positions.");
             return null;
         }
         double slope = reg.getSlope();
         if (!(slope < 0)) {
-            warnings.add("The length constant is not available: the peak does not fall off with distance from the "
+            warnings.add("The peak decay length is not available: the peak does not fall off with distance from the "
                     + "stimulus.");
             return null;
         }
@@ -282,7 +516,7 @@ public final class SpreadAnalysis {
         Estimate e = new Estimate(-1 / slope, Unit.MICROMETRE.symbol(), lo, hi,
                 "Student t on the slope of ln(peak) against distance, mapped to -1/slope");
         if (e.isVague()) {
-            warnings.add("The length constant is poorly determined: its 95% interval is wider than the value.");
+            warnings.add("The peak decay length is poorly determined: its 95% interval is wider than the value.");
         }
         return e;
     }
@@ -321,6 +555,31 @@ public final class SpreadAnalysis {
         }
         return new Estimate(tau, Unit.SECOND.symbol(), 1 / ci[1], hi,
                 "Student t on the fitted rate (Jacobian covariance), inverted");
+    }
+
+    /**
+     * Warns when a diffusing signal spreads beyond the ends of the path within the movie, which makes the summed
+     * signal fall faster than the signal itself. The share outside is that of a Gaussian centred on the stimulus
+     * with variance s0^2 + 2 D t from the apparent D (Crank 1975, sheet s2.2): Phi((x_first - x0) / s) +
+     * 1 - Phi((x_last - x0) / s) at the last frame.
+     */
+    private static void leakageWarning(Kymograph k, double x0, double dUm2PerS, double variance0, double lastTimeS,
+                                       Estimate decay, List<String> warnings) {
+        double var = Math.max(variance0, 0) + 2 * dUm2PerS * lastTimeS;
+        if (!(var > 0)) {
+            return;
+        }
+        double s = Math.sqrt(var);
+        NormalDistribution normal = new NormalDistribution(null, 0, 1);
+        double outside = normal.cumulativeProbability((k.distanceUm(0) - x0) / s)
+                + 1 - normal.cumulativeProbability((k.distanceUm(k.positionCount() - 1) - x0) / s);
+        if (outside > LEAKAGE_WARNING) {
+            warnings.add(String.format(Locale.ROOT, "By the end of the movie about %.0f%% of the signal has spread "
+                    + "beyond the ends of the path (estimated from the apparent D of %.3g um^2/s). The summed signal "
+                    + "then falls also because signal leaves the path, so the decay time (%.3g s) is shorter than the "
+                    + "signal's own; a model fitted with open ends (diffusion-decay) accounts for this.", 100 * outside,
+                    dUm2PerS, decay.value()));
+        }
     }
 
     private static Estimate apparentD(Kymograph k, int first, double x0, double noise, double[] varianceOut,

@@ -27,7 +27,7 @@ import org.dendrokin.io.AtomicFiles;
  * [um^2/s]}). Numbers are copied as results.json wrote them.
  */
 public final class SummaryTable {
-    static final String[] SPREAD_ORDER = {"front_speed", "length_constant", "decay_time"};
+    static final String[] SPREAD_ORDER = {"front_speed", "peak_decay_length", "length_constant", "decay_time"};
 
     private final List<String> columns = new ArrayList<>();
     private final List<Map<String, String>> rows = new ArrayList<>();

@@ -191,7 +191,8 @@ public final class ModelComparison {
         } catch (IllegalArgumentException e) {
             double[] none = new double[0];
             return new SpreadAnalysis.Result(null, null, null, null, none, none, none, none, none, none, none, none,
-                    null, none, List.of("The spread could not be measured: " + e.getMessage() + "."));
+                    null, none, SpreadAnalysis.Front.absent(SpreadAnalysis.FrontVerdict.TOO_FEW_POSITIONS, e.getMessage()),
+                    List.of("The spread could not be measured: " + e.getMessage() + "."));
         }
     }
 

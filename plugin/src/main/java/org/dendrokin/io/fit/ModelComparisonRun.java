@@ -128,8 +128,8 @@ public final class ModelComparisonRun {
             throw new InputException(outDir, "cannot be created (" + e.getMessage() + ")", e);
         }
         FitPictures.write(outDir, "compare-" + model, model + " (given)", measured, simulated, t0, xs, noise);
-        Result r = new Result(model, norm, rmse, sm.frontSpeed(), ss.frontSpeed(), sm.lengthConstant(),
-                ss.lengthConstant(), warnings);
+        Result r = new Result(model, norm, rmse, sm.frontSpeed(), ss.frontSpeed(), sm.peakDecayLength(),
+                ss.peakDecayLength(), warnings);
         JsonObject out = new JsonObject();
         out.addProperty("model", model);
         out.add("residual_norm", ResultsJson.finiteOrNull(norm));
@@ -140,8 +140,8 @@ public final class ModelComparisonRun {
         speed.add("model", estimate(ss.frontSpeed()));
         out.add("front_speed", speed);
         JsonObject lambda = new JsonObject();
-        lambda.add("measured", estimate(sm.lengthConstant()));
-        lambda.add("model", estimate(ss.lengthConstant()));
+        lambda.add("measured", estimate(sm.peakDecayLength()));
+        lambda.add("model", estimate(ss.peakDecayLength()));
         out.add("length_constant", lambda);
         JsonArray w = new JsonArray();
         warnings.forEach(w::add);

@@ -10,6 +10,7 @@ import java.util.stream.Stream;
 
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.CalibrationStage;
+import org.dendrokin.core.analysis.Headline;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.calib.Calibration;
 import org.dendrokin.core.calib.CalibrationSummary;
@@ -96,14 +97,31 @@ public final class ReportHtml {
                 + esc(signal.signalUnit()) + ".");
         h.append("</table>\n");
 
-        h.append("<h2>Numbers</h2>\n<p>Model-free measures of the spread, read directly off the kymograph. The 95% "
-                + "interval says how precisely the data fix each number; how it was made is in the last column.</p>\n");
+        Headline headline = a.headline();
+        h.append("<h2>Numbers</h2>\n<p>Measures of the spread, read directly off the kymograph unless the last column "
+                + "names a fitted model. The 95% interval says how precisely the data fix each number; how it was "
+                + "made is in the last column.</p>\n");
         h.append("<table>\n<tr><th>Quantity</th><th>Value</th><th>95% interval</th><th>Unit</th>"
                 + "<th>How it was measured</th></tr>\n");
-        estimateRow(h, "Front speed", spread == null ? null : spread.frontSpeed(),
-                "half-maximum arrival time at each position; robust (Theil-Sen) line of distance against time");
-        estimateRow(h, "Length constant", spread == null ? null : spread.lengthConstant(),
-                "peak amplitude against distance from the stimulus, fitted as exp(-distance / length constant)");
+        String noFront = spread == null ? "not available (no stimulus is known)"
+                : "not available: " + spread.front().reason();
+        estimateRow(h, "Front speed", headline.frontSpeed(), headline.frontSpeedFromModel()
+                ? "front speed of the fitted " + headline.bestModel() + " model (the arrival times give "
+                        + (headline.modelFreeFrontSpeed() == null ? "none"
+                                : number(headline.modelFreeFrontSpeed().value()) + " um/s") + ")"
+                : "half-maximum arrival time at each position; robust (Theil-Sen) line of distance against time",
+                noFront);
+        if (spread != null && spread.front().present()) {
+            estimateRow(h, "Front speed towards the path's start", spread.front().left(),
+                    "arrival times on that side of the stimulus only", "not available (too few positions)");
+            estimateRow(h, "Front speed towards the path's end", spread.front().right(),
+                    "arrival times on that side of the stimulus only", "not available (too few positions)");
+        }
+        estimateRow(h, "Peak decay length", spread == null ? null : spread.peakDecayLength(),
+                "peak amplitude against distance from the stimulus, fitted as exp(-distance / peak decay length)");
+        estimateRow(h, "Length constant sqrt(D / k)", headline.lengthConstantEstimate(),
+                "from D and k of the fitted " + headline.bestModel() + " model",
+                "not available (the preferred model has no D and k, or no model was fitted)");
         estimateRow(h, "Decay time", spread == null ? null : spread.decayTime(),
                 "signal summed along the path, fitted as exp(-t / decay time) after its peak");
         String dHow = "growth of the spatial variance of the profile, variance = s0^2 + 2 D t";
@@ -147,6 +165,10 @@ public final class ReportHtml {
                         + "distance.</li>\n")
                 .append("<li>The apparent D assumes spread by diffusion from a compact source; binding, transport or "
                         + "a regenerative wave give other values.</li>\n")
+                .append("<li>The peak decay length is how far from the stimulus the peak signal falls e-fold; the "
+                        + "length constant sqrt(D / k) is that distance for a steady source. After a brief release "
+                        + "the peak also falls because the signal dilutes as it spreads, so near the stimulus the peak "
+                        + "decay length is shorter than the length constant.</li>\n")
                 .append("</ul>\n");
         h.append("<h2>Cautions</h2>\n<div class=\"caution\"><p>Dendrokin is research software. The numbers depend on "
                 + "the path drawn, the background, the bleaching correction and the calibration; fitted constants "
@@ -204,9 +226,13 @@ public final class ReportHtml {
     }
 
     private static void estimateRow(StringBuilder h, String name, Estimate e, String how) {
+        estimateRow(h, name, e, how, "not available (see the warnings)");
+    }
+
+    private static void estimateRow(StringBuilder h, String name, Estimate e, String how, String missing) {
         h.append("<tr><td>").append(esc(name)).append("</td>");
         if (e == null) {
-            h.append("<td colspan=\"3\">not available (see the warnings)</td>");
+            h.append("<td colspan=\"3\">").append(esc(missing)).append("</td>");
         } else {
             h.append("<td>").append(number(e.value())).append("</td><td>").append(number(e.lo95())).append(" to ")
                     .append(number(e.hi95())).append("</td><td>").append(esc(e.unit())).append("</td>");

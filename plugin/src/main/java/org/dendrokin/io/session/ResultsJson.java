@@ -113,21 +113,13 @@ public final class ResultsJson {
         JsonObject o = new JsonObject();
         JsonElement modelFree = estimate(spread == null ? null : spread.frontSpeed());
         if (headline.frontSpeedFromModel()) {
-            ParameterEstimate e = headline.modelFrontSpeed();
-            JsonObject fs = new JsonObject();
-            fs.add("value", number(e.value()));
-            fs.addProperty("unit", e.unit().symbol());
-            JsonArray ci = new JsonArray();
-            ci.add(number(e.ci95() == null ? Double.NaN : e.ci95().lower()));
-            ci.add(number(e.ci95() == null ? Double.NaN : e.ci95().upper()));
-            fs.add("ci95", ci);
-            fs.addProperty("ci_method", e.ci95() == null ? "" : e.ci95().method());
-            fs.addProperty("source", "model:" + headline.bestModel());
-            o.add("front_speed", fs);
+            o.add("front_speed", modelEstimate(headline.modelFrontSpeed(), headline.bestModel()));
         } else {
             o.add("front_speed", modelFree);
         }
-        o.add("length_constant", estimate(spread == null ? null : spread.lengthConstant()));
+        o.add("length_constant", headline.lengthConstant() == null ? JsonNull.INSTANCE
+                : modelEstimate(headline.lengthConstant(), headline.bestModel()));
+        o.add("peak_decay_length", estimate(spread == null ? null : spread.peakDecayLength()));
         o.add("decay_time", estimate(spread == null ? null : spread.decayTime()));
         JsonElement d = estimate(spread == null ? null : spread.apparentD());
         if (d.isJsonObject() && spread.varianceWindowS() != null) {
@@ -141,6 +133,38 @@ public final class ResultsJson {
         if (headline.frontSpeedFromModel()) {
             o.add("front_speed_model_free", modelFree);
         }
+        o.add("front", front(spread));
+        return o;
+    }
+
+    /** Whether the arrival times show a front, why not, and the speed on each side. */
+    private static JsonElement front(SpreadAnalysis.Result spread) {
+        if (spread == null) {
+            return JsonNull.INSTANCE;
+        }
+        SpreadAnalysis.Front f = spread.front();
+        JsonObject o = new JsonObject();
+        o.addProperty("present", f.present());
+        o.addProperty("verdict", f.verdict().name().toLowerCase(java.util.Locale.ROOT).replace('_', '-'));
+        o.add("reason", f.present() ? JsonNull.INSTANCE : new JsonPrimitive(f.reason()));
+        o.add("near_half_speed_um_per_s", number(f.nearSpeedUmPerS()));
+        o.add("far_half_speed_um_per_s", number(f.farSpeedUmPerS()));
+        o.add("left_speed", estimate(f.left()));
+        o.add("right_speed", estimate(f.right()));
+        return o;
+    }
+
+    /** A fitted quantity shown among the spread measures, naming the model it comes from. */
+    private static JsonObject modelEstimate(ParameterEstimate e, String model) {
+        JsonObject o = new JsonObject();
+        o.add("value", number(e.value()));
+        o.addProperty("unit", e.unit().symbol());
+        JsonArray ci = new JsonArray();
+        ci.add(number(e.ci95() == null ? Double.NaN : e.ci95().lower()));
+        ci.add(number(e.ci95() == null ? Double.NaN : e.ci95().upper()));
+        o.add("ci95", ci);
+        o.addProperty("ci_method", e.ci95() == null ? "" : e.ci95().method());
+        o.addProperty("source", "model:" + model);
         return o;
     }
 

@@ -100,7 +100,7 @@ public final class SessionPictures {
         if (spread.peakAmplitude().length > 0) {
             LinePlot p = new LinePlot("Peak amplitude", "distance from the stimulus (um)", "peak (" + unit + ")")
                     .points("peak at each position", spread.peakDistanceUm(), spread.peakAmplitude());
-            if (spread.lengthConstant() != null) {
+            if (spread.peakDecayLength() != null) {
                 double lo = Arrays.stream(spread.peakDistanceUm()).min().orElse(0);
                 double hi = Arrays.stream(spread.peakDistanceUm()).max().orElse(0);
                 int n = 101;
@@ -108,9 +108,9 @@ public final class SessionPictures {
                 double[] y = new double[n];
                 for (int i = 0; i < n; i++) {
                     x[i] = lo + (hi - lo) * i / (n - 1);
-                    y[i] = spread.lines()[1] * Math.exp(-Math.abs(x[i]) / spread.lengthConstant().value());
+                    y[i] = spread.lines()[1] * Math.exp(-Math.abs(x[i]) / spread.peakDecayLength().value());
                 }
-                p.line(String.format(Locale.ROOT, "exp(-|d| / %s um)", fmt(spread.lengthConstant().value())), x, y);
+                p.line(String.format(Locale.ROOT, "exp(-|d| / %s um)", fmt(spread.peakDecayLength().value())), x, y);
             }
             Pictures.savePng(p.render(W, H), outDir.resolve("peak-vs-distance.png"));
             out.add(new Picture("peak-vs-distance.png", "Peak against distance", "The largest signal reached at "

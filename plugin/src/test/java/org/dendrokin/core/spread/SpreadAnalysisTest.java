@@ -38,6 +38,9 @@ class SpreadAnalysisTest {
         // REF: constant-speed front, arrival t = |d| / v by construction [common practice]
         assertEquals(v, r.frontSpeed().value(), 0.01 * v, "front speed, um/s");
         assertTrue(r.frontSpeed().lo95() <= v && v <= r.frontSpeed().hi95(), "interval holds the speed");
+        assertEquals(SpreadAnalysis.FrontVerdict.FRONT, r.front().verdict());
+        assertEquals(v, r.front().left().value(), 0.01 * v, "speed towards the path's start, um/s");
+        assertEquals(v, r.front().right().value(), 0.01 * v, "speed towards the path's end, um/s");
         assertTrue(r.warnings().stream().anyMatch(w -> w.contains("end of the path")),
                 "a front that runs off the path is flagged: " + r.warnings());
         assertTrue(r.warnings().stream().noneMatch(w -> w.contains("slows down")), "a steady front does not slow");
@@ -52,6 +55,56 @@ class SpreadAnalysisTest {
         SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, x0, 0.0);
         // REF: diffusive spreading: arrival time grows with distance squared [common practice]; sheet s2.5
         assertTrue(r.warnings().stream().anyMatch(w -> w.contains("slows down")), r.warnings().toString());
+        assertNull(r.frontSpeed(), "no front speed where arrival grows with distance squared");
+        assertEquals(SpreadAnalysis.FrontVerdict.DIFFUSIVE, r.front().verdict());
+        assertTrue(r.front().reason().contains("square of the distance"), r.front().reason());
+    }
+
+    @Test
+    void aResponseEverywhereAtOnceHasNoFront() {
+        double x0 = 10;
+        // The whole stretch rises within one frame (a profile fixed in space, switched on at t = 1 s).
+        Kymograph k = grid(121, 0.25, 200, 0.05, (x, t) -> t < 1 ? 0
+                : Math.exp(-Math.pow(x - x0, 2) / 50) * Math.exp(-(t - 1) / 4));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, x0, 0.0);
+        // REF: simultaneous onset at every position: no propagation by construction [common practice]
+        assertNull(r.frontSpeed(), r.front().reason());
+        assertTrue(r.front().verdict() == SpreadAnalysis.FrontVerdict.SIMULTANEOUS
+                || r.front().verdict() == SpreadAnalysis.FrontVerdict.NO_INCREASE, r.front().verdict().name());
+    }
+
+    @Test
+    void frontsOnTheTwoSidesAreMeasuredApartAndCompared() {
+        double x0 = 20;
+        double left = 1.0;
+        double right = 3.0;
+        // Half-maximum passes d at t = 1 + |d| / v, with v = 1 um/s towards the path's start and 3 um/s towards its end.
+        Kymograph k = grid(161, 0.25, 600, 0.05, (x, t) -> 1 / (1 + Math.exp(-(t - 1
+                - Math.abs(x - x0) / (x < x0 ? left : right)) / 0.2)));
+        SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, x0, 0.0);
+        // REF: constant-speed fronts, arrival t = |d| / v on each side by construction [common practice]
+        assertEquals(left, r.front().left().value(), 0.02 * left, "speed towards the start, um/s");
+        assertEquals(right, r.front().right().value(), 0.02 * right, "speed towards the end, um/s");
+        assertTrue(r.warnings().stream().anyMatch(w -> w.contains("different speeds")), r.warnings().toString());
+    }
+
+    @Test
+    void signalSpreadingOffAShortPathIsFlaggedForTheDecayTime() {
+        double x0 = 10;
+        Field pulse = (x, t) -> {
+            double var = 1 + 2 * 1.0 * t;
+            return 5 / Math.sqrt(2 * Math.PI * var) * Math.exp(-Math.pow(x - x0, 2) / (2 * var)) * Math.exp(-0.05 * t);
+        };
+        // D = 1 um^2/s for 40 s: s.d. 9 um, so about a quarter of a Gaussian centred on a 20 um path lies beyond it.
+        SpreadAnalysis.Result shortPath = SpreadAnalysis.measure(grid(81, 0.25, 401, 0.1, pulse), 0.0, x0, 0.0);
+        // REF: Gaussian pulse, variance s0^2 + 2 D t; share beyond +-10 um is 2 (1 - Phi(10 / 9)) = 0.27 [published formula: Crank 1975]; sheet s2.2
+        assertTrue(shortPath.warnings().stream().anyMatch(w -> w.contains("beyond the ends of the path")),
+                shortPath.warnings().toString());
+        assertTrue(shortPath.decayTime().value() < 1 / 0.05, "the summed signal decays faster than the signal");
+        SpreadAnalysis.Result longPath = SpreadAnalysis.measure(grid(401, 0.25, 401, 0.1,
+                (x, t) -> pulse.at(x - 40, t)), 0.0, x0 + 40, 0.0);
+        assertTrue(longPath.warnings().stream().noneMatch(w -> w.contains("beyond the ends of the path")),
+                longPath.warnings().toString());
     }
 
     @Test
@@ -62,8 +115,8 @@ class SpreadAnalysisTest {
                 (x, t) -> t < 5 ? 0 : 3 * Math.exp(-Math.abs(x - x0) / lambda) * (t - 5) * Math.exp(-(t - 5) / 6));
         SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 4.75, x0, 0.0);
         // REF: peak(d) = P0 exp(-|d| / lambda), steady source with decay [published formula: Crank 1975]; sheet s2.4
-        assertEquals(lambda, r.lengthConstant().value(), 1e-9, "length constant, um");
-        assertEquals("um", r.lengthConstant().unit());
+        assertEquals(lambda, r.peakDecayLength().value(), 1e-9, "length constant, um");
+        assertEquals("um", r.peakDecayLength().unit());
     }
 
     @Test
@@ -91,7 +144,7 @@ class SpreadAnalysisTest {
         Kymograph k = grid(40, 0.5, 60, 1, (x, t) -> 0.05 * random.nextGaussian());
         SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 10, 10, 0.05);
         assertNull(r.frontSpeed());
-        assertNull(r.lengthConstant());
+        assertNull(r.peakDecayLength());
         assertNull(r.decayTime());
         assertTrue(!r.warnings().isEmpty());
     }
@@ -110,7 +163,9 @@ class SpreadAnalysisTest {
         SpreadAnalysis.Result r = SpreadAnalysis.measure(k, 1.0, 20, 0.0);
         // REF: Gaussian pulse variance s0^2 + 2 D t with D = 0.5 [published formula: Crank 1975]; sheet s2.2
         assertEquals(0.5, r.apparentD().value(), 0.01, "apparent D with a NaN stretch, um^2/s");
-        assertTrue(r.frontSpeed() != null && r.lengthConstant() != null && r.decayTime() != null);
+        assertTrue(r.peakDecayLength() != null && r.decayTime() != null);
+        // REF: a decaying Gaussian pulse is no front of constant shape [published formula: Crank 1975]; sheet s2.2
+        assertNull(r.frontSpeed(), r.front().reason());
     }
 
     @Test
