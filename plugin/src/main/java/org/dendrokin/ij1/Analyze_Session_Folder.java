@@ -9,6 +9,7 @@ import ij.measure.ResultsTable;
 import ij.plugin.PlugIn;
 
 import org.dendrokin.core.analysis.Headline;
+import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
@@ -73,6 +74,9 @@ public class Analyze_Session_Folder implements PlugIn {
         Tables.add(t, "spread", "decay time", "s", s == null ? null : s.decayTime(), why);
         Tables.add(t, "spread", "apparent D", "um^2/s", s == null ? null : s.apparentD(), why);
         addFits(t, r.analysis().fits());
+        for (SkippedModel m : r.analysis().skipped()) {
+            Tables.add(t, m.model() + " (not tried)", "", Double.NaN, "", Double.NaN, Double.NaN, m.reason());
+        }
         return t;
     }
 

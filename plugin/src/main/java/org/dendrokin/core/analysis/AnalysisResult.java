@@ -23,14 +23,16 @@ import org.dendrokin.core.spread.SpreadAnalysis;
  * @param calibrated     the signal after the calibration (dF/F0 when there is none)
  * @param spread         model-free spread measures, or null when no stimulus is known
  * @param fits           the model fits and their comparison, or null when none could run
+ * @param skipped        default models that were not fitted because the data do not call for them
  * @param headline       the numbers shown first
  * @param warnings       plain sentences, in the order they arose
  */
 public record AnalysisResult(Movie movie, Extraction extraction, Background background, float[] referenceImage,
                              Preprocessing.Result preprocessing, CalibrationStage.Calibrated calibrated,
-                             SpreadAnalysis.Result spread, KymographFits.Outcome fits, Headline headline,
-                             List<Warning> warnings) {
+                             SpreadAnalysis.Result spread, KymographFits.Outcome fits, List<SkippedModel> skipped,
+                             Headline headline, List<Warning> warnings) {
     public AnalysisResult {
+        skipped = List.copyOf(skipped);
         warnings = List.copyOf(warnings);
     }
 

@@ -26,6 +26,8 @@ import org.dendrokin.core.spread.SpreadAnalysis;
  * ({@link Headline}). Nothing here reads or writes a file: the caller opens the movie and writes the outputs.
  */
 public final class SessionAnalysis {
+    /** Models whose solutions are travelling fronts: fitted by default only where the data show a front. */
+    static final List<String> WAVE_MODELS = List.of("nagumo", "fisher-kpp", "fitzhugh-nagumo");
     /** Frames averaged for the reference image of the path picture. */
     private static final int REFERENCE_FRAMES = 10;
 
@@ -84,27 +86,42 @@ public final class SessionAnalysis {
                     change.noiseSd());
             spread.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SPREAD, w)));
         }
-        KymographFits.Outcome fits = fit(request.fits(), signal, pre, spread, warnings, progress);
+        List<SkippedModel> skipped = new ArrayList<>();
+        KymographFits.Outcome fits = fit(request.fits(), signal, pre, spread, skipped, warnings, progress);
         Headline headline = Headline.choose(spread, fits, warnings);
 
         AnalysisResult.Movie movie = new AnalysisResult.Movie(frames.width(), frames.height(), frames.frameCount(),
                 px, dt, request.path().lengthPx() * px, request.pathWidthUm());
-        return new AnalysisResult(movie, extraction, background, reference, pre, calibrated, spread, fits, headline,
-                warnings);
+        return new AnalysisResult(movie, extraction, background, reference, pre, calibrated, spread, fits, skipped,
+                headline, warnings);
     }
 
-    /** The model fits, or null (with a warning) when the stimulus is not known. */
+    /**
+     * The model fits, or null (with a warning) when the stimulus is not known. Of the default models, the
+     * travelling-wave ones are fitted only where the arrival times show a front; the others are listed in
+     * {@code skipped}. Models the user names are always fitted.
+     */
     private static KymographFits.Outcome fit(FitRequest request, Kymograph signal, Preprocessing.Result pre,
-                                             SpreadAnalysis.Result spread, List<Warning> warnings,
-                                             Progress progress) {
+                                             SpreadAnalysis.Result spread, List<SkippedModel> skipped,
+                                             List<Warning> warnings, Progress progress) {
         Preprocessing.Stimulus stimulus = pre.stimulus();
         if (!stimulus.known()) {
             warnings.add(new Warning(Warning.Topic.FIT, "No model was fitted: the stimulus time and position are not "
                     + "known (give \"stimulus\" in session.json)."));
             return null;
         }
-        List<String> models = request.models() == null || request.models().isEmpty() ? KymographFits.DEFAULT_MODELS
-                : request.models();
+        boolean asked = request.models() != null && !request.models().isEmpty();
+        List<String> models = new ArrayList<>(asked ? request.models() : KymographFits.DEFAULT_MODELS);
+        if (!asked && spread != null && !spread.front().present()) {
+            for (String m : List.copyOf(models)) {
+                if (WAVE_MODELS.contains(m)) {
+                    models.remove(m);
+                    skipped.add(new SkippedModel(m, "The arrival times show no front (" + spread.front().verdict()
+                            .phrase() + "), so this travelling-wave model was not fitted; name it in session.json's "
+                            + "\"models\" to fit it anyway."));
+                }
+            }
+        }
         KymographFits.Setup setup = KymographFits.Setup.of(stimulus.timeS(), stimulus.positionUm())
                 .withModels(models)
                 .withCriterion(request.criterion())

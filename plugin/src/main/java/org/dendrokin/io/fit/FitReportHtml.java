@@ -3,6 +3,7 @@ package org.dendrokin.io.fit;
 import java.util.List;
 import java.util.Locale;
 
+import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
@@ -21,8 +22,9 @@ public final class FitReportHtml {
      * The HTML of the section (an h2 and what follows).
      *
      * @param outcome the fits and their comparison, or null when none ran
+     * @param skipped models not fitted because the data do not call for them
      */
-    public static String section(KymographFits.Outcome outcome) {
+    public static String section(KymographFits.Outcome outcome, List<SkippedModel> skipped) {
         StringBuilder h = new StringBuilder("<h2>Model fits</h2>\n");
         if (outcome == null || outcome.fits().isEmpty()) {
             return h.append("<p>No reaction-diffusion model was fitted in this run; the numbers above do not depend on "
@@ -47,6 +49,10 @@ public final class FitReportHtml {
                     .append(num(ok ? f.aicc() : Double.NaN)).append("</td><td>").append(num(ok ? f.bic() : Double.NaN))
                     .append("</td><td>").append(num(weight)).append("</td><td>").append(num(ok ? f.rmse() : Double.NaN))
                     .append("</td></tr>\n");
+        }
+        for (SkippedModel m : skipped) {
+            h.append("<tr><td>").append(esc(m.model())).append("</td><td colspan=\"6\">not tried: ")
+                    .append(esc(m.reason())).append("</td></tr>\n");
         }
         h.append("</table>\n");
         for (FitResult f : outcome.fits()) {

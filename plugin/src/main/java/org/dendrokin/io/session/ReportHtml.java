@@ -134,7 +134,7 @@ public final class ReportHtml {
                 "exponential fit to the samples outside the response");
         h.append("</table>\n");
 
-        h.append(FitReportHtml.section(a.fits()));
+        h.append(FitReportHtml.section(a.fits(), a.skipped()));
 
         h.append("<h2>Warnings</h2>\n");
         List<String> warnings = Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text)

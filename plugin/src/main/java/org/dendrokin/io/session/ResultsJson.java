@@ -8,6 +8,7 @@ import java.util.stream.Stream;
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
+import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.calib.Calibration;
 import org.dendrokin.core.calib.CalibrationSummary;
@@ -72,6 +73,15 @@ public final class ResultsJson {
         JsonArray fitArray = new JsonArray();
         if (a.fits() != null) {
             fits(a.fits()).forEach(fitArray::add);
+        }
+        for (SkippedModel m : a.skipped()) {
+            JsonObject o = new JsonObject();
+            o.addProperty("model", m.model());
+            o.addProperty("tried", false);
+            o.addProperty("converged", false);
+            o.addProperty("reason", m.reason());
+            o.add("parameters", new JsonObject());
+            fitArray.add(o);
         }
         root.add("fits", fitArray);
         root.add("best_model", a.bestModel() == null ? JsonNull.INSTANCE : new JsonPrimitive(a.bestModel()));
@@ -277,6 +287,7 @@ public final class ResultsJson {
     public static JsonObject fit(FitResult f) {
         JsonObject o = new JsonObject();
         o.addProperty("model", f.model());
+        o.addProperty("tried", true);
         o.addProperty("converged", f.converged());
         if (!f.converged()) {
             o.addProperty("reason", f.reason());
