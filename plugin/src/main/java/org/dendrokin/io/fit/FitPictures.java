@@ -36,49 +36,52 @@ public final class FitPictures {
     /**
      * Writes the comparison pictures for one model.
      *
-     * @param outDir       output folder (must exist)
-     * @param prefix       file-name prefix, e.g. {@code "fit-nagumo"}
-     * @param label        how the model is named in titles, e.g. {@code "nagumo (fitted)"}
-     * @param measured     the measured kymograph
-     * @param model        the model's prediction on the same grid
+     * @param outDir         output folder (must exist)
+     * @param prefix         file-name prefix, e.g. {@code "fit-nagumo"}
+     * @param label          how the model is named in titles, e.g. {@code "nagumo (fitted)"}
+     * @param measured       the measured kymograph
+     * @param measuredSpread the measured kymograph's spread measures, or null to measure them here
+     * @param model          the model's prediction on the same grid
      * @param stimulusTimeS  stimulus time, s (for the front position)
      * @param stimulusPosUm  stimulus position, um
-     * @param noiseSd      typical noise SD (for the front detection)
+     * @param noiseSd        typical noise SD (for the front detection)
      */
-    public static List<Picture> write(Path outDir, String prefix, String label, Kymograph measured, Kymograph model,
-                                      double stimulusTimeS, double stimulusPosUm, double noiseSd) {
+    public static List<Picture> write(Path outDir, String prefix, String label, Kymograph measured,
+                                      SpreadAnalysis.Result measuredSpread, Kymograph model, double stimulusTimeS,
+                                      double stimulusPosUm, double noiseSd) {
         List<Picture> out = new ArrayList<>();
         String unit = measured.signalUnit();
-        double[] range = Heatmap.robustRange(measured.values());
+        double[] m = Heatmap.displayRange(measured);
+        double[] s = Heatmap.displayRange(model);
+        double lo = Math.min(m[0], s[0]);
+        double hi = Math.max(m[1], s[1]);
         double[] res = measured.values();
         double[] sim = model.values();
         for (int i = 0; i < res.length; i++) {
             res[i] -= sim[i];
         }
         Kymograph residual = measured.withValues(res, unit);
-        double half = (range[1] - range[0]) / 2;
-        BufferedImage a = Heatmap.withRange("Measured (" + unit + ")", ColourScale.SEQUENTIAL, range[0], range[1])
-                .render(measured);
-        BufferedImage b = Heatmap.withRange(label + " (" + unit + ")", ColourScale.SEQUENTIAL, range[0], range[1])
-                .render(model);
-        BufferedImage c = Heatmap.withRange("Residual, measured - model (" + unit + ")", ColourScale.DIVERGING, -half,
-                half).render(residual);
+        double[] r = Heatmap.displayRange(residual);
+        double half = Math.max(Math.abs(r[0]), Math.abs(r[1]));
+        Heatmap ma = Heatmap.withRange("Measured (" + unit + ")", ColourScale.SEQUENTIAL, lo, hi);
+        Heatmap mb = Heatmap.withRange(label + " (" + unit + ")", ColourScale.SEQUENTIAL, lo, hi);
+        Heatmap mc = Heatmap.withRange("Residual, measured - model (" + unit + ")", ColourScale.DIVERGING, -half,
+                half);
         String file = prefix + "-kymographs.png";
-        Pictures.savePng(sideBySide(a, b, c), outDir.resolve(file));
+        Pictures.savePng(stacked(ma.render(measured), mb.render(model), mc.render(residual)), outDir.resolve(file));
         out.add(new Picture(file, "Measured, " + label + " and residual",
-                String.format(Locale.ROOT, "Left and middle share one colour scale (%.3g to %.3g %s). The residual "
-                        + "(right) uses a blue-white-red scale of the same span centred on zero: a good fit leaves "
-                        + "only speckle there, while bands or blobs show where the model misses the data.", range[0],
-                        range[1], unit)));
+                "Top and middle share one colour scale. " + ma.scaleSentence(measured)
+                        + " The residual (bottom) uses a blue-white-red scale centred on zero. "
+                        + mc.scaleSentence(residual) + " A good fit leaves only speckle there, while stripes, bands "
+                        + "or blobs show where the model misses the data."));
 
         int nt = measured.frameCount();
-        int first = Math.min(nt - 1, measured.firstFrameAtOrAfter(stimulusTimeS));
-        LinePlot profiles = new LinePlot("Profiles along the dendrite", "distance (um)", "signal (" + unit + ")");
+        int first = measured.firstFrameAtOrAfter(stimulusTimeS);
+        LinePlot profiles = new LinePlot("Profiles along the dendrite", "distance along the path (um)",
+                "signal (" + unit + ")");
         int shown = 0;
-        for (int q = 1; q <= 4 && first < nt; q++) {
-            int f = first + (int) Math.round((nt - 1 - first) * (q * q) / 16.0 * 0.9);
-            f = Math.min(nt - 1, Math.max(first, f));
-            String t = String.format(Locale.ROOT, "%.3g s", measured.timeS(f));
+        for (int f : profileFrames(first, nt)) {
+            String t = String.format(Locale.ROOT, "%.3g s after", measured.timeS(f) - stimulusTimeS);
             profiles.points("measured " + t, measured.distancesUm(), measured.row(f));
             profiles.lineMatchingPrevious("model " + t, model.distancesUm(), model.row(f));
             shown++;
@@ -87,11 +90,13 @@ public final class FitPictures {
             String pf = prefix + "-profiles.png";
             Pictures.savePng(profiles.render(W, H), outDir.resolve(pf));
             out.add(new Picture(pf, "Profiles: measured and " + label,
-                    "The signal along the dendrite at a few times after the stimulus: measured (markers) and model "
-                            + "(lines) of the same time."));
+                    "The signal along the dendrite in the first frame after the stimulus and at a few later times "
+                            + "(spaced so that each is about three times as long after the stimulus as the one "
+                            + "before): measured (markers) and model (lines) of the same time."));
         }
 
-        SpreadAnalysis.Result sm = SpreadAnalysis.measure(measured, stimulusTimeS, stimulusPosUm, noiseSd);
+        SpreadAnalysis.Result sm = measuredSpread != null ? measuredSpread
+                : SpreadAnalysis.measure(measured, stimulusTimeS, stimulusPosUm, noiseSd);
         SpreadAnalysis.Result ss = SpreadAnalysis.measure(model, stimulusTimeS, stimulusPosUm, noiseSd);
         if (sm.arrivalTimeS().length > 0 || ss.arrivalTimeS().length > 0) {
             LinePlot front = new LinePlot("Front position against time", "time after the stimulus (s)",
@@ -109,6 +114,26 @@ public final class FitPictures {
         return out;
     }
 
+    /**
+     * Up to four frames for the profile picture: the first frame at or after the stimulus, then frames whose
+     * distance from it grows about threefold each time, the last near the end of the movie.
+     *
+     * @param first first frame at or after the stimulus
+     * @param nt    number of frames
+     */
+    static int[] profileFrames(int first, int nt) {
+        if (first >= nt) {
+            return new int[0];
+        }
+        int span = nt - 1 - first;
+        java.util.TreeSet<Integer> frames = new java.util.TreeSet<>();
+        frames.add(first);
+        for (int q = 2; q >= 0; q--) {
+            frames.add(first + (int) Math.round(span * 0.9 / Math.pow(3, q)));
+        }
+        return frames.stream().mapToInt(Integer::intValue).toArray();
+    }
+
     private static double[] abs(double[] v) {
         double[] a = new double[v.length];
         for (int i = 0; i < v.length; i++) {
@@ -117,21 +142,22 @@ public final class FitPictures {
         return a;
     }
 
-    private static BufferedImage sideBySide(BufferedImage... images) {
+    /** The pictures one above the other, so that each keeps its size at the width of a report page. */
+    private static BufferedImage stacked(BufferedImage... images) {
         int w = 0;
         int h = 0;
         for (BufferedImage i : images) {
-            w += i.getWidth();
-            h = Math.max(h, i.getHeight());
+            w = Math.max(w, i.getWidth());
+            h += i.getHeight();
         }
         BufferedImage out = new BufferedImage(w, h, BufferedImage.TYPE_INT_RGB);
         Graphics2D g = out.createGraphics();
         g.setColor(Color.WHITE);
         g.fillRect(0, 0, w, h);
-        int x = 0;
+        int y = 0;
         for (BufferedImage i : images) {
-            g.drawImage(i, x, 0, null);
-            x += i.getWidth();
+            g.drawImage(i, 0, y, null);
+            y += i.getHeight();
         }
         g.dispose();
         return out;

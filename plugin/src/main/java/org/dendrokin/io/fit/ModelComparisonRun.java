@@ -127,7 +127,8 @@ public final class ModelComparisonRun {
         } catch (IOException e) {
             throw new InputException(outDir, "cannot be created (" + e.getMessage() + ")", e);
         }
-        FitPictures.write(outDir, "compare-" + model, model + " (given)", measured, simulated, t0, xs, noise);
+        FitPictures.write(outDir, "compare-" + model, model + " (given)", measured, null, simulated, t0, xs,
+                noise);
         Result r = new Result(model, norm, rmse, sm.frontSpeed(), ss.frontSpeed(), sm.peakDecayLength(),
                 ss.peakDecayLength(), warnings);
         JsonObject out = new JsonObject();

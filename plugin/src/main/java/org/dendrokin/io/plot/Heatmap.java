@@ -2,45 +2,76 @@ package org.dendrokin.io.plot;
 
 import java.awt.Color;
 import java.awt.Graphics2D;
+import java.awt.Polygon;
 import java.awt.image.BufferedImage;
+import java.util.Arrays;
+import java.util.Locale;
 
 import org.dendrokin.core.kymo.Kymograph;
 
 /**
  * Draws a kymograph as a picture: distance (um) across, time (s) downwards, the signal as colour, and a
- * colour scale bar labelled with the signal's unit. NaN (path outside the image) shows as grey.
+ * colour scale bar labelled with the signal's unit. NaN (path outside the image, or no concentration) shows as
+ * grey; samples at or above a saturation level, when one is given, as magenta. Where values lie beyond the
+ * colour range, the bar has an arrow at that end and {@link #scaleSentence} says how many.
  */
 public final class Heatmap {
+    /** Colour of saturated samples: outside both colour maps. */
+    static final Color SATURATED = new Color(230, 0, 200);
+
     private final String title;
     private final ColourScale scale;
     private final double lo;
     private final double hi;
+    private final double saturation;
 
-    private Heatmap(String title, ColourScale scale, double lo, double hi) {
+    private Heatmap(String title, ColourScale scale, double lo, double hi, double saturation) {
         this.title = title;
         this.scale = scale;
         this.lo = lo;
         this.hi = hi;
+        this.saturation = saturation;
     }
 
-    /** A heat map whose colour range runs from the 0.5th to the 99.5th percentile of the finite values. */
+    /** A heat map whose colour range covers the kymograph's values ({@link #displayRange}). */
     public static Heatmap of(Kymograph k, String title) {
-        double[] range = robustRange(k.values());
-        return new Heatmap(title, ColourScale.SEQUENTIAL, range[0], range[1]);
+        double[] range = displayRange(k);
+        return new Heatmap(title, ColourScale.SEQUENTIAL, range[0], range[1], Double.NaN);
     }
 
     /** A heat map with a fixed colour range, for pictures that must share one scale. */
     public static Heatmap withRange(String title, ColourScale scale, double lo, double hi) {
-        return new Heatmap(title, scale, lo, hi);
+        return new Heatmap(title, scale, lo, hi, Double.NaN);
+    }
+
+    /** The same picture with samples at or above {@code level} drawn as saturated. */
+    public Heatmap withSaturation(double level) {
+        return new Heatmap(title, scale, lo, hi, level);
+    }
+
+    /** Lower end of the colour range. */
+    public double lo() {
+        return lo;
+    }
+
+    /** Upper end of the colour range. */
+    public double hi() {
+        return hi;
     }
 
     /**
-     * The 0.5th and 99.5th percentiles of the finite values ({0, 1} if there are none). A focal response is
-     * brief and small, so a scale up to the maximum would leave the spread itself in the darkest colours; the
-     * few brighter values are drawn at the top colour, and the picture prints the true maximum beside the bar.
+     * The colour range of a kymograph: the 0.5th and 99.5th percentiles of its finite values. A focal response
+     * is brief and small, so a range up to the very largest value would leave the spread itself in the darkest
+     * colours; the few values beyond take the end colours, the bar shows an arrow at that end, and
+     * {@link #scaleSentence} says how far the data reach. ({0, 1} without finite values.)
      */
+    public static double[] displayRange(Kymograph k) {
+        return robustRange(k.values());
+    }
+
+    /** The 0.5th and 99.5th percentiles of the finite values ({0, 1} if there are none). */
     public static double[] robustRange(double[] values) {
-        double[] finite = java.util.Arrays.stream(values).filter(Double::isFinite).sorted().toArray();
+        double[] finite = Arrays.stream(values).filter(Double::isFinite).sorted().toArray();
         if (finite.length == 0) {
             return new double[] {0, 1};
         }
@@ -52,17 +83,82 @@ public final class Heatmap {
         return new double[] {lo, hi};
     }
 
-    /** The smallest and largest finite value (NaN, NaN if there are none). */
-    private static double[] extremes(double[] values) {
+    /**
+     * How the picture maps values to colours.
+     *
+     * @param lo        lower end of the colour range
+     * @param hi        upper end
+     * @param min       smallest finite value
+     * @param max       largest finite value
+     * @param below     samples below lo (drawn in the bottom colour)
+     * @param above     samples above hi and below the saturation level (drawn in the top colour)
+     * @param saturated samples at or above the saturation level (drawn magenta)
+     * @param missing   NaN samples (drawn grey)
+     * @param total     all samples
+     */
+    public record Clipping(double lo, double hi, double min, double max, long below, long above, long saturated,
+                           long missing, long total) {
+    }
+
+    /** Counts what lies beyond the colour range. */
+    public Clipping clipping(Kymograph k) {
         double min = Double.NaN;
         double max = Double.NaN;
+        long below = 0;
+        long above = 0;
+        long saturated = 0;
+        long missing = 0;
+        double[] values = k.values();
         for (double v : values) {
-            if (Double.isFinite(v)) {
-                min = Double.isNaN(min) ? v : Math.min(min, v);
-                max = Double.isNaN(max) ? v : Math.max(max, v);
+            if (!Double.isFinite(v)) {
+                missing++;
+                continue;
+            }
+            min = Double.isNaN(min) ? v : Math.min(min, v);
+            max = Double.isNaN(max) ? v : Math.max(max, v);
+            if (v >= saturation) {
+                saturated++;
+            } else if (v > hi) {
+                above++;
+            } else if (v < lo) {
+                below++;
             }
         }
-        return new double[] {min, max};
+        return new Clipping(lo, hi, min, max, below, above, saturated, missing, values.length);
+    }
+
+    /**
+     * One or two sentences for a caption: the colour range, whether it covers the data, and what is drawn
+     * specially.
+     */
+    public String scaleSentence(Kymograph k) {
+        Clipping c = clipping(k);
+        String unit = k.signalUnit().isEmpty() ? "" : " " + k.signalUnit();
+        StringBuilder s = new StringBuilder(String.format(Locale.ROOT, "Colours run from %s to %s%s",
+                Axes.format(lo), Axes.format(hi), unit));
+        long beyond = c.below() + c.above();
+        if (beyond == 0) {
+            s.append(", which covers every value.");
+        } else {
+            s.append(String.format(Locale.ROOT, "; the data reach %s to %s, and the %d sample%s (%s) beyond that "
+                    + "range take the end colour (arrow on the bar), so the brightest part of the response is drawn "
+                    + "flat: the profile picture shows its true height.", Axes.format(c.min()), Axes.format(c.max()),
+                    beyond, beyond == 1 ? "" : "s", percent(beyond, c.total())));
+        }
+        if (c.saturated() > 0) {
+            s.append(String.format(Locale.ROOT, " Magenta marks %d saturated sample%s (at or above %s%s).",
+                    c.saturated(), c.saturated() == 1 ? "" : "s", Axes.format(saturation), unit));
+        }
+        if (c.missing() > 0) {
+            s.append(String.format(Locale.ROOT, " Grey marks %d sample%s without a value.", c.missing(),
+                    c.missing() == 1 ? "" : "s"));
+        }
+        return s.toString();
+    }
+
+    private static String percent(long n, long total) {
+        double p = 100.0 * n / Math.max(1, total);
+        return p < 0.1 ? "under 0.1%" : String.format(Locale.ROOT, "%.1f%%", p);
     }
 
     public BufferedImage render(Kymograph k) {
@@ -77,12 +173,13 @@ public final class Heatmap {
 
         int nx = k.positionCount();
         int nt = k.frameCount();
+        int saturatedRgb = SATURATED.getRGB() & 0xFFFFFF;
         for (int py = 0; py < plotH; py++) {
             int f = Math.min(nt - 1, (int) ((py + 0.5) / plotH * nt));
             for (int px = 0; px < plotW; px++) {
                 int p = Math.min(nx - 1, (int) ((px + 0.5) / plotW * nx));
                 double v = k.value(f, p);
-                image.setRGB(left + px, top + py, scale.rgb((v - lo) / (hi - lo)));
+                image.setRGB(left + px, top + py, v >= saturation ? saturatedRgb : scale.rgb((v - lo) / (hi - lo)));
             }
         }
         double dx = k.distanceStepUm();
@@ -100,24 +197,30 @@ public final class Heatmap {
         Axes.frame(g, left, top, plotW, plotH, x0, x1, t0, t1, "distance along the path (um)", "time (s)");
         g.setFont(Axes.TITLE);
         g.drawString(title, left, top - 14);
-        colourBar(g, left + plotW + 25, top, 18, plotH, k.signalUnit());
-        double[] extremes = extremes(k.values());
-        g.setFont(Axes.TICK);
-        g.setColor(Color.BLACK);
-        if (extremes[1] > hi + 1e-9 * Math.abs(hi)) {
-            g.drawString("max " + Axes.format(extremes[1]), left + plotW + 20, top - 6);
-        }
-        if (extremes[0] < lo - 1e-9 * Math.abs(lo)) {
-            g.drawString("min " + Axes.format(extremes[0]), left + plotW + 20, top + plotH + 40);
-        }
+        Clipping c = clipping(k);
+        colourBar(g, left + plotW + 25, top + 10, 18, plotH - 20, k.signalUnit(), c.above() > 0, c.below() > 0);
         g.dispose();
         return image;
     }
 
-    private void colourBar(Graphics2D g, int x, int y, int w, int h, String unit) {
+    private void colourBar(Graphics2D g, int x, int y, int w, int h, String unit, boolean over, boolean under) {
         for (int i = 0; i < h; i++) {
             g.setColor(scale.colour(1 - (i + 0.5) / h));
             g.fillRect(x, y + i, w, 1);
+        }
+        if (over) {
+            g.setColor(scale.colour(1));
+            Polygon arrow = new Polygon(new int[] {x, x + w, x + w / 2}, new int[] {y, y, y - 9}, 3);
+            g.fill(arrow);
+            g.setColor(Color.BLACK);
+            g.draw(arrow);
+        }
+        if (under) {
+            g.setColor(scale.colour(0));
+            Polygon arrow = new Polygon(new int[] {x, x + w, x + w / 2}, new int[] {y + h, y + h, y + h + 9}, 3);
+            g.fill(arrow);
+            g.setColor(Color.BLACK);
+            g.draw(arrow);
         }
         g.setColor(Color.BLACK);
         g.drawRect(x, y, w, h);
@@ -128,6 +231,6 @@ public final class Heatmap {
             g.drawString(Axes.format(v), x + w + 7, yy + 4);
         }
         g.setFont(Axes.LABEL);
-        Axes.centred(g, unit, x + w / 2.0, y + h + 22);
+        Axes.centred(g, unit, x + w / 2.0, y + h + 28);
     }
 }

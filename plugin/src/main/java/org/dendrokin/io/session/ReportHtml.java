@@ -151,8 +151,8 @@ public final class ReportHtml {
 
         h.append("<h2>Pictures</h2>\n");
         for (Picture p : pictures) {
-            h.append("<figure><img src=\"").append(esc(p.file())).append("\" alt=\"").append(esc(p.title()))
-                    .append("\"><figcaption><b>").append(esc(p.title())).append(".</b> ").append(esc(p.caption()))
+            h.append("<figure><a href=\"").append(esc(p.file())).append("\"><img src=\"").append(esc(p.file()))
+                    .append("\" alt=\"").append(esc(p.title())).append("\"></a><figcaption><b>").append(esc(p.title())).append(".</b> ").append(esc(p.caption()))
                     .append("</figcaption></figure>\n");
         }
 

@@ -47,7 +47,8 @@ public final class SessionOutputs {
         if (a.calibrated().propagated()) {
             KymographCsv.write(a.calibrated().sdMicromolar(), outDir.resolve(SD_CSV));
         }
-        List<Picture> pictures = SessionPictures.writeAll(outDir, a);
+        double saturation = in.bitDepth() == 8 || in.bitDepth() == 16 ? (1 << in.bitDepth()) - 1 : Double.NaN;
+        List<Picture> pictures = SessionPictures.writeAll(outDir, a, saturation);
         ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV), outDir.resolve(ResultsJson.FILE_NAME));
         Path report = outDir.resolve(REPORT_HTML);
         ReportHtml.write(report, in, a, pictures);

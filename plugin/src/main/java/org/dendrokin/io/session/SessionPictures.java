@@ -37,10 +37,11 @@ public final class SessionPictures {
      * Writes every picture that the data allow and returns them in report order: the path, the kymographs, the
      * bleaching fit, the model-free spread measures, then the preferred model beside the measurement.
      *
-     * @param outDir where to write (must exist)
-     * @param a      the analysis
+     * @param outDir        where to write (must exist)
+     * @param a             the analysis
+     * @param rawSaturation the movie's largest grey value (samples there are saturated), or NaN for float movies
      */
-    public static List<Picture> writeAll(Path outDir, AnalysisResult a) {
+    public static List<Picture> writeAll(Path outDir, AnalysisResult a, double rawSaturation) {
         List<Picture> out = new ArrayList<>();
         Preprocessing.Result pre = a.preprocessing();
         Kymograph signal = a.signal();
@@ -49,16 +50,17 @@ public final class SessionPictures {
                 "Mean of the baseline frames (grey), the analysed path (orange line; its band is "
                         + fmt(a.movie().pathWidthUm()) + " um wide), its first vertex (open circle; distance 0) "
                         + "and the stimulus (filled circle), if known."));
-        Pictures.savePng(Heatmap.of(signal, "Signal along the dendrite (" + signal.signalUnit() + ")").render(signal),
-                outDir.resolve("kymograph.png"));
+        Heatmap signalMap = Heatmap.of(signal, "Signal along the dendrite (" + signal.signalUnit() + ")");
+        Pictures.savePng(signalMap.render(signal), outDir.resolve("kymograph.png"));
         out.add(new Picture("kymograph.png", "Kymograph", "The analysed signal (" + signal.signalUnit()
-                + ") along the path (across) over time (down). Grey marks positions outside the image."));
+                + ") along the path (across) over time (down). " + signalMap.scaleSentence(signal)));
         Kymograph raw = a.extraction().kymograph();
         Kymograph rawLabelled = raw.withValues(raw.values(), "grey value");
-        Pictures.savePng(Heatmap.of(rawLabelled, "Raw intensity along the dendrite").render(rawLabelled),
-                outDir.resolve("kymograph-raw.png"));
+        Heatmap rawMap = Heatmap.of(rawLabelled, "Raw intensity along the dendrite").withSaturation(rawSaturation);
+        Pictures.savePng(rawMap.render(rawLabelled), outDir.resolve("kymograph-raw.png"));
         out.add(new Picture("kymograph-raw.png", "Raw kymograph",
-                "The movie's intensity averaged over the band, before background subtraction and bleach correction."));
+                "The movie's intensity averaged over the band, before background subtraction and bleach correction. "
+                        + rawMap.scaleSentence(rawLabelled)));
         if (pre.bleach().applied() || hasFinite(pre.bleach().trace())) {
             LinePlot bleach = new LinePlot("Photobleaching", "time (s)", "normalised intensity")
                     .points("quiet samples", pre.bleach().traceTimesS(), pre.bleach().trace());
@@ -74,7 +76,7 @@ public final class SessionPictures {
             out.addAll(spreadPictures(outDir, signal, spread));
         }
         a.bestFit().ifPresent(best -> out.addAll(FitPictures.write(outDir, "fit-" + best.model(),
-                best.model() + " fit", signal, FitPictures.simulated(signal, best), a.stimulus().timeS(),
+                best.model() + " fit", signal, spread, FitPictures.simulated(signal, best), a.stimulus().timeS(),
                 a.stimulus().positionUm(), Robust.median(a.fits().noiseSd()))));
         return out;
     }
