@@ -13,6 +13,7 @@ import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.fit.Misfit;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.spread.SpreadAnalysis;
@@ -100,6 +101,9 @@ public class Analyze_Session_Folder implements PlugIn {
                     }
                 }
             }
+            outcome.misfit(model).ifPresent(m -> Tables.add(t, source, "residual correlation between frames",
+                    m.temporalCorrelation(), "", Double.NaN, Double.NaN, m.verdict().label()
+                    + (m.pattern() == Misfit.Pattern.NONE ? "" : ": " + m.pattern().label())));
             double weight = converged ? outcome.weights().getOrDefault(model, Double.NaN) : Double.NaN;
             double[] criteria = {fit.aicc(), fit.aic(), fit.bic(), fit.rmse(), weight};
             String[] names = {"AICC", "AIC", "BIC", "RMSE", "Akaike weight"};

@@ -137,6 +137,9 @@ public final class SessionAnalysis {
         outcome.best().ifPresent(best -> best.warnings().forEach(
                 w -> warnings.add(new Warning(Warning.Topic.FIT, best.model() + " fit: " + w))));
         for (FitResult f : outcome.fits()) {
+            if (outcome.isMisfit(f.model())) {
+                warnings.add(new Warning(Warning.Topic.FIT, outcome.misfit(f.model()).orElseThrow().sentence(f.model())));
+            }
             if (!f.converged()) {
                 warnings.add(new Warning(Warning.Topic.FIT, "The " + f.model() + " fit did not converge ("
                         + f.reason() + "); it is listed but gives no constants."));

@@ -115,12 +115,25 @@ public final class KymographFits {
      * @param noiseSd        noise standard deviation per position used for the weights, signal units
      * @param spread         the model-free measures used for the starting values
      * @param warnings       plain sentences about the data and the comparison (each fit has its own too)
+     * @param misfits        the residual structure of each converged fit, by model name
      */
     public record Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
-                          double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings) {
+                          double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings,
+                          Map<String, Misfit.Result> misfits) {
         public Outcome {
             fits = List.copyOf(fits);
             warnings = List.copyOf(warnings);
+            misfits = Map.copyOf(misfits);
+        }
+
+        /** The residual structure of a converged fit, if measured. */
+        public Optional<Misfit.Result> misfit(String model) {
+            return Optional.ofNullable(misfits.get(model));
+        }
+
+        /** True when a fit's residuals show that its model does not describe the data. */
+        public boolean isMisfit(String model) {
+            return misfit(model).map(m -> m.verdict() == Misfit.Verdict.MISFIT).orElse(false);
         }
 
         /** The fit of a model by name. */
@@ -212,8 +225,17 @@ public final class KymographFits {
         for (String name : setup.models()) {
             fits.stream().filter(f -> f.model().equals(name)).findFirst().ifPresent(ordered::add);
         }
+        Map<String, Misfit.Result> misfits = new LinkedHashMap<>();
+        for (FitResult f : ordered) {
+            if (f.converged() && f.fitted() != null) {
+                misfits.put(f.model(), Misfit.of(k, f.fitted(), sigma, firstAfter, x0));
+            }
+        }
         String criterion = setup.criterion();
-        double[] values = ordered.stream().mapToDouble(f -> f.converged() ? f.criterion(criterion) : Double.NaN)
+        // A model whose residuals show it does not describe the data takes no part in the comparison: an
+        // information criterion ranks models that fit up to noise, and would give such a model all the weight.
+        double[] values = ordered.stream().mapToDouble(f -> f.converged() && !(misfits.containsKey(f.model())
+                && misfits.get(f.model()).verdict() == Misfit.Verdict.MISFIT) ? f.criterion(criterion) : Double.NaN)
                 .toArray();
         double[] w = InformationCriteria.weights(values);
         Map<String, Double> weights = new LinkedHashMap<>();
@@ -226,10 +248,17 @@ public final class KymographFits {
                 best = ordered.get(i).model();
             }
         }
-        if (best == null) {
+        boolean anyConverged = ordered.stream().anyMatch(FitResult::converged);
+        if (best == null && !anyConverged) {
             warnings.add("No model fit converged, so no model is reported as best and no fitted constants are given.");
+        } else if (best == null) {
+            Misfit.Pattern pattern = misfits.values().stream().map(Misfit.Result::pattern).findFirst()
+                    .orElse(Misfit.Pattern.GENERAL);
+            warnings.add("No model describes these data: the residuals of every fit show structure (" + pattern.label()
+                    + ": " + pattern.meaning() + "), so no model is reported as best and no fitted constant should be "
+                    + "quoted. Look at the residual pictures.");
         }
-        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings);
+        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings, misfits);
     }
 
     private static FitResult fitDiffusionDecay(Kymograph k, FitData data, Setup setup, StartGuess g,

@@ -7,6 +7,7 @@ import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.fit.Misfit;
 import org.dendrokin.core.fit.ParameterEstimate;
 
 /**
@@ -39,7 +40,7 @@ public final class FitReportHtml {
                         : "Preferred: <b>" + esc(bestModel) + "</b>.")
                 .append("</p>\n");
         h.append("<table>\n<tr><th>Model</th><th>Converged</th><th>AIC</th><th>AICc</th><th>BIC</th>"
-                + "<th>Akaike weight</th><th>RMS residual</th></tr>\n");
+                + "<th>Akaike weight</th><th>RMS residual</th><th>Residuals</th></tr>\n");
         for (FitResult f : outcome.fits()) {
             boolean ok = f.converged();
             double weight = ok ? outcome.weights().getOrDefault(f.model(), Double.NaN) : Double.NaN;
@@ -48,10 +49,11 @@ public final class FitReportHtml {
                     .append("</td><td>").append(num(ok ? f.aic() : Double.NaN)).append("</td><td>")
                     .append(num(ok ? f.aicc() : Double.NaN)).append("</td><td>").append(num(ok ? f.bic() : Double.NaN))
                     .append("</td><td>").append(num(weight)).append("</td><td>").append(num(ok ? f.rmse() : Double.NaN))
+                    .append("</td><td>").append(outcome.misfit(f.model()).map(FitReportHtml::residuals).orElse(""))
                     .append("</td></tr>\n");
         }
         for (SkippedModel m : skipped) {
-            h.append("<tr><td>").append(esc(m.model())).append("</td><td colspan=\"6\">not tried: ")
+            h.append("<tr><td>").append(esc(m.model())).append("</td><td colspan=\"7\">not tried: ")
                     .append(esc(m.reason())).append("</td></tr>\n");
         }
         h.append("</table>\n");
@@ -65,6 +67,8 @@ public final class FitReportHtml {
             rows(h, f.parameters());
             rows(h, f.derived());
             h.append("</table>\n");
+            outcome.misfit(f.model()).ifPresent(m -> h.append("<p>").append(esc(m.sentence(f.model())))
+                    .append("</p>\n"));
             if (!f.warnings().isEmpty()) {
                 h.append("<div class=\"warn\"><ul>\n");
                 for (String w : f.warnings()) {
@@ -81,6 +85,15 @@ public final class FitReportHtml {
                 + "shown in small type under the method). A quantity marked "
                 + "\"no\" under \"Determined by the data\" should not be quoted; the warnings say why.</p>\n");
         return h.toString();
+    }
+
+    /** The residual verdict for the comparison table: the verdict, the figure and, when structured, where. */
+    private static String residuals(Misfit.Result m) {
+        String text = m.verdict().label() + String.format(Locale.ROOT, " (%.2f)", m.temporalCorrelation());
+        if (m.pattern() != Misfit.Pattern.NONE) {
+            text += ": " + m.pattern().label();
+        }
+        return m.verdict() == Misfit.Verdict.MISFIT ? "<b>" + esc(text) + "</b>" : esc(text);
     }
 
     private static void rows(StringBuilder h, List<ParameterEstimate> estimates) {

@@ -17,6 +17,7 @@ import org.dendrokin.core.calib.SaturationLimits;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.fit.Misfit;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.preprocess.Preprocessing;
@@ -279,6 +280,7 @@ public final class ResultsJson {
             JsonObject o = fit(f);
             o.add("akaike_weight", number(f.converged() ? weights.getOrDefault(f.model(), Double.NaN) : Double.NaN));
             o.addProperty("weight_criterion", outcome.criterion());
+            outcome.misfit(f.model()).ifPresent(m -> o.add("misfit", misfit(m, f.model())));
             return o;
         }).toList();
     }
@@ -306,6 +308,25 @@ public final class ResultsJson {
         JsonArray w = new JsonArray();
         f.warnings().forEach(w::add);
         o.add("warnings", w);
+        return o;
+    }
+
+    /** The lack-of-fit figure with its threshold and verdict. */
+    private static JsonObject misfit(Misfit.Result m, String model) {
+        JsonObject o = new JsonObject();
+        o.addProperty("statistic", "lag-1 correlation of the standardised residuals between frames, from the "
+                + "stimulus on");
+        o.add("value", number(m.temporalCorrelation()));
+        o.addProperty("threshold", m.threshold());
+        o.addProperty("structure_threshold", Misfit.STRUCTURE);
+        o.addProperty("verdict", m.verdict().label());
+        o.addProperty("pattern", m.pattern().label());
+        o.addProperty("sentence", m.sentence(model));
+        o.add("spatial_correlation", number(m.spatialCorrelation()));
+        o.add("chi_square_per_point", number(m.chiSquarePerPoint()));
+        o.add("stripe_share", number(m.stripeShare()));
+        o.add("stimulus_share", number(m.blobShare()));
+        o.add("front_share", number(m.frontShare()));
         return o;
     }
 
