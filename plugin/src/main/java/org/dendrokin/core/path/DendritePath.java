@@ -106,6 +106,48 @@ public final class DendritePath {
     }
 
     /**
+     * The point of the path nearest to a point of the image (for example a stimulation spot recorded by the
+     * acquisition software), by orthogonal projection onto each segment (clamped to the segment) and the
+     * smallest Euclidean distance; ties go to the earlier segment.
+     *
+     * @param xPx point x, ImageJ pixel coordinates
+     * @param yPx point y, ImageJ pixel coordinates
+     * @return the arc length of the nearest point from the first vertex, pixels, and the distance from the
+     *         point to the path, pixels
+     */
+    public Projection project(double xPx, double yPx) {
+        double bestDistance = Double.POSITIVE_INFINITY;
+        double bestArc = 0;
+        double travelled = 0;
+        for (int i = 0; i + 1 < this.xPx.length; i++) {
+            double ax = this.xPx[i];
+            double ay = this.yPx[i];
+            double ux = this.xPx[i + 1] - ax;
+            double uy = this.yPx[i + 1] - ay;
+            double len2 = ux * ux + uy * uy;
+            double f = Math.max(0, Math.min(1, ((xPx - ax) * ux + (yPx - ay) * uy) / len2));
+            double dx = ax + f * ux - xPx;
+            double dy = ay + f * uy - yPx;
+            double distance = Math.hypot(dx, dy);
+            if (distance < bestDistance) {
+                bestDistance = distance;
+                bestArc = travelled + f * Math.sqrt(len2);
+            }
+            travelled += Math.sqrt(len2);
+        }
+        return new Projection(bestArc, bestDistance);
+    }
+
+    /**
+     * Where a point of the image falls on the path.
+     *
+     * @param arcLengthPx distance along the path from its first vertex to the nearest point, pixels
+     * @param offPathPx   distance from the point to the path, pixels
+     */
+    public record Projection(double arcLengthPx, double offPathPx) {
+    }
+
+    /**
      * Points at uniform arc length along the polyline: sample k at distance {@code k * stepPx} from the first
      * vertex, for every k with {@code k * stepPx <= lengthPx()} (the last vertex itself is included only when
      * the length is a whole number of steps, to within 1e-9 of a step). Each point is found by linear

@@ -139,4 +139,27 @@ class DendritePathTest {
         assertEquals(-0.5, PixelConvention.toArrayIndex(0.0), 0.0, "left border of the image");
         assertEquals(7.25, PixelConvention.toArrayIndex(PixelConvention.fromArrayIndex(7.25)), 0.0, "round trip");
     }
+
+    @Test
+    void aSpotBesideAnArcProjectsOntoItsNearestPoint() {
+        // a quarter circle of radius 40 px about (50, 50), as a fine polyline, and a spot 3 px outside it at 30 deg
+        int n = 400;
+        double[] x = new double[n + 1];
+        double[] y = new double[n + 1];
+        for (int i = 0; i <= n; i++) {
+            double a = Math.PI / 2 * i / n;
+            x[i] = 50 + 40 * Math.cos(a);
+            y[i] = 50 + 40 * Math.sin(a);
+        }
+        DendritePath path = DendritePath.of(x, y, false);
+        double angle = Math.toRadians(30);
+        DendritePath.Projection p = path.project(50 + 43 * Math.cos(angle), 50 + 43 * Math.sin(angle));
+        // REF: the nearest point of a circle lies on the ray through the centre; arc length = radius x angle [common practice]
+        assertEquals(40 * angle, p.arcLengthPx(), 0.01, "arc length to the nearest point, px");
+        assertEquals(3.0, p.offPathPx(), 0.01, "distance off the path, px");
+        // beyond the last vertex, along its direction, the nearest point is the end itself
+        DendritePath.Projection end = path.project(50 - 5, 90);
+        assertEquals(path.lengthPx(), end.arcLengthPx(), 1e-9);
+        assertEquals(5.0, end.offPathPx(), 1e-9);
+    }
 }
