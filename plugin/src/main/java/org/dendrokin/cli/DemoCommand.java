@@ -17,7 +17,7 @@ import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.SessionRunner;
-import org.dendrokin.io.session.ReportHtml;
+import org.dendrokin.io.text.Numbers;
 
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
@@ -106,11 +106,11 @@ final class DemoCommand implements Callable<Integer> {
                 String interval = ci != null && ci.isJsonArray() && ci.getAsJsonArray().size() == 2
                         && !ci.getAsJsonArray().get(0).isJsonNull() && !ci.getAsJsonArray().get(1).isJsonNull()
                         ? String.format(Locale.ROOT, " (95%% interval %s to %s)",
-                                ReportHtml.number(ci.getAsJsonArray().get(0).getAsDouble()),
-                                ReportHtml.number(ci.getAsJsonArray().get(1).getAsDouble()))
+                                Numbers.forPeople(ci.getAsJsonArray().get(0).getAsDouble()),
+                                Numbers.forPeople(ci.getAsJsonArray().get(1).getAsDouble()))
                         : " (interval not determined by these data)";
                 b.append(String.format(Locale.ROOT, "    %-14s %s %s%s%n", p.getKey(),
-                        ReportHtml.number(q.get("value").getAsDouble()),
+                        Numbers.forPeople(q.get("value").getAsDouble()),
                         q.has("unit") ? q.get("unit").getAsString() : "", interval));
             }
         }
@@ -122,7 +122,7 @@ final class DemoCommand implements Callable<Integer> {
             return String.format(Locale.ROOT, "  %-16s not available%n", name);
         }
         return String.format(Locale.ROOT, "  %-16s %s %s (95%% interval %s to %s)%n", name,
-                ReportHtml.number(e.value()), e.unit(), ReportHtml.number(e.lo95()), ReportHtml.number(e.hi95()));
+                Numbers.forPeople(e.value()), e.unit(), Numbers.forPeople(e.lo95()), Numbers.forPeople(e.hi95()));
     }
 
     private static void unpack(Path dir) throws IOException {

@@ -16,6 +16,7 @@ import org.dendrokin.core.calib.SignalKind;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.text.Numbers;
 
 import com.google.gson.JsonArray;
 import com.google.gson.JsonNull;
@@ -134,7 +135,7 @@ public final class SessionCalibration {
                 warnings.add(String.format(Locale.ROOT, "No sample of the kymograph lies inside the calibration's "
                         + "range (%s to %s); check that the calibration's intensities were measured in the same band, "
                         + "after the same background subtraction, on the same setup.",
-                        fmt(cal.rangeStart()), fmt(cal.rangeEnd())));
+                        Numbers.forPeople(cal.rangeStart()), Numbers.forPeople(cal.rangeEnd())));
             }
         }
         return new Applied(out.values(), out.sdMicromolar(), out.summary(),
@@ -258,9 +259,5 @@ public final class SessionCalibration {
 
     private static String capitalise(String s) {
         return s.isEmpty() ? s : Character.toUpperCase(s.charAt(0)) + s.substring(1);
-    }
-
-    private static String fmt(double v) {
-        return String.format(Locale.ROOT, "%.6g", v);
     }
 }
