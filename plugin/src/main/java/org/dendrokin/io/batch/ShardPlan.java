@@ -104,7 +104,8 @@ public record ShardPlan(String root, List<List<String>> sessions) {
         } catch (RuntimeException e) {
             // Gson reports a wrong type as JsonParseException and a record constructor refusing its values as
             // a bare RuntimeException; both mean the plan was edited or damaged.
-            throw new InputException(f, "this shard plan cannot be read (" + e.getMessage() + ")", e);
+            throw new InputException(f, "this shard plan does not have the form --plan-slurm writes; plan the job "
+                    + "again", e);
         }
         if (p == null || p.sessions() == null || p.root() == null) {
             throw new InputException(f, "this shard plan has no root or no sessions");

@@ -112,6 +112,10 @@ public final class ModelFile {
             }
             if (out.has("dx_um")) {
                 double step = out.positive("dx_um");
+                if (length / step > 2_000_000) {
+                    throw fail("output.dx_um (" + num(step) + " um) gives more than two million output positions; use a"
+                            + " coarser output grid");
+                }
                 int count = (int) Math.floor(length / step + 1e-9) + 1;
                 positions = new double[count];
                 for (int i = 0; i < count; i++) {
@@ -219,10 +223,9 @@ public final class ModelFile {
         if (root.has("stochastic")) {
             JsonFields s = root.object("stochastic");
             s.refuseUnknownKeys(Set.of("runs", "seed", "threads", "molecules_per_unit_um3"));
-            int runs = s.has("runs") ? (int) s.positive("runs") : 20;
+            int runs = s.has("runs") ? count(s, "runs", 1_000_000) : 20;
             long seed = s.has("seed") ? (long) s.number("seed") : 1L;
-            int threads = s.has("threads") ? (int) s.positive("threads")
-                    : Runtime.getRuntime().availableProcessors();
+            int threads = s.has("threads") ? count(s, "threads", 4096) : Runtime.getRuntime().availableProcessors();
             double per = s.has("molecules_per_unit_um3")
                     ? s.positive("molecules_per_unit_um3")
                     : StochasticSettings.MICROMOLAR_PER_UM3;
@@ -247,6 +250,15 @@ public final class ModelFile {
         } catch (IllegalArgumentException e) {
             throw fail(e.getMessage());
         }
+    }
+
+    /** A count from 1 to {@code max}; a fraction is rounded down, as it always was. */
+    private int count(JsonFields o, String name, int max) {
+        double v = o.positive(name);
+        if (v < 1 || v > max) {
+            throw o.bad(name, "must be a whole number from 1 to " + max);
+        }
+        return (int) v;
     }
 
     /** Checks that the grid and step can resolve a built-in model, saying which does not. */
