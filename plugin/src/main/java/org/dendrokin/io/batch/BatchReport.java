@@ -1,7 +1,6 @@
 package org.dendrokin.io.batch;
 
 import static org.dendrokin.io.text.Html.esc;
-import static org.dendrokin.io.text.Numbers.forPeople;
 
 import java.io.IOException;
 import java.nio.file.DirectoryStream;
@@ -17,6 +16,7 @@ import org.dendrokin.core.stats.GroupSummary;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.plot.Pictures;
 import org.dendrokin.io.plot.StripPlot;
+import org.dendrokin.io.text.Numbers;
 
 /**
  * Writes a batch's {@code summary.csv}, the group pictures in {@code plots/} and {@code index.html}: the
@@ -90,10 +90,10 @@ public final class BatchReport {
                 GroupSummary s = GroupSummary.of(v);
                 plot.group(g.getKey(), v, s.mean(), s.ciLow(), s.ciHigh());
                 html.append("<tr><td>").append(esc(g.getKey())).append("</td><td class=\"num\">").append(s.n())
-                        .append("</td><td class=\"num\">").append(forPeople(s.mean())).append("</td><td class=\"num\">")
-                        .append(forPeople(s.sd())).append("</td><td class=\"num\">").append(forPeople(s.median()))
+                        .append("</td><td class=\"num\">").append(cell(s.mean())).append("</td><td class=\"num\">")
+                        .append(cell(s.sd())).append("</td><td class=\"num\">").append(cell(s.median()))
                         .append("</td><td class=\"num\">").append(Double.isFinite(s.ciLow())
-                                ? "[" + forPeople(s.ciLow()) + ", " + forPeople(s.ciHigh()) + "]" : "")
+                                ? "[" + cell(s.ciLow()) + ", " + cell(s.ciHigh()) + "]" : "")
                         .append("</td></tr>\n");
             }
             html.append("</table>\n");
@@ -113,12 +113,12 @@ public final class BatchReport {
                         GroupComparison c = GroupComparison.of(groups.get(i), a, groups.get(j), b);
                         html.append("<tr><td>").append(esc(c.groupA())).append(" vs ").append(esc(c.groupB()))
                                 .append("</td><td class=\"num\">").append(c.nA()).append(" vs ").append(c.nB())
-                                .append("</td><td class=\"num\">").append(forPeople(c.meanA() - c.meanB()))
-                                .append("</td><td class=\"num\">").append(forPeople(c.hedgesG()))
-                                .append("</td><td class=\"num\">").append(forPeople(c.welchT()))
-                                .append(Double.isFinite(c.welchDf()) ? " (" + forPeople(c.welchDf()) + ")" : "")
+                                .append("</td><td class=\"num\">").append(cell(c.meanA() - c.meanB()))
+                                .append("</td><td class=\"num\">").append(cell(c.hedgesG()))
+                                .append("</td><td class=\"num\">").append(cell(c.welchT()))
+                                .append(Double.isFinite(c.welchDf()) ? " (" + cell(c.welchDf()) + ")" : "")
                                 .append("</td><td class=\"num\">").append(p(c.welchP()))
-                                .append("</td><td class=\"num\">").append(forPeople(c.mannWhitneyU()))
+                                .append("</td><td class=\"num\">").append(cell(c.mannWhitneyU()))
                                 .append("</td><td class=\"num\">").append(p(c.mannWhitneyP())).append("</td></tr>\n");
                     }
                 }
@@ -213,12 +213,12 @@ public final class BatchReport {
 
     /**
      * A number from the table as the session reports write numbers
-     * ({@link org.dendrokin.io.text.Numbers#forPeople}); anything else as it is.
+     * ({@link Numbers#forPeople}); anything else as it is.
      */
     private static String shortNumber(String text) {
         try {
             double v = Double.parseDouble(text);
-            return Double.isFinite(v) ? forPeople(v) : esc(text);
+            return Double.isFinite(v) ? Numbers.forPeople(v) : esc(text);
         } catch (NumberFormatException e) {
             return esc(text);
         }
@@ -259,6 +259,11 @@ public final class BatchReport {
             return ka == kb ? a.compareTo(b) : ka ? -1 : 1;
         });
         return names;
+    }
+
+    /** A statistic for the group tables: as the reports write numbers, and an empty cell when there is none. */
+    private static String cell(double v) {
+        return Double.isFinite(v) ? Numbers.forPeople(v) : "";
     }
 
     private static String p(double v) {
