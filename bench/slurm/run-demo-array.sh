@@ -19,7 +19,8 @@ export SLURM_CONF="${SLURM_CONF:-${DENDROKIN_SLURM_DIR:-/tmp/dendrokin-slurm}/sl
 
 rm -rf "$WORK"
 mkdir -p "$WORK"
-java -cp "$JAR" org.dendrokin.io.batch.DemoStudy "$WORK/study" "$SESSIONS"
+# The demo study's generator lives beside the tests, not in the jar.
+java -cp "$("$HERE/../test-classpath.sh")" org.dendrokin.io.batch.DemoStudy "$WORK/study" "$SESSIONS"
 java -jar "$JAR" batch "$WORK/study" --out "$WORK/out" --plan-slurm "$SHARDS" --slurm-cpus 1 --slurm-time-min 20
 echo "--- $WORK/out/slurm/batch.sbatch"
 cat "$WORK/out/slurm/batch.sbatch"

@@ -18,7 +18,7 @@ import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.SessionRunner;
-import org.dendrokin.io.session.ReportHtml;
+import org.dendrokin.io.text.Numbers;
 
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
@@ -107,10 +107,10 @@ final class DemoCommand implements Callable<Integer> {
             }
             Interval ci = p.ci95();
             String interval = ci != null && ci.isFinite()
-                    ? String.format(Locale.ROOT, " (95%% interval %s to %s)", ReportHtml.number(ci.lower()),
-                            ReportHtml.number(ci.upper()))
+                    ? String.format(Locale.ROOT, " (95%% interval %s to %s)", Numbers.forPeople(ci.lower()),
+                            Numbers.forPeople(ci.upper()))
                     : " (interval not determined by these data)";
-            b.append(String.format(Locale.ROOT, "    %-15s %s %s%s%n", p.name(), ReportHtml.number(p.value()),
+            b.append(String.format(Locale.ROOT, "    %-15s %s %s%s%n", p.name(), Numbers.forPeople(p.value()),
                     p.unit().symbol(), interval));
         }
         return b.toString();
@@ -125,7 +125,7 @@ final class DemoCommand implements Callable<Integer> {
             return String.format(Locale.ROOT, "  %-17s not available%s%n", name, why.isEmpty() ? "" : " (" + why + ")");
         }
         return String.format(Locale.ROOT, "  %-17s %s %s (95%% interval %s to %s)%n", name,
-                ReportHtml.number(e.value()), e.unit(), ReportHtml.number(e.lo95()), ReportHtml.number(e.hi95()));
+                Numbers.forPeople(e.value()), e.unit(), Numbers.forPeople(e.lo95()), Numbers.forPeople(e.hi95()));
     }
 
     private static void unpack(Path dir) throws IOException {

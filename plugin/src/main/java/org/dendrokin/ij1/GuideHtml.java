@@ -2,6 +2,8 @@ package org.dendrokin.ij1;
 
 import java.util.regex.Pattern;
 
+import org.dendrokin.io.text.Html;
+
 /**
  * Our user guide's Markdown as simple HTML for ImageJ's HTML window: headings, paragraphs, lists, tables,
  * code blocks, bold and code spans. Pictures are named, not shown (the screenshots are wider than the
@@ -29,7 +31,7 @@ final class GuideHtml {
                 flush(html, paragraph);
                 html.append("<pre>");
                 for (i++; i < lines.length && !lines[i].trim().startsWith("```"); i++) {
-                    html.append(escape(lines[i])).append('\n');
+                    html.append(Html.escText(lines[i])).append('\n');
                 }
                 html.append("</pre>");
                 continue;
@@ -94,15 +96,11 @@ final class GuideHtml {
     }
 
     static String inline(String text) {
-        String s = escape(text);
+        String s = Html.escText(text);
         s = IMAGE.matcher(s).replaceAll("<i>[picture: $1]</i>");
         s = LINK.matcher(s).replaceAll("<u>$1</u>");
         s = CODE.matcher(s).replaceAll("<code>$1</code>");
         s = BOLD.matcher(s).replaceAll("<b>$1</b>");
         return s;
-    }
-
-    private static String escape(String s) {
-        return s.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;");
     }
 }

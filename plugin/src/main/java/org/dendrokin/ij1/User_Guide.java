@@ -6,6 +6,9 @@ import ij.IJ;
 import ij.gui.HTMLDialog;
 import ij.plugin.PlugIn;
 
+import org.dendrokin.io.ToolVersion;
+import org.dendrokin.io.text.Html;
+
 /**
  * Plugins > Dendrokin > User Guide: shows a chapter of the user guide from the jar in a text window.
  * The argument {@code "about"} shows the version and licence instead.
@@ -59,7 +62,7 @@ public class User_Guide implements PlugIn {
     }
 
     static String aboutText() {
-        return "Dendrokin " + org.dendrokin.cli.Version.get() + "\n \n"
+        return "Dendrokin " + ToolVersion.get() + "\n \n"
                 + "Spread of signals along dendrites: kymographs along a drawn path, background and bleach\n"
                 + "correction, calibration to concentration, reaction-diffusion simulation, and fits of\n"
                 + "diffusion and rate constants with 95% confidence intervals.\n \n"
@@ -71,8 +74,8 @@ public class User_Guide implements PlugIn {
         if (OptionsDialog.headless()) {
             IJ.log(aboutText());
         } else {
-            String html = "<html><body style='width:420px'>" + aboutText().replace("&", "&amp;")
-                    .replace("<", "&lt;").replace("\n \n", "<p>").replace("\n", " ") + "</body></html>";
+            String html = "<html><body style='width:420px'>" + Html.escText(aboutText()).replace("\n \n", "<p>")
+                    .replace("\n", " ") + "</body></html>";
             new HTMLDialog("About Dendrokin", html, false);
         }
     }

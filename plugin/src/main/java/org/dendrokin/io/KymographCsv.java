@@ -5,16 +5,16 @@ import java.io.OutputStreamWriter;
 import java.io.Reader;
 import java.io.Writer;
 import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Locale;
 
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVPrinter;
 import org.apache.commons.csv.CSVRecord;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.io.text.Numbers;
+import org.dendrokin.io.text.TextFiles;
 
 /**
  * The kymograph CSV of the contract: first line {@code time_s,} then the distance (um) of each column;
@@ -31,15 +31,15 @@ public final class KymographCsv {
                 List<String> header = new ArrayList<>();
                 header.add("time_s");
                 for (double d : kymograph.distancesUm()) {
-                    header.add(number(d));
+                    header.add(Numbers.forFile(d));
                 }
                 csv.printRecord(header);
                 int n = kymograph.positionCount();
                 String[] line = new String[n + 1];
                 for (int f = 0; f < kymograph.frameCount(); f++) {
-                    line[0] = number(kymograph.timeS(f));
+                    line[0] = Numbers.forFile(kymograph.timeS(f));
                     for (int p = 0; p < n; p++) {
-                        line[p + 1] = number(kymograph.value(f, p));
+                        line[p + 1] = Numbers.forFile(kymograph.value(f, p));
                     }
                     csv.printRecord((Object[]) line);
                 }
@@ -49,7 +49,7 @@ public final class KymographCsv {
 
     /** Reads a kymograph CSV written by {@link #write}; the unit is not stored in the file and is given. */
     public static Kymograph read(Path file, String signalUnit) {
-        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+        try (Reader r = TextFiles.open(file)) {
             List<CSVRecord> records = CSVFormat.DEFAULT.parse(r).getRecords();
             if (records.size() < 2) {
                 throw new InputException(file, "a kymograph CSV needs a header line and at least one frame");
@@ -79,17 +79,6 @@ public final class KymographCsv {
         } catch (IOException e) {
             throw new InputException(file, "cannot be read (" + e.getMessage() + ")", e);
         }
-    }
-
-    /** Numbers in output files: locale-independent, shortest round-trip form. */
-    static String number(double v) {
-        if (Double.isNaN(v)) {
-            return "NaN";
-        }
-        if (v == Math.rint(v) && Math.abs(v) < 1e15) {
-            return String.format(Locale.ROOT, "%.1f", v);
-        }
-        return Double.toString(v);
     }
 
     private static double parse(Path file, String text, int line, int column) {

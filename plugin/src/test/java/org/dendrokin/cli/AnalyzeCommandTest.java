@@ -92,6 +92,16 @@ class AnalyzeCommandTest {
     }
 
     @Test
+    void anUnknownModelAndAKeyGivenTwiceAreBadInputNotInternalErrors() throws IOException {
+        Path s = copyWithSession("unknownmodel", "{\"models\": [\"no-such-model\"]}");
+        String message = badInput("analyze", s.toString(), "--out", dir.resolve("o5").toString());
+        assertTrue(message.contains("\"models\"") && message.contains("no-such-model"), message);
+        Path twice = copyWithSession("twice", "{\"path_width_um\": 1,\n\"path_width_um\": 3}");
+        message = badInput("analyze", twice.toString(), "--out", dir.resolve("o6").toString());
+        assertTrue(message.contains("\"path_width_um\"") && message.contains("line 2"), message);
+    }
+
+    @Test
     void aMissingMovieNamesTheKey() throws IOException {
         Path s = copyWithSession("nomovie", "{\"movie\": \"absent.tif\"}");
         String message = badInput("analyze", s.toString(), "--out", dir.resolve("o3").toString());

@@ -1,5 +1,7 @@
 package org.dendrokin.io.batch;
 
+import static org.dendrokin.io.text.Html.esc;
+
 import java.io.IOException;
 import java.nio.file.DirectoryStream;
 import java.nio.file.Path;
@@ -14,6 +16,7 @@ import org.dendrokin.core.stats.GroupSummary;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.plot.Pictures;
 import org.dendrokin.io.plot.StripPlot;
+import org.dendrokin.io.text.Numbers;
 
 /**
  * Writes a batch's {@code summary.csv}, the group pictures in {@code plots/} and {@code index.html}: the
@@ -87,10 +90,11 @@ public final class BatchReport {
                 GroupSummary s = GroupSummary.of(v);
                 plot.group(g.getKey(), v, s.mean(), s.ciLow(), s.ciHigh());
                 html.append("<tr><td>").append(esc(g.getKey())).append("</td><td class=\"num\">").append(s.n())
-                        .append("</td><td class=\"num\">").append(num(s.mean())).append("</td><td class=\"num\">")
-                        .append(num(s.sd())).append("</td><td class=\"num\">").append(num(s.median()))
+                        .append("</td><td class=\"num\">").append(cell(s.mean())).append("</td><td class=\"num\">")
+                        .append(cell(s.sd())).append("</td><td class=\"num\">").append(cell(s.median()))
                         .append("</td><td class=\"num\">").append(Double.isFinite(s.ciLow())
-                                ? "[" + num(s.ciLow()) + ", " + num(s.ciHigh()) + "]" : "").append("</td></tr>\n");
+                                ? "[" + cell(s.ciLow()) + ", " + cell(s.ciHigh()) + "]" : "")
+                        .append("</td></tr>\n");
             }
             html.append("</table>\n");
             String png = "plots/" + (++figure) + "-" + slug(q.label()) + ".png";
@@ -109,12 +113,12 @@ public final class BatchReport {
                         GroupComparison c = GroupComparison.of(groups.get(i), a, groups.get(j), b);
                         html.append("<tr><td>").append(esc(c.groupA())).append(" vs ").append(esc(c.groupB()))
                                 .append("</td><td class=\"num\">").append(c.nA()).append(" vs ").append(c.nB())
-                                .append("</td><td class=\"num\">").append(num(c.meanA() - c.meanB()))
-                                .append("</td><td class=\"num\">").append(num(c.hedgesG()))
-                                .append("</td><td class=\"num\">").append(num(c.welchT()))
-                                .append(Double.isFinite(c.welchDf()) ? " (" + num(c.welchDf()) + ")" : "")
+                                .append("</td><td class=\"num\">").append(cell(c.meanA() - c.meanB()))
+                                .append("</td><td class=\"num\">").append(cell(c.hedgesG()))
+                                .append("</td><td class=\"num\">").append(cell(c.welchT()))
+                                .append(Double.isFinite(c.welchDf()) ? " (" + cell(c.welchDf()) + ")" : "")
                                 .append("</td><td class=\"num\">").append(p(c.welchP()))
-                                .append("</td><td class=\"num\">").append(num(c.mannWhitneyU()))
+                                .append("</td><td class=\"num\">").append(cell(c.mannWhitneyU()))
                                 .append("</td><td class=\"num\">").append(p(c.mannWhitneyP())).append("</td></tr>\n");
                     }
                 }
@@ -207,11 +211,14 @@ public final class BatchReport {
         return "";
     }
 
-    /** A number from the table to 4 significant digits for reading; anything else as it is. */
+    /**
+     * A number from the table as the session reports write numbers
+     * ({@link Numbers#forPeople}); anything else as it is.
+     */
     private static String shortNumber(String text) {
         try {
             double v = Double.parseDouble(text);
-            return Double.isFinite(v) ? num(v) : esc(text);
+            return Double.isFinite(v) ? Numbers.forPeople(v) : esc(text);
         } catch (NumberFormatException e) {
             return esc(text);
         }
@@ -254,11 +261,9 @@ public final class BatchReport {
         return names;
     }
 
-    static String num(double v) {
-        if (!Double.isFinite(v)) {
-            return "";
-        }
-        return new java.math.BigDecimal(v).round(new java.math.MathContext(4)).stripTrailingZeros().toPlainString();
+    /** A statistic for the group tables: as the reports write numbers, and an empty cell when there is none. */
+    private static String cell(double v) {
+        return Double.isFinite(v) ? Numbers.forPeople(v) : "";
     }
 
     private static String p(double v) {
@@ -270,23 +275,5 @@ public final class BatchReport {
 
     private static String slug(String s) {
         return s.toLowerCase(Locale.ROOT).replaceAll("[^a-z0-9]+", "-").replaceAll("(^-|-$)", "");
-    }
-
-    static String esc(String s) {
-        if (s == null) {
-            return "";
-        }
-        StringBuilder b = new StringBuilder(s.length());
-        for (char c : s.toCharArray()) {
-            switch (c) {
-                case '<' -> b.append("&lt;");
-                case '>' -> b.append("&gt;");
-                case '&' -> b.append("&amp;");
-                case '"' -> b.append("&quot;");
-                case '\'' -> b.append("&#39;");
-                default -> b.append(c);
-            }
-        }
-        return b.toString();
     }
 }

@@ -23,6 +23,7 @@ import java.util.stream.Stream;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.json.JsonFiles;
 
 /**
  * Runs the analysis of every session folder under a root, in parallel, and writes the summary table and
@@ -199,6 +200,20 @@ public final class BatchRunner {
 
     private enum Result { ANALYSED, FAILED, SKIPPED_OK, SKIPPED_FAILED }
 
+    /**
+     * True when an analysed session's results.json is still there and reads as one JSON object: a file deleted or
+     * cut short since (a full disk, a copy stopped half way) makes the session be redone instead of being counted
+     * with empty numbers.
+     */
+    private static boolean resultsReadable(Path target) {
+        try {
+            JsonFiles.readObject(target.resolve("results.json"), "the session's results");
+            return true;
+        } catch (InputException e) {
+            return false;
+        }
+    }
+
     private static Result runOne(SessionFolder s, Path sessionsDir, String version, boolean force,
                                  SessionAnalyzer analyzer, Progress progress, Semaphore movies) throws IOException {
         Path target = sessionsDir.resolve(s.key());
@@ -215,7 +230,7 @@ public final class BatchRunner {
         }
         SessionRecord existing = SessionRecord.read(target);
         if (!force && existing != null && existing.matches(hashes, settings, version)
-                && !SessionRecord.ERROR.equals(existing.status())) {
+                && !SessionRecord.ERROR.equals(existing.status()) && (!existing.ok() || resultsReadable(target))) {
             return existing.ok() ? Result.SKIPPED_OK : Result.SKIPPED_FAILED;
         }
         progress.checkCancelled();

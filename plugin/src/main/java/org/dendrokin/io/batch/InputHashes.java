@@ -13,9 +13,11 @@ import java.util.HexFormat;
 import java.util.Map;
 import java.util.TreeMap;
 
+import org.dendrokin.io.InputException;
+import org.dendrokin.io.json.JsonFiles;
+
 import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
-import com.google.gson.JsonParser;
 
 /**
  * SHA-256 of the files a session reads: session.json, every file whose name appears as a text value in
@@ -47,11 +49,8 @@ public record InputHashes(Map<String, String> files, String group, long movieByt
         boolean namesMovie = false;
         JsonObject settings = null;
         try {
-            JsonElement parsed = JsonParser.parseString(Files.readString(json, StandardCharsets.UTF_8));
-            if (parsed.isJsonObject()) {
-                settings = parsed.getAsJsonObject();
-            }
-        } catch (IOException | RuntimeException e) {
+            settings = JsonFiles.readObject(json, "the session's settings");
+        } catch (InputException e) {
             settings = null;  // the analysis reports the malformed file; hashing goes on with what it can
         }
         long movieBytes = 0;

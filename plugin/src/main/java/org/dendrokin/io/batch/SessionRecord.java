@@ -11,10 +11,11 @@ import com.google.gson.Gson;
 import com.google.gson.GsonBuilder;
 import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
-import com.google.gson.JsonParser;
-import com.google.gson.JsonSyntaxException;
 
 import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.InputException;
+import org.dendrokin.io.ToolVersion;
+import org.dendrokin.io.json.JsonFiles;
 
 /**
  * What the batch keeps beside each session's results, as {@code batch.json}: where the session came from,
@@ -67,29 +68,23 @@ public record SessionRecord(String session, String sourceDir, String group, Stri
             return null;
         }
         try {
-            SessionRecord r = GSON.fromJson(Files.readString(f, StandardCharsets.UTF_8), SessionRecord.class);
+            SessionRecord r = GSON.fromJson(JsonFiles.readObject(f, "the batch's record of one session"),
+                    SessionRecord.class);
             if (r == null || r.session() == null || r.status() == null || r.inputs() == null
                     || r.settingsSha256() == null || r.toolVersion() == null) {
                 return null;
             }
             return r;
-        } catch (IOException | JsonSyntaxException e) {
+        } catch (RuntimeException e) {
+            // InputException (not JSON, damaged), JsonParseException (wrong types) or the bare RuntimeException
+            // Gson throws when the record's constructor refuses a value: the session is simply redone.
             return null;
         }
     }
 
     /** The tool's version from the build's properties file ("unknown" when run from unpackaged classes). */
     public static String currentToolVersion() {
-        try (java.io.InputStream in = SessionRecord.class.getResourceAsStream("/org/dendrokin/version.properties")) {
-            if (in == null) {
-                return "unknown";
-            }
-            java.util.Properties p = new java.util.Properties();
-            p.load(in);
-            return p.getProperty("version", "unknown");
-        } catch (IOException e) {
-            return "unknown";
-        }
+        return ToolVersion.get();
     }
 
     /**
@@ -99,8 +94,8 @@ public record SessionRecord(String session, String sourceDir, String group, Stri
         try {
             String text = Files.readString(sessionJson, StandardCharsets.UTF_8);
             try {
-                return InputHashes.sha256(canonical(JsonParser.parseString(text)).toString());
-            } catch (RuntimeException e) {
+                return InputHashes.sha256(canonical(JsonFiles.parseObject(sessionJson, text, "settings")).toString());
+            } catch (InputException e) {
                 return InputHashes.sha256(text);
             }
         } catch (IOException e) {

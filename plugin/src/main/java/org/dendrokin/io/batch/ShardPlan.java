@@ -1,7 +1,6 @@
 package org.dendrokin.io.batch;
 
 import java.io.IOException;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.DirectoryStream;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -14,10 +13,11 @@ import java.util.stream.Collectors;
 
 import com.google.gson.Gson;
 import com.google.gson.GsonBuilder;
-import com.google.gson.JsonSyntaxException;
+import com.google.gson.JsonObject;
 
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.json.JsonFiles;
 
 /**
  * Splits a batch's sessions into N shards of about equal work: sessions are taken largest first (bytes of
@@ -97,15 +97,20 @@ public record ShardPlan(String root, List<List<String>> sessions) {
         if (!Files.isRegularFile(f)) {
             return null;
         }
+        JsonObject json = JsonFiles.readObject(f, "the shard plan written by --plan-slurm");
+        ShardPlan p;
         try {
-            ShardPlan p = GSON.fromJson(Files.readString(f, StandardCharsets.UTF_8), ShardPlan.class);
-            if (p == null || p.sessions() == null || p.root() == null) {
-                throw new InputException(f, "this shard plan has no root or no sessions");
-            }
-            return p;
-        } catch (IOException | JsonSyntaxException e) {
-            throw new InputException(f, "this shard plan cannot be read (" + e.getMessage() + ")");
+            p = GSON.fromJson(json, ShardPlan.class);
+        } catch (RuntimeException e) {
+            // Gson reports a wrong type as JsonParseException and a record constructor refusing its values as
+            // a bare RuntimeException; both mean the plan was edited or damaged.
+            throw new InputException(f, "this shard plan does not have the form --plan-slurm writes; plan the job "
+                    + "again", e);
         }
+        if (p == null || p.sessions() == null || p.root() == null) {
+            throw new InputException(f, "this shard plan has no root or no sessions");
+        }
+        return p;
     }
 
     /** Bytes of the regular files directly inside {@code dir}. */

@@ -1,6 +1,5 @@
 package org.dendrokin.io.batch;
 
-import java.io.IOException;
 import java.io.OutputStreamWriter;
 import java.io.Writer;
 import java.nio.charset.StandardCharsets;
@@ -14,11 +13,12 @@ import java.util.stream.Collectors;
 
 import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
-import com.google.gson.JsonParser;
 
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVPrinter;
 import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.InputException;
+import org.dendrokin.io.json.JsonFiles;
 
 /**
  * The table of a batch, one row a session, built from each session's batch.json and results.json. Columns
@@ -252,9 +252,8 @@ public final class SummaryTable {
             return null;
         }
         try {
-            JsonElement e = JsonParser.parseString(Files.readString(f, StandardCharsets.UTF_8));
-            return e.isJsonObject() ? e.getAsJsonObject() : null;
-        } catch (IOException | RuntimeException e) {
+            return JsonFiles.readObject(f, "results");
+        } catch (InputException e) {
             return null;
         }
     }

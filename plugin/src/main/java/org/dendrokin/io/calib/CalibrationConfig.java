@@ -17,8 +17,8 @@ import org.dendrokin.core.calib.SaturationLimits;
 import org.dendrokin.core.calib.SingleWavelength;
 import org.dendrokin.core.calib.Standards;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.json.JsonFields;
 
-import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
 
 /**
@@ -70,7 +70,7 @@ public final class CalibrationConfig {
             throw k.bad("method", "must be one of none, single-wavelength, dynamic-range, ratio, hill, standards");
         }
         List<String> warnings = new ArrayList<>();
-        for (String key : block.keySet()) {
+        for (String key : k.names()) {
             if (!COMMON.contains(key) && !KEYS.get(method).contains(key)) {
                 warnings.add(String.format(Locale.ROOT, "%s: key \"calibration.%s\" is not used by the %s method "
                         + "and was ignored.", sessionFile.getFileName(), key, method));
@@ -168,54 +168,42 @@ public final class CalibrationConfig {
         return new CalibrationSetup(c, limits, tableName, null, warnings);
     }
 
-    /** Typed access to the block, naming session.json and the key in every complaint. */
+    /** The block's values with the checks calibration needs, naming session.json and the key in every complaint. */
     static final class Keys {
-        private final Path file;
-        private final JsonObject block;
+        private final JsonFields fields;
 
         Keys(Path file, JsonObject block) {
-            this.file = file;
-            this.block = block;
+            this.fields = JsonFields.of(file, block, "calibration");
         }
 
         void requireFile(String key, Path path) {
             if (!Files.isRegularFile(path)) {
-                throw new InputException(file, "key \"calibration." + key + "\" names " + block.get(key)
+                throw fields.fail("key \"" + fields.key(key) + "\" names " + fields.get(key)
                         + ", which is not in the session folder");
             }
         }
 
         String fileName() {
-            return String.valueOf(file.getFileName());
+            return String.valueOf(fields.file().getFileName());
+        }
+
+        Set<String> names() {
+            return fields.names();
         }
 
         InputException bad(String key, String requirement) {
-            JsonElement got = block.get(key);
-            return new InputException(file, "key \"calibration." + key + "\" " + requirement
-                    + (got == null ? " (it is missing)" : ", got " + got));
-        }
-
-        private boolean present(String key) {
-            return block.has(key) && !block.get(key).isJsonNull();
+            return fields.bad(key, requirement);
         }
 
         Double optional(String key) {
-            if (!present(key)) {
-                return null;
-            }
-            JsonElement e = block.get(key);
-            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isNumber() || !Double.isFinite(e.getAsDouble())) {
-                throw bad(key, "must be a number");
-            }
-            return e.getAsDouble();
+            return fields.optionalNumber(key);
         }
 
         double number(String key) {
-            Double v = optional(key);
-            if (v == null) {
+            if (!fields.has(key)) {
                 throw bad(key, "is needed by this calibration method");
             }
-            return v;
+            return fields.number(key);
         }
 
         double positive(String key) {
@@ -266,41 +254,27 @@ public final class CalibrationConfig {
 
         void greater(String bigKey, double big, String smallKey, double small) {
             if (!(big > small)) {
-                throw bad(bigKey, String.format(Locale.ROOT, "must be greater than calibration.%s (%s)", smallKey,
-                        block.get(smallKey)));
+                throw bad(bigKey, String.format(Locale.ROOT, "must be greater than %s (%s)", fields.key(smallKey),
+                        fields.get(smallKey)));
             }
         }
 
         String string(String key, boolean required) {
-            if (!present(key)) {
-                if (required) {
-                    throw bad(key, "is needed");
-                }
-                return null;
+            if (required && !fields.has(key)) {
+                throw bad(key, "is needed");
             }
-            JsonElement e = block.get(key);
-            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isString() || e.getAsString().isBlank()) {
-                throw bad(key, "must be text in quotes");
-            }
-            return e.getAsString();
+            return fields.optionalString(key);
         }
 
         boolean bool(String key) {
-            if (!present(key)) {
-                return false;
-            }
-            JsonElement e = block.get(key);
-            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
-                throw bad(key, "must be true or false");
-            }
-            return e.getAsBoolean();
+            return fields.flag(key, false);
         }
 
         <T> T build(Supplier<T> maker) {
             try {
                 return maker.get();
             } catch (IllegalArgumentException e) {
-                throw new InputException(file, "in the calibration block, " + e.getMessage(), e);
+                throw fields.fail("in the calibration block, " + e.getMessage(), e);
             }
         }
     }

@@ -1,10 +1,5 @@
 package org.dendrokin.io.calib;
 
-import java.io.IOException;
-import java.io.StringReader;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
-import java.nio.file.NoSuchFileException;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Locale;
@@ -15,18 +10,15 @@ import org.dendrokin.core.calib.HillCurve;
 import org.dendrokin.core.calib.MonotoneTable;
 import org.dendrokin.core.calib.StandardsFit;
 import org.dendrokin.io.AtomicFiles;
-import org.dendrokin.io.InputException;
+import org.dendrokin.io.json.JsonFields;
+import org.dendrokin.io.json.JsonFiles;
 
 import com.google.gson.GsonBuilder;
 import com.google.gson.JsonArray;
 import com.google.gson.JsonElement;
 import com.google.gson.JsonNull;
 import com.google.gson.JsonObject;
-import com.google.gson.JsonParseException;
-import com.google.gson.JsonParser;
 import com.google.gson.JsonPrimitive;
-import com.google.gson.Strictness;
-import com.google.gson.stream.JsonReader;
 
 /**
  * A reusable calibration file (JSON), written by {@code calibrate} from a table of standards and referenced
@@ -138,136 +130,61 @@ public final class CalibrationFile {
 
     /** Reads a calibration file written by {@link #write}; every problem names the file and the key. */
     public static Calibration read(Path file) {
-        String text;
-        try {
-            text = Files.readString(file, StandardCharsets.UTF_8);
-        } catch (NoSuchFileException e) {
-            throw new InputException(file, "does not exist", e);
-        } catch (IOException e) {
-            throw new InputException(file, "cannot be read (" + e.getMessage() + ")", e);
-        }
-        JsonObject root;
-        try (JsonReader reader = new JsonReader(new StringReader(text))) {
-            reader.setStrictness(Strictness.STRICT);
-            JsonElement e = JsonParser.parseReader(reader);
-            if (!e.isJsonObject()) {
-                throw new InputException(file, "must hold one JSON object, a calibration written by the calibrate "
-                        + "command");
-            }
-            root = e.getAsJsonObject();
-        } catch (JsonParseException | IOException e) {
-            throw new InputException(file, "is not valid JSON (" + e.getMessage() + ")", e);
-        }
-        Json j = new Json(file);
-        double version = j.number(root, "dendrokin_calibration");
+        JsonFields root = JsonFiles.readFields(file, "a calibration written by the calibrate command");
+        double version = root.number("dendrokin_calibration");
         if (version != FORMAT_VERSION) {
-            throw new InputException(file, String.format(Locale.ROOT, "key \"dendrokin_calibration\" is %s, but this "
-                    + "version reads calibration files of format %d", root.get("dendrokin_calibration"),
-                    FORMAT_VERSION));
+            throw root.fail(String.format(Locale.ROOT, "key \"dendrokin_calibration\" is %s, but this version reads "
+                    + "calibration files of format %d", root.get("dendrokin_calibration"), FORMAT_VERSION));
         }
-        String form = j.string(root, "form");
+        String form = root.string("form");
         try {
             if (form.equals("hill")) {
-                JsonObject c = j.object(root, "constants");
-                HillCurve curve = new HillCurve(j.number(c, "f_min", "constants.f_min"),
-                        j.number(c, "f_max", "constants.f_max"), j.number(c, "k_half_uM", "constants.k_half_uM"),
-                        j.number(c, "n", "constants.n"));
+                JsonFields c = root.object("constants");
+                HillCurve curve = new HillCurve(c.number("f_min"), c.number("f_max"), c.number("k_half_uM"),
+                        c.number("n"));
                 double[][] cov = null;
-                if (root.has("covariance")) {
-                    cov = j.matrix(j.object(root, "covariance"), "covariance.matrix", 4);
+                if (root.get("covariance") != null) {
+                    cov = matrix(root.object("covariance"), COVARIANCE_ORDER.size());
                 }
                 return new FittedHill(curve, cov);
             }
             if (form.equals("monotone")) {
-                JsonObject t = j.object(root, "table");
-                double[] c = j.array(t, "concentration_uM", "table.concentration_uM");
-                double[] f = j.array(t, "mean_intensity", "table.mean_intensity");
+                JsonFields t = root.object("table");
+                double[] c = t.numbers("concentration_uM");
+                double[] f = t.numbers("mean_intensity");
                 if (c.length != f.length) {
-                    throw new InputException(file, "keys \"table.concentration_uM\" and \"table.mean_intensity\" must "
-                            + "have the same length");
+                    throw root.fail("keys \"table.concentration_uM\" and \"table.mean_intensity\" must have the "
+                            + "same length");
                 }
                 return new MonotoneTable(c, f);
             }
         } catch (IllegalArgumentException e) {
-            throw new InputException(file, "holds an unusable calibration: " + e.getMessage(), e);
+            throw root.fail("holds an unusable calibration: " + e.getMessage(), e);
         }
-        throw new InputException(file, "key \"form\" must be \"hill\" or \"monotone\", got \"" + form + "\"");
+        throw root.bad("form", "must be \"hill\" or \"monotone\"");
     }
 
-    /** Typed access that names the file and key in every complaint. */
-    static final class Json {
-        private final Path file;
-
-        Json(Path file) {
-            this.file = file;
+    /** The {@code matrix} of the covariance block: {@code size} lists of {@code size} numbers. */
+    private static double[][] matrix(JsonFields covariance, int size) {
+        String requirement = "must be a " + size + " x " + size + " list of lists of numbers";
+        JsonArray rows = covariance.array("matrix");
+        if (rows.size() != size) {
+            throw covariance.bad("matrix", requirement);
         }
-
-        InputException bad(String key, String requirement, JsonElement got) {
-            return new InputException(file,
-                    "key \"" + key + "\" " + requirement + ", got " + (got == null ? "nothing" : got.toString()));
-        }
-
-        double number(JsonObject o, String name) {
-            return number(o, name, name);
-        }
-
-        double number(JsonObject o, String name, String key) {
-            JsonElement e = o.get(name);
-            if (e == null || !e.isJsonPrimitive() || !e.getAsJsonPrimitive().isNumber()
-                    || !Double.isFinite(e.getAsDouble())) {
-                throw bad(key, "must be a number", e);
+        double[][] m = new double[size][size];
+        for (int i = 0; i < size; i++) {
+            JsonElement row = rows.get(i);
+            if (!row.isJsonArray() || row.getAsJsonArray().size() != size) {
+                throw covariance.bad("matrix", requirement);
             }
-            return e.getAsDouble();
-        }
-
-        String string(JsonObject o, String name) {
-            JsonElement e = o.get(name);
-            if (e == null || !e.isJsonPrimitive() || !e.getAsJsonPrimitive().isString()) {
-                throw bad(name, "must be text in quotes", e);
-            }
-            return e.getAsString();
-        }
-
-        JsonObject object(JsonObject o, String name) {
-            JsonElement e = o.get(name);
-            if (e == null || !e.isJsonObject()) {
-                throw bad(name, "must be an object {...}", e);
-            }
-            return e.getAsJsonObject();
-        }
-
-        double[] array(JsonObject o, String name, String key) {
-            JsonElement e = o.get(name);
-            if (e == null || !e.isJsonArray()) {
-                throw bad(key, "must be a list of numbers [...]", e);
-            }
-            JsonArray a = e.getAsJsonArray();
-            double[] out = new double[a.size()];
-            for (int i = 0; i < out.length; i++) {
-                JsonElement x = a.get(i);
+            for (int j = 0; j < size; j++) {
+                JsonElement x = row.getAsJsonArray().get(j);
                 if (!x.isJsonPrimitive() || !x.getAsJsonPrimitive().isNumber() || !Double.isFinite(x.getAsDouble())) {
-                    throw bad(key, "must be a list of numbers [...]", e);
+                    throw covariance.bad("matrix", requirement);
                 }
-                out[i] = x.getAsDouble();
+                m[i][j] = x.getAsDouble();
             }
-            return out;
         }
-
-        double[][] matrix(JsonObject o, String key, int size) {
-            JsonElement e = o.get("matrix");
-            if (e == null || !e.isJsonArray() || e.getAsJsonArray().size() != size) {
-                throw bad(key, "must be a " + size + " x " + size + " list of lists of numbers", e);
-            }
-            double[][] m = new double[size][];
-            for (int i = 0; i < size; i++) {
-                JsonObject row = new JsonObject();
-                row.add("r", e.getAsJsonArray().get(i));
-                m[i] = array(row, "r", key);
-                if (m[i].length != size) {
-                    throw bad(key, "must be a " + size + " x " + size + " list of lists of numbers", e);
-                }
-            }
-            return m;
-        }
+        return m;
     }
 }

@@ -3,8 +3,6 @@ package org.dendrokin.io.calib;
 import java.io.IOException;
 import java.io.Reader;
 import java.io.UncheckedIOException;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.NoSuchFileException;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -15,6 +13,7 @@ import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
 import org.dendrokin.core.calib.Standards;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.text.TextFiles;
 
 /**
  * Reads a table of standards: a CSV with the header {@code concentration_uM,intensity} (columns in either
@@ -29,7 +28,7 @@ public final class StandardsCsv {
     }
 
     public static Standards read(Path file) {
-        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+        try (Reader r = TextFiles.open(file)) {
             CSVFormat format = CSVFormat.DEFAULT.builder().setCommentMarker('#').setIgnoreSurroundingSpaces(true)
                     .setIgnoreEmptyLines(true).get();
             List<CSVRecord> records = new ArrayList<>();

@@ -9,6 +9,8 @@ import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.fit.Misfit;
 import org.dendrokin.core.fit.ParameterEstimate;
+import org.dendrokin.io.text.Html;
+import org.dendrokin.io.text.Numbers;
 
 /**
  * The report's model-fit section: a comparison table (criteria, Akaike
@@ -118,10 +120,10 @@ public final class FitReportHtml {
     }
 
     private static String num(double v) {
-        return Double.isFinite(v) ? String.format(Locale.ROOT, "%.4g", v) : "";
+        return Double.isFinite(v) ? Numbers.forPeople(v) : "";
     }
 
     private static String esc(String s) {
-        return s.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;").replace("\"", "&quot;");
+        return Html.esc(s);
     }
 }

@@ -1,14 +1,10 @@
 package org.dendrokin.io.model;
 
-import java.io.IOException;
-import java.io.Reader;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
 
@@ -22,12 +18,9 @@ import org.dendrokin.core.model.SolverSettings;
 import org.dendrokin.core.model.StochasticSettings;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.io.InputException;
-
-import com.google.gson.JsonArray;
-import com.google.gson.JsonElement;
-import com.google.gson.JsonObject;
-import com.google.gson.JsonParseException;
-import com.google.gson.JsonParser;
+import org.dendrokin.io.json.JsonFields;
+import org.dendrokin.io.json.JsonFiles;
+import org.dendrokin.io.text.Numbers;
 
 /**
  * Reads a model JSON file (the {@code simulate} command's input; format in docs/models.md) into a
@@ -50,30 +43,18 @@ public final class ModelFile {
     }
 
     public static Parsed read(Path file) {
-        JsonObject root;
-        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
-            JsonElement e = JsonParser.parseReader(r);
-            if (!e.isJsonObject()) {
-                throw new InputException(file, "a model file must hold one JSON object");
-            }
-            root = e.getAsJsonObject();
-        } catch (IOException e) {
-            throw new InputException(file, "cannot be read (" + e.getMessage() + ")", e);
-        } catch (JsonParseException e) {
-            throw new InputException(file, "is not valid JSON (" + e.getMessage() + ")", e);
-        }
+        JsonFields root = JsonFiles.readFields(file, "the model to simulate (see docs/models.md)");
         return new ModelFile(file).parse(root);
     }
 
-    private Parsed parse(JsonObject root) {
-        keys(root, "", TOP);
-        String model = string(root, "model", "model");
-        JsonObject domainJson = object(root, "domain", "domain");
-        keys(domainJson, "domain.", Set.of("length_um", "dx_um", "boundary", "cross_section"));
-        double length = positive(domainJson, "length_um", "domain.length_um");
-        double dx = positive(domainJson, "dx_um", "domain.dx_um");
-        String boundaryText = domainJson.has("boundary")
-                ? string(domainJson, "boundary", "domain.boundary") : "no-flux";
+    private Parsed parse(JsonFields root) {
+        root.refuseUnknownKeys(TOP);
+        String model = root.string("model");
+        JsonFields domainJson = root.object("domain");
+        domainJson.refuseUnknownKeys(Set.of("length_um", "dx_um", "boundary", "cross_section"));
+        double length = domainJson.positive("length_um");
+        double dx = domainJson.positive("dx_um");
+        String boundaryText = domainJson.has("boundary") ? domainJson.string("boundary") : "no-flux";
         Boundary boundary = switch (boundaryText) {
             case "no-flux" -> Boundary.NO_FLUX;
             case "fixed" -> Boundary.FIXED;
@@ -88,15 +69,15 @@ public final class ModelFile {
         }
         CrossSection cs = CrossSection.UNIFORM;
         if (domainJson.has("cross_section")) {
-            JsonArray arr = array(domainJson, "cross_section", "domain.cross_section");
-            double[] pos = new double[arr.size()];
-            double[] area = new double[arr.size()];
-            for (int i = 0; i < arr.size(); i++) {
+            List<JsonFields> sections = domainJson.objects("cross_section");
+            double[] pos = new double[sections.size()];
+            double[] area = new double[sections.size()];
+            for (int i = 0; i < sections.size(); i++) {
                 String key = "domain.cross_section[" + i + "]";
-                JsonObject o = asObject(arr.get(i), key);
-                keys(o, key + ".", Set.of("position_um", "area_um2"));
-                pos[i] = number(o, "position_um", key + ".position_um");
-                area[i] = positive(o, "area_um2", key + ".area_um2");
+                JsonFields o = sections.get(i);
+                o.refuseUnknownKeys(Set.of("position_um", "area_um2"));
+                pos[i] = o.number("position_um");
+                area[i] = o.positive("area_um2");
                 if (i > 0 && pos[i] <= pos[i - 1]) {
                     throw fail(key + ".position_um must be larger than the one before it");
                 }
@@ -109,10 +90,10 @@ public final class ModelFile {
         Domain domain = new Domain(length, dx, boundary, cs);
         double h = domain.spacingUm();
 
-        JsonObject time = object(root, "time", "time");
-        keys(time, "time.", Set.of("duration_s", "output_interval_s"));
-        double duration = positive(time, "duration_s", "time.duration_s");
-        double interval = positive(time, "output_interval_s", "time.output_interval_s");
+        JsonFields time = root.object("time");
+        time.refuseUnknownKeys(Set.of("duration_s", "output_interval_s"));
+        double duration = time.positive("duration_s");
+        double interval = time.positive("output_interval_s");
         if (interval > duration) {
             throw fail("time.output_interval_s (" + num(interval) + " s) is longer than time.duration_s ("
                     + num(duration) + " s)");
@@ -124,13 +105,17 @@ public final class ModelFile {
         String observed = null;
         double[] positions = null;
         if (root.has("output")) {
-            JsonObject out = object(root, "output", "output");
-            keys(out, "output.", Set.of("dx_um", "species"));
+            JsonFields out = root.object("output");
+            out.refuseUnknownKeys(Set.of("dx_um", "species"));
             if (out.has("species")) {
-                observed = string(out, "species", "output.species");
+                observed = out.string("species");
             }
             if (out.has("dx_um")) {
-                double step = positive(out, "dx_um", "output.dx_um");
+                double step = out.positive("dx_um");
+                if (length / step > 2_000_000) {
+                    throw fail("output.dx_um (" + num(step) + " um) gives more than two million output positions; use a"
+                            + " coarser output grid");
+                }
                 int count = (int) Math.floor(length / step + 1e-9) + 1;
                 positions = new double[count];
                 for (int i = 0; i < count; i++) {
@@ -147,38 +132,38 @@ public final class ModelFile {
 
         List<Stimulus> stimuli = new ArrayList<>();
         if (root.has("stimuli")) {
-            JsonArray arr = array(root, "stimuli", "stimuli");
-            for (int i = 0; i < arr.size(); i++) {
-                stimuli.add(stimulus(asObject(arr.get(i), "stimuli[" + i + "]"), "stimuli[" + i + "]", length, h));
+            List<JsonFields> given = root.objects("stimuli");
+            for (int i = 0; i < given.size(); i++) {
+                stimuli.add(stimulus(given.get(i), "stimuli[" + i + "]", length, h));
             }
         }
 
         SolverSettings settings = SolverSettings.DEFAULT;
         if (root.has("solver")) {
-            JsonObject s = object(root, "solver", "solver");
-            keys(s, "solver.", Set.of("step_factor", "max_step_s", "fixed_step_s", "smoothing", "spatial_order",
+            JsonFields s = root.object("solver");
+            s.refuseUnknownKeys(Set.of("step_factor", "max_step_s", "fixed_step_s", "smoothing", "spatial_order",
                     "time_tolerance"));
             if (s.has("step_factor")) {
-                settings = settings.withStepFactor(positive(s, "step_factor", "solver.step_factor"));
+                settings = settings.withStepFactor(s.positive("step_factor"));
             }
             if (s.has("max_step_s")) {
-                settings = settings.withMaxStepS(positive(s, "max_step_s", "solver.max_step_s"));
+                settings = settings.withMaxStepS(s.positive("max_step_s"));
             }
             if (s.has("fixed_step_s")) {
-                settings = settings.withFixedStepS(positive(s, "fixed_step_s", "solver.fixed_step_s"));
+                settings = settings.withFixedStepS(s.positive("fixed_step_s"));
             }
             if (s.has("spatial_order")) {
-                double order = number(s, "spatial_order", "solver.spatial_order");
+                double order = s.number("spatial_order");
                 if (order != 2 && order != 4) {
                     throw fail("solver.spatial_order must be 2 or 4, got " + num(order));
                 }
                 settings = settings.withSpatialOrder((int) order);
             }
             if (s.has("smoothing")) {
-                settings = settings.withSmoothing(bool(s, "smoothing", "solver.smoothing"));
+                settings = settings.withSmoothing(s.flag("smoothing", settings.smoothing()));
             }
             if (s.has("time_tolerance")) {
-                settings = settings.withTimeTolerance(positive(s, "time_tolerance", "solver.time_tolerance"));
+                settings = settings.withTimeTolerance(s.positive("time_tolerance"));
             }
         }
 
@@ -194,8 +179,8 @@ public final class ModelFile {
                 throw fail("model \"network\" needs exactly one of the keys network (our JSON format) and sbml"
                         + " (an SBML file)");
             }
-            network = root.has("network") ? network(object(root, "network", "network"))
-                    : sbml(object(root, "sbml", "sbml"));
+            network = root.has("network") ? network(root.object("network"))
+                    : sbml(root.object("sbml"));
         } else {
             if (root.has("network") || root.has("sbml")) {
                 throw fail("network and sbml need \"model\": \"network\"");
@@ -207,14 +192,14 @@ public final class ModelFile {
                 throw fail("model \"" + model + "\" is not known; use one of " + String.join(", ", Simulation.BUILT_IN)
                         + ", or \"network\"");
             }
-            JsonObject p = object(root, "parameters", "parameters");
-            keys(p, "parameters.", Set.copyOf(names));
+            JsonFields p = root.object("parameters");
+            p.refuseUnknownKeys(Set.copyOf(names));
             for (String name : names) {
                 if (!p.has(name)) {
                     throw fail("parameters." + name + " is missing (" + model + " needs " + String.join(", ", names)
                             + ")");
                 }
-                double v = number(p, name, "parameters." + name);
+                double v = p.number(name);
                 parameters.put(name, v);
             }
             checkBuiltIn(model, parameters, h);
@@ -236,14 +221,13 @@ public final class ModelFile {
 
         StochasticSettings stochastic = null;
         if (root.has("stochastic")) {
-            JsonObject s = object(root, "stochastic", "stochastic");
-            keys(s, "stochastic.", Set.of("runs", "seed", "threads", "molecules_per_unit_um3"));
-            int runs = s.has("runs") ? (int) positive(s, "runs", "stochastic.runs") : 20;
-            long seed = s.has("seed") ? (long) number(s, "seed", "stochastic.seed") : 1L;
-            int threads = s.has("threads") ? (int) positive(s, "threads", "stochastic.threads")
-                    : Runtime.getRuntime().availableProcessors();
+            JsonFields s = root.object("stochastic");
+            s.refuseUnknownKeys(Set.of("runs", "seed", "threads", "molecules_per_unit_um3"));
+            int runs = s.has("runs") ? count(s, "runs", 1_000_000) : 20;
+            long seed = s.has("seed") ? (long) s.number("seed") : 1L;
+            int threads = s.has("threads") ? count(s, "threads", 4096) : Runtime.getRuntime().availableProcessors();
             double per = s.has("molecules_per_unit_um3")
-                    ? positive(s, "molecules_per_unit_um3", "stochastic.molecules_per_unit_um3")
+                    ? s.positive("molecules_per_unit_um3")
                     : StochasticSettings.MICROMOLAR_PER_UM3;
             if (!kind.equals("network") && !kind.equals("buffered-diffusion") && !kind.equals("fitzhugh-nagumo")) {
                 throw fail("stochastic needs a reaction network (model \"network\" or \"buffered-diffusion\"); "
@@ -259,13 +243,22 @@ public final class ModelFile {
             }
             stochastic = new StochasticSettings(runs, seed, threads, per);
         }
-        MovieSettings movie = root.has("movie") ? MovieSettings.read(this, object(root, "movie", "movie")) : null;
+        MovieSettings movie = root.has("movie") ? MovieSettings.read(root.object("movie")) : null;
         try {
             return new Parsed(new Simulation.Spec(model, parameters, network, observed, domain, duration, interval,
                     positions, stimuli, settings, stochastic), movie);
         } catch (IllegalArgumentException e) {
             throw fail(e.getMessage());
         }
+    }
+
+    /** A count from 1 to {@code max}; a fraction is rounded down, as it always was. */
+    private int count(JsonFields o, String name, int max) {
+        double v = o.positive(name);
+        if (v < 1 || v > max) {
+            throw o.bad(name, "must be a whole number from 1 to " + max);
+        }
+        return (int) v;
     }
 
     /** Checks that the grid and step can resolve a built-in model, saying which does not. */
@@ -317,20 +310,20 @@ public final class ModelFile {
         }
     }
 
-    private Stimulus stimulus(JsonObject o, String key, double length, double h) {
-        keys(o, key + ".", Set.of("kind", "time_s", "position_um", "width_um", "amount", "duration_s", "species"));
-        String kind = o.has("kind") ? string(o, "kind", key + ".kind") : "pulse";
-        double t = number(o, "time_s", key + ".time_s");
+    private Stimulus stimulus(JsonFields o, String key, double length, double h) {
+        o.refuseUnknownKeys(Set.of("kind", "time_s", "position_um", "width_um", "amount", "duration_s", "species"));
+        String kind = o.has("kind") ? o.string("kind") : "pulse";
+        double t = o.number("time_s");
         if (t < 0) {
             throw fail(key + ".time_s must be zero or positive, got " + num(t));
         }
-        double x = number(o, "position_um", key + ".position_um");
+        double x = o.number("position_um");
         if (x < 0 || x > length) {
             throw fail(key + ".position_um (" + num(x) + " um) lies outside the domain (0 to " + num(length) + " um)");
         }
-        double width = positive(o, "width_um", key + ".width_um");
-        double amount = number(o, "amount", key + ".amount");
-        String species = o.has("species") ? string(o, "species", key + ".species") : null;
+        double width = o.positive("width_um");
+        double amount = o.number("amount");
+        String species = o.has("species") ? o.string("species") : null;
         Stimulus s;
         switch (kind) {
             case "pulse" -> {
@@ -340,8 +333,8 @@ public final class ModelFile {
                 s = Stimulus.pulse(t, x, width, amount);
             }
             case "injection" ->
-                    s = Stimulus.injection(t, positive(o, "duration_s", key + ".duration_s"), x, width, amount);
-            case "clamp" -> s = Stimulus.clamp(t, positive(o, "duration_s", key + ".duration_s"), x, width, amount);
+                    s = Stimulus.injection(t, o.positive("duration_s"), x, width, amount);
+            case "clamp" -> s = Stimulus.clamp(t, o.positive("duration_s"), x, width, amount);
             default -> throw fail(key + ".kind must be \"pulse\", \"injection\" or \"clamp\", got \"" + kind + "\"");
         }
         if (!kind.equals("clamp") && width < h / 2) {
@@ -355,27 +348,27 @@ public final class ModelFile {
         return species == null ? s : s.onSpecies(species);
     }
 
-    private ReactionNetwork network(JsonObject o) {
-        keys(o, "network.", Set.of("species", "reactions", "parameters"));
+    private ReactionNetwork network(JsonFields o) {
+        o.refuseUnknownKeys(Set.of("species", "reactions", "parameters"));
         Map<String, Double> values = new LinkedHashMap<>();
         if (o.has("parameters")) {
-            JsonObject p = object(o, "parameters", "network.parameters");
-            for (String k : p.keySet()) {
-                values.put(k, number(p, k, "network.parameters." + k));
+            JsonFields p = o.object("parameters");
+            for (String k : p.names()) {
+                values.put(k, p.number(k));
             }
         }
-        JsonArray speciesArr = array(o, "species", "network.species");
-        if (speciesArr.size() == 0) {
+        List<JsonFields> speciesList = o.objects("species");
+        if (speciesList.isEmpty()) {
             throw fail("network.species is empty");
         }
         List<String> names = new ArrayList<>();
-        double[] d = new double[speciesArr.size()];
-        double[] init = new double[speciesArr.size()];
-        for (int i = 0; i < speciesArr.size(); i++) {
+        double[] d = new double[speciesList.size()];
+        double[] init = new double[speciesList.size()];
+        for (int i = 0; i < speciesList.size(); i++) {
             String key = "network.species[" + i + "]";
-            JsonObject s = asObject(speciesArr.get(i), key);
-            keys(s, key + ".", Set.of("name", "D_um2_per_s", "initial"));
-            String name = string(s, "name", key + ".name");
+            JsonFields s = speciesList.get(i);
+            s.refuseUnknownKeys(Set.of("name", "D_um2_per_s", "initial"));
+            String name = s.string("name");
             if (names.contains(name)) {
                 throw fail(key + ".name repeats the species name " + name);
             }
@@ -387,29 +380,29 @@ public final class ModelFile {
                 throw fail(key + " (" + name + ") has no D_um2_per_s; every species needs a diffusion coefficient"
                         + " (0 for an immobile one)");
             }
-            d[i] = number(s, "D_um2_per_s", key + ".D_um2_per_s");
+            d[i] = s.number("D_um2_per_s");
             if (d[i] < 0) {
                 throw fail(key + ".D_um2_per_s must be zero or positive, got " + num(d[i]));
             }
-            init[i] = s.has("initial") ? number(s, "initial", key + ".initial") : 0;
+            init[i] = s.has("initial") ? s.number("initial") : 0;
             if (init[i] < 0) {
                 throw fail(key + ".initial must be zero or positive, got " + num(init[i]));
             }
         }
         List<ReactionNetwork.Reaction> reactions = new ArrayList<>();
-        JsonArray arr = o.has("reactions") ? array(o, "reactions", "network.reactions") : new JsonArray();
-        for (int r = 0; r < arr.size(); r++) {
+        List<JsonFields> given = o.has("reactions") ? o.objects("reactions") : List.of();
+        for (int r = 0; r < given.size(); r++) {
             String key = "network.reactions[" + r + "]";
-            reactions.addAll(reaction(asObject(arr.get(r), key), key, names, values));
+            reactions.addAll(reaction(given.get(r), key, names, values));
         }
         return new ReactionNetwork(names, d, init, reactions);
     }
 
-    private List<ReactionNetwork.Reaction> reaction(JsonObject o, String key, List<String> names,
+    private List<ReactionNetwork.Reaction> reaction(JsonFields o, String key, List<String> names,
             Map<String, Double> values) {
-        keys(o, key + ".", Set.of("name", "reactants", "products", "law", "k", "kr", "vmax", "kcat", "km", "enzyme",
+        o.refuseUnknownKeys(Set.of("name", "reactants", "products", "law", "k", "kr", "vmax", "kcat", "km", "enzyme",
                 "substrate", "activator", "K", "n", "rate"));
-        String name = o.has("name") ? string(o, "name", key + ".name") : key;
+        String name = o.has("name") ? o.string("name") : key;
         int m = names.size();
         double[] reactants = stoichiometry(o, "reactants", key, names);
         double[] products = stoichiometry(o, "products", key, names);
@@ -417,15 +410,15 @@ public final class ModelFile {
         for (int s = 0; s < m; s++) {
             net[s] = products[s] - reactants[s];
         }
-        String law = o.has("law") ? string(o, "law", key + ".law") : "mass-action";
+        String law = o.has("law") ? o.string("law") : "mass-action";
         List<ReactionNetwork.Reaction> out = new ArrayList<>();
         switch (law) {
             case "mass-action" -> {
-                double k = nonNegative(o, "k", key + ".k");
+                double k = o.nonNegative("k");
                 out.add(new ReactionNetwork.Reaction(name, net,
                         ReactionNetwork.massAction(reactants, products, k, 0), k * order(reactants, m)));
                 if (o.has("kr")) {
-                    double kr = nonNegative(o, "kr", key + ".kr");
+                    double kr = o.nonNegative("kr");
                     double[] back = new double[m];
                     for (int s = 0; s < m; s++) {
                         back[s] = -net[s];
@@ -436,34 +429,33 @@ public final class ModelFile {
                 }
             }
             case "michaelis-menten" -> {
-                String substrate = o.has("substrate") ? string(o, "substrate", key + ".substrate")
-                        : single(reactants, names, key);
+                String substrate = o.has("substrate") ? o.string("substrate") : single(reactants, names, key);
                 int si = species(names, substrate, key + ".substrate");
-                double km = positive(o, "km", key + ".km");
+                double km = o.positive("km");
                 Expression rate;
                 double scale;
                 if (o.has("enzyme")) {
-                    int e = species(names, string(o, "enzyme", key + ".enzyme"), key + ".enzyme");
-                    double kcat = nonNegative(o, "kcat", key + ".kcat");
+                    int e = species(names, o.string("enzyme"), key + ".enzyme");
+                    double kcat = o.nonNegative("kcat");
                     rate = ReactionNetwork.michaelisMenten(si, e, kcat, km);
                     scale = kcat;
                 } else {
-                    double vmax = nonNegative(o, "vmax", key + ".vmax");
+                    double vmax = o.nonNegative("vmax");
                     rate = ReactionNetwork.michaelisMenten(si, -1, vmax, km);
                     scale = vmax / km;
                 }
                 out.add(new ReactionNetwork.Reaction(name, net, rate, scale));
             }
             case "hill" -> {
-                int a = species(names, string(o, "activator", key + ".activator"), key + ".activator");
-                double vmax = nonNegative(o, "vmax", key + ".vmax");
-                double kHalf = positive(o, "K", key + ".K");
-                double n = positive(o, "n", key + ".n");
+                int a = species(names, o.string("activator"), key + ".activator");
+                double vmax = o.nonNegative("vmax");
+                double kHalf = o.positive("K");
+                double n = o.positive("n");
                 out.add(new ReactionNetwork.Reaction(name, net, ReactionNetwork.hill(a, vmax, kHalf, n),
                         vmax * n / kHalf));
             }
             case "expression" -> {
-                String formula = string(o, "rate", key + ".rate");
+                String formula = o.string("rate");
                 Expression rate;
                 try {
                     rate = Formulas.translate(Formulas.parse(formula), names, values);
@@ -514,15 +506,15 @@ public final class ModelFile {
         return s;
     }
 
-    private double[] stoichiometry(JsonObject o, String field, String key, List<String> names) {
+    private double[] stoichiometry(JsonFields o, String field, String key, List<String> names) {
         double[] n = new double[names.size()];
         if (!o.has(field)) {
             return n;
         }
-        JsonObject map = object(o, field, key + "." + field);
-        for (String s : map.keySet()) {
+        JsonFields map = o.object(field);
+        for (String s : map.names()) {
             int i = species(names, s, key + "." + field);
-            double v = number(map, s, key + "." + field + "." + s);
+            double v = map.number(s);
             if (v <= 0) {
                 throw fail(key + "." + field + "." + s + " must be a positive stoichiometric coefficient");
             }
@@ -531,114 +523,29 @@ public final class ModelFile {
         return n;
     }
 
-    private ReactionNetwork sbml(JsonObject o) {
-        keys(o, "sbml.", Set.of("file", "diffusion_um2_per_s"));
-        String name = string(o, "file", "sbml.file");
+    private ReactionNetwork sbml(JsonFields o) {
+        o.refuseUnknownKeys(Set.of("file", "diffusion_um2_per_s"));
+        String name = o.string("file");
         Path sbmlFile = file.toAbsolutePath().getParent().resolve(name);
         if (!Files.isRegularFile(sbmlFile)) {
             throw fail("sbml.file names " + name + ", which does not exist next to the model file");
         }
         Map<String, Double> d = new LinkedHashMap<>();
         if (o.has("diffusion_um2_per_s")) {
-            JsonObject map = object(o, "diffusion_um2_per_s", "sbml.diffusion_um2_per_s");
-            for (String k : map.keySet()) {
-                d.put(k, number(map, k, "sbml.diffusion_um2_per_s." + k));
+            JsonFields map = o.object("diffusion_um2_per_s");
+            for (String k : map.names()) {
+                d.put(k, map.number(k));
             }
         }
         return SbmlNetworks.read(sbmlFile, d, file);
     }
 
-    // ---- small JSON helpers that name the key on failure ----
-
-    InputException fail(String problem) {
+    private InputException fail(String problem) {
         return new InputException(file, problem);
     }
 
-    Path file() {
-        return file;
-    }
-
-    void keys(JsonObject o, String prefix, Set<String> allowed) {
-        for (String k : o.keySet()) {
-            if (!allowed.contains(k)) {
-                throw fail("unknown key " + prefix + k + " (expected one of " + String.join(", ", allowed.stream()
-                        .sorted().toList()) + ")");
-            }
-        }
-    }
-
-    JsonObject object(JsonObject o, String field, String key) {
-        if (!o.has(field)) {
-            throw fail(key + " is missing");
-        }
-        return asObject(o.get(field), key);
-    }
-
-    JsonObject asObject(JsonElement e, String key) {
-        if (e == null || !e.isJsonObject()) {
-            throw fail(key + " must be a JSON object");
-        }
-        return e.getAsJsonObject();
-    }
-
-    JsonArray array(JsonObject o, String field, String key) {
-        if (!o.has(field) || !o.get(field).isJsonArray()) {
-            throw fail(key + " must be a JSON list");
-        }
-        return o.getAsJsonArray(field);
-    }
-
-    String string(JsonObject o, String field, String key) {
-        JsonElement e = o.get(field);
-        if (e == null) {
-            throw fail(key + " is missing");
-        }
-        if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isString()) {
-            throw fail(key + " must be a text value");
-        }
-        return e.getAsString();
-    }
-
-    boolean bool(JsonObject o, String field, String key) {
-        JsonElement e = o.get(field);
-        if (e == null || !e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
-            throw fail(key + " must be true or false");
-        }
-        return e.getAsBoolean();
-    }
-
-    double number(JsonObject o, String field, String key) {
-        JsonElement e = o.get(field);
-        if (e == null) {
-            throw fail(key + " is missing");
-        }
-        if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isNumber()) {
-            throw fail(key + " must be a number");
-        }
-        double v = e.getAsDouble();
-        if (!Double.isFinite(v)) {
-            throw fail(key + " must be a finite number");
-        }
-        return v;
-    }
-
-    double positive(JsonObject o, String field, String key) {
-        double v = number(o, field, key);
-        if (!(v > 0)) {
-            throw fail(key + " must be positive, got " + num(v));
-        }
-        return v;
-    }
-
-    double nonNegative(JsonObject o, String field, String key) {
-        double v = number(o, field, key);
-        if (v < 0) {
-            throw fail(key + " must be zero or positive, got " + num(v));
-        }
-        return v;
-    }
-
+    /** Numbers in messages. */
     static String num(double v) {
-        return String.format(Locale.ROOT, "%.4g", v);
+        return Numbers.forPeople(v);
     }
 }

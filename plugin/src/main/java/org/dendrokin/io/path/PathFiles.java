@@ -3,7 +3,6 @@ package org.dendrokin.io.path;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.Reader;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -22,6 +21,7 @@ import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
 import org.dendrokin.core.path.DendritePath;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.text.TextFiles;
 
 /**
  * Reads dendrite paths from ImageJ ROI files, ROI sets and CSV files into our coordinate convention (pixel i
@@ -155,7 +155,7 @@ public final class PathFiles {
                 .setIgnoreEmptyLines(true).setIgnoreHeaderCase(true).get();
         List<Double> xs = new ArrayList<>();
         List<Double> ys = new ArrayList<>();
-        try (Reader reader = Files.newBufferedReader(file, StandardCharsets.UTF_8);
+        try (Reader reader = TextFiles.open(file);
                 CSVParser parser = CSVParser.parse(reader, format)) {
             if (!parser.getHeaderMap().containsKey("x") || !parser.getHeaderMap().containsKey("y")) {
                 throw new InputException(file, "the path CSV needs a first line with the column names x,y");

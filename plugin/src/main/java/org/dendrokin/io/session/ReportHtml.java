@@ -1,7 +1,5 @@
 package org.dendrokin.io.session;
 
-import java.math.BigDecimal;
-import java.math.MathContext;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Locale;
@@ -24,6 +22,8 @@ import org.dendrokin.io.ToolVersion;
 import org.dendrokin.io.calib.CalibrationSetup;
 import org.dendrokin.io.fit.FitReportHtml;
 import org.dendrokin.io.plot.Picture;
+import org.dendrokin.io.text.Html;
+import org.dendrokin.io.text.Numbers;
 
 /**
  * Writes {@code report.html}: one self-contained page (no scripts, no web fonts; pictures are PNG files beside
@@ -240,37 +240,11 @@ public final class ReportHtml {
         h.append("<td>").append(esc(how)).append("</td></tr>\n");
     }
 
-    /** A number for people: 3 significant digits, no exponent between 0.001 and 100000, Locale.ROOT. */
-    public static String number(double v) {
-        if (Double.isNaN(v)) {
-            return "n/a";
-        }
-        if (Double.isInfinite(v)) {
-            return v > 0 ? "unbounded" : "-unbounded";
-        }
-        if (v == 0) {
-            return "0";
-        }
-        double a = Math.abs(v);
-        if (a < 1e-3 || a >= 1e5) {
-            return String.format(Locale.ROOT, "%.3g", v);
-        }
-        BigDecimal d = new BigDecimal(v).round(new MathContext(3));
-        return d.stripTrailingZeros().toPlainString();
+    private static String number(double v) {
+        return Numbers.forPeople(v);
     }
 
-    /** Escapes text for HTML. */
-    public static String esc(String s) {
-        StringBuilder b = new StringBuilder(s.length());
-        for (char c : s.toCharArray()) {
-            switch (c) {
-                case '<' -> b.append("&lt;");
-                case '>' -> b.append("&gt;");
-                case '&' -> b.append("&amp;");
-                case '"' -> b.append("&quot;");
-                default -> b.append(c);
-            }
-        }
-        return b.toString();
+    private static String esc(String s) {
+        return Html.esc(s);
     }
 }

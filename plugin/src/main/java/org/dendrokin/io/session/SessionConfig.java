@@ -1,27 +1,21 @@
 package org.dendrokin.io.session;
 
-import java.io.IOException;
-import java.io.StringReader;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.Set;
-import java.util.regex.Matcher;
-import java.util.regex.Pattern;
 
+import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.json.JsonFields;
+import org.dendrokin.io.json.JsonFiles;
+import org.dendrokin.io.text.TextFiles;
 
 import com.google.gson.JsonArray;
 import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
-import com.google.gson.JsonParseException;
-import com.google.gson.JsonParser;
-import com.google.gson.Strictness;
-import com.google.gson.stream.JsonReader;
-import com.google.gson.stream.JsonToken;
 
 /**
  * The settings of one session, read from its {@code session.json}. Every key is optional except that a path
@@ -63,7 +57,9 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
             "bleach_correction", "fit", "description", "notes", "group");
     private static final Set<String> FIT_KEYS = Set.of("criterion", "profiles", "bootstrap_replicates", "seed",
             "free_stimulus", "sealed_ends");
-    private static final Pattern LINE = Pattern.compile("line (\\d+)");
+    private static final Set<String> STIMULUS_KEYS = Set.of("time_s", "position_um");
+    /** The names {@code models} may hold: the models the session analysis can fit. */
+    private static final List<String> FITTABLE_MODELS = ScalarRun.MODELS;
 
     public SessionConfig {
         baselineFrames = baselineFrames == null ? null : baselineFrames.clone();
@@ -93,256 +89,127 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
         if (!Files.isRegularFile(file)) {
             throw new InputException(sessionDir, "this folder has no " + FILE_NAME + ", so it is not a session folder");
         }
-        String text;
-        try {
-            text = Files.readString(file, StandardCharsets.UTF_8);
-        } catch (IOException e) {
-            throw new InputException(file, "cannot be read (" + e.getMessage() + ")", e);
-        }
-        return parse(file, text);
+        return parse(file, TextFiles.read(file));
     }
 
     /** Parses the text of a session.json; {@code file} names it in error messages. */
     public static SessionConfig parse(Path file, String text) {
-        JsonObject root = strictObject(file, text);
-        Parser p = new Parser(file);
+        JsonFields root = JsonFields.of(file, JsonFiles.parseObject(file, text, "the session's settings"));
         List<String> warnings = new ArrayList<>();
-        for (String key : root.keySet()) {
-            if (!KEYS.contains(key)) {
-                warnings.add(String.format(Locale.ROOT, "%s: key \"%s\" is not one Dendrokin knows and was ignored.",
-                        file.getFileName(), key));
-            }
-        }
-        String movie = p.string(root, "movie", "movie");
-        String path = p.string(root, "path", "path");
-        String pathRoiName = p.string(root, "path_roi_name", "path_roi_name");
-        Double width = p.number(root, "path_width_um", "path_width_um", true);
-        Double pixel = p.number(root, "pixel_size_um", "pixel_size_um", false);
-        Double interval = p.number(root, "frame_interval_s", "frame_interval_s", false);
+        ignored(root, KEYS, warnings);
+        String movie = root.optionalString("movie");
+        String path = root.optionalString("path");
+        String pathRoiName = root.optionalString("path_roi_name");
+        Double width = root.optionalNonNegative("path_width_um");
+        Double pixel = root.optionalPositive("pixel_size_um");
+        Double interval = root.optionalPositive("frame_interval_s");
         Double stimTime = null;
         Double stimPos = null;
-        if (root.has("stimulus")) {
-            JsonObject s = p.object(root, "stimulus", "stimulus");
-            for (String key : s.keySet()) {
-                if (!key.equals("time_s") && !key.equals("position_um")) {
-                    warnings.add(String.format(Locale.ROOT, "%s: key \"stimulus.%s\" is not one Dendrokin knows and "
-                            + "was ignored.", file.getFileName(), key));
-                }
-            }
-            stimTime = p.number(s, "time_s", "stimulus.time_s", true);
-            stimPos = p.number(s, "position_um", "stimulus.position_um", true);
+        if (root.get("stimulus") != null) {
+            JsonFields s = root.object("stimulus");
+            ignored(s, STIMULUS_KEYS, warnings);
+            stimTime = s.optionalNonNegative("time_s");
+            stimPos = s.optionalNonNegative("position_um");
         }
         int[] baseline = null;
-        if (root.has("baseline_frames")) {
-            baseline = p.frameRange(root.get("baseline_frames"));
+        if (root.get("baseline_frames") != null) {
+            baseline = frameRange(root);
         }
         Double bgValue = null;
         String bgRoi = null;
-        if (root.has("background")) {
-            JsonObject b = p.object(root, "background", "background");
-            boolean hasValue = b.has("value");
-            boolean hasRoi = b.has("roi");
+        if (root.get("background") != null) {
+            JsonFields b = root.object("background");
+            boolean hasValue = b.get("value") != null;
+            boolean hasRoi = b.get("roi") != null;
             if (hasValue == hasRoi) {
-                throw p.bad("background", "must hold exactly one of \"value\" (a grey value) or \"roi\" (a .roi file)",
-                        b);
+                throw root.bad("background", "must hold exactly one of \"value\" (a grey value) or \"roi\" (a .roi "
+                        + "file)");
             }
             if (hasValue) {
-                bgValue = p.finite(b, "value", "background.value");
+                bgValue = b.number("value");
             } else {
-                bgRoi = p.string(b, "roi", "background.roi");
+                bgRoi = b.string("roi");
             }
         }
         JsonObject calibration;
-        if (root.has("calibration")) {
-            calibration = p.object(root, "calibration", "calibration");
-            String method = p.string(calibration, "method", "calibration.method");
+        if (root.get("calibration") != null) {
+            JsonFields c = root.object("calibration");
+            String method = c.optionalString("method");
             if (method == null || !CALIBRATION_METHODS.contains(method)) {
-                throw p.bad("calibration.method", "must be one of " + String.join(", ", CALIBRATION_METHODS),
-                        calibration.get("method"));
+                throw c.bad("method", "must be one of " + String.join(", ", CALIBRATION_METHODS));
             }
+            calibration = c.json();
         } else {
             calibration = new JsonObject();
             calibration.addProperty("method", "none");
         }
         List<String> models = null;
-        if (root.has("models")) {
-            JsonElement m = root.get("models");
-            if (!m.isJsonArray()) {
-                throw p.bad("models", "must be a list of model names", m);
-            }
-            models = new ArrayList<>();
-            for (JsonElement e : m.getAsJsonArray()) {
-                if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isString()) {
-                    throw p.bad("models", "must be a list of model names", m);
+        if (root.get("models") != null) {
+            models = root.strings("models", "must be a list of model names");
+            for (String m : models) {
+                if (!FITTABLE_MODELS.contains(m)) {
+                    throw root.bad("models", "names \"" + m + "\", which is not a model Dendrokin fits; use "
+                            + String.join(", ", FITTABLE_MODELS));
                 }
-                models.add(e.getAsString());
             }
         }
-        boolean bleach = p.flag(root, "bleach_correction", "bleach_correction", true);
+        boolean bleach = root.flag("bleach_correction", true);
         FitSettings fit = FitSettings.DEFAULT;
-        if (root.has("fit")) {
-            fit = fitSettings(p, p.object(root, "fit", "fit"), file, warnings);
+        if (root.get("fit") != null) {
+            fit = fitSettings(root.object("fit"), warnings);
         }
         return new SessionConfig(movie, path, pathRoiName, width == null ? 1.0 : width, pixel, interval, stimTime,
                 stimPos, baseline, bgValue, bgRoi, calibration, models, bleach, fit, warnings);
     }
 
-    private static FitSettings fitSettings(Parser p, JsonObject f, Path file, List<String> warnings) {
-        for (String key : f.keySet()) {
-            if (!FIT_KEYS.contains(key)) {
-                warnings.add(String.format(Locale.ROOT, "%s: key \"fit.%s\" is not one Dendrokin knows and was "
-                        + "ignored.", file.getFileName(), key));
-            }
+    /** Adds a warning for each key of {@code o} that Dendrokin does not read. */
+    private static void ignored(JsonFields o, Set<String> known, List<String> warnings) {
+        for (String key : o.unknownKeys(known)) {
+            warnings.add(String.format(Locale.ROOT, "%s: key \"%s\" is not one Dendrokin knows and was ignored.",
+                    o.file().getFileName(), key));
         }
+    }
+
+    private static FitSettings fitSettings(JsonFields f, List<String> warnings) {
+        ignored(f, FIT_KEYS, warnings);
         FitSettings d = FitSettings.DEFAULT;
-        String criterion = p.string(f, "criterion", "fit.criterion");
+        String criterion = f.optionalString("criterion");
         if (criterion == null) {
             criterion = d.criterion();
         } else if (!FitSettings.CRITERIA.contains(criterion)) {
-            throw p.bad("fit.criterion", "must be one of " + String.join(", ", FitSettings.CRITERIA),
-                    f.get("criterion"));
+            throw f.bad("criterion", "must be one of " + String.join(", ", FitSettings.CRITERIA));
         }
-        boolean profiles = p.flag(f, "profiles", "fit.profiles", d.profiles());
-        boolean freeStimulus = p.flag(f, "free_stimulus", "fit.free_stimulus", d.freeStimulus());
-        boolean sealedEnds = p.flag(f, "sealed_ends", "fit.sealed_ends", d.sealedEnds());
-        int replicates = (int) p.wholeNumber(f, "bootstrap_replicates", "fit.bootstrap_replicates", 0,
-                FitSettings.MAX_BOOTSTRAP, d.bootstrapReplicates());
-        long seed = p.wholeNumber(f, "seed", "fit.seed", 0, Long.MAX_VALUE, d.seed());
+        boolean profiles = f.flag("profiles", d.profiles());
+        boolean freeStimulus = f.flag("free_stimulus", d.freeStimulus());
+        boolean sealedEnds = f.flag("sealed_ends", d.sealedEnds());
+        int replicates = (int) f.wholeNumber("bootstrap_replicates", 0, FitSettings.MAX_BOOTSTRAP,
+                d.bootstrapReplicates());
+        long seed = f.wholeNumber("seed", 0, Long.MAX_VALUE, d.seed());
         return new FitSettings(criterion, profiles, replicates, seed, freeStimulus, sealedEnds);
     }
 
-    /** Parses strictly (no comments, no trailing commas, no single quotes); a syntax error names its line. */
-    private static JsonObject strictObject(Path file, String text) {
-        if (text.isBlank()) {
-            throw new InputException(file, "is empty; it must hold one JSON object {...} with the session's settings");
+    /** {@code baseline_frames}: [first, last], whole frame numbers from 0, first <= last. */
+    private static int[] frameRange(JsonFields root) {
+        String need = "must be [first, last]: two whole frame numbers counted from 0, first <= last";
+        JsonElement e = root.get("baseline_frames");
+        if (!e.isJsonArray() || e.getAsJsonArray().size() != 2) {
+            throw root.bad("baseline_frames", need);
         }
-        try (JsonReader reader = new JsonReader(new StringReader(text))) {
-            reader.setStrictness(Strictness.STRICT);
-            JsonElement root = JsonParser.parseReader(reader);
-            if (reader.peek() != JsonToken.END_DOCUMENT) {
-                throw new InputException(file, "has text after the closing brace of the settings object");
+        JsonArray a = e.getAsJsonArray();
+        int[] out = new int[2];
+        for (int i = 0; i < 2; i++) {
+            JsonElement x = a.get(i);
+            boolean number = x.isJsonPrimitive() && x.getAsJsonPrimitive().isNumber();
+            double v = number ? x.getAsDouble() : Double.NaN;
+            if (!(v == Math.rint(v) && v >= 0 && v <= Integer.MAX_VALUE)) {
+                throw root.bad("baseline_frames", need);
             }
-            if (!root.isJsonObject()) {
-                throw new InputException(file, "must hold one JSON object {...} with the session's settings");
-            }
-            return root.getAsJsonObject();
-        } catch (JsonParseException | IOException e) {
-            String msg = e.getMessage() == null ? "" : e.getMessage();
-            Matcher m = LINE.matcher(msg);
-            String where = m.find() ? "line " + m.group(1) : "somewhere";
-            if (msg.contains("End of input") || msg.contains("EOFException") || text.isBlank()) {
-                return failEnd(file, where);
-            }
-            throw new InputException(file, "is not valid JSON: the problem is at " + where
-                    + " (check for a missing comma or quote, a trailing comma, or a comment)", e);
+            out[i] = (int) v;
         }
-    }
-
-    private static JsonObject failEnd(Path file, String where) {
-        throw new InputException(file, "is not valid JSON: it ends too early (" + where
-                + "); a closing brace or bracket is probably missing");
-    }
-
-    /** Reads typed values, naming the key in every complaint. */
-    private static final class Parser {
-        private final Path file;
-
-        Parser(Path file) {
-            this.file = file;
+        if (out[0] > out[1]) {
+            throw root.bad("baseline_frames", need);
         }
-
-        InputException bad(String key, String requirement, JsonElement got) {
-            return new InputException(file,
-                    "key \"" + key + "\" " + requirement + ", got " + (got == null ? "nothing" : got.toString()));
-        }
-
-        String string(JsonObject o, String name, String key) {
-            if (!o.has(name) || o.get(name).isJsonNull()) {
-                return null;
-            }
-            JsonElement e = o.get(name);
-            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isString() || e.getAsString().isBlank()) {
-                throw bad(key, "must be a file or item name in quotes", e);
-            }
-            return e.getAsString();
-        }
-
-        JsonObject object(JsonObject o, String name, String key) {
-            JsonElement e = o.get(name);
-            if (e == null || !e.isJsonObject()) {
-                throw bad(key, "must be an object {...}", e);
-            }
-            return e.getAsJsonObject();
-        }
-
-        Double number(JsonObject o, String name, String key, boolean zeroAllowed) {
-            if (!o.has(name) || o.get(name).isJsonNull()) {
-                return null;
-            }
-            JsonElement e = o.get(name);
-            double v = isNumber(e) ? e.getAsDouble() : Double.NaN;
-            boolean ok = Double.isFinite(v) && (zeroAllowed ? v >= 0 : v > 0);
-            if (!ok) {
-                throw bad(key, zeroAllowed ? "must be zero or a positive number" : "must be a positive number", e);
-            }
-            return v;
-        }
-
-        double finite(JsonObject o, String name, String key) {
-            JsonElement e = o.get(name);
-            if (!isNumber(e) || !Double.isFinite(e.getAsDouble())) {
-                throw bad(key, "must be a number", e);
-            }
-            return e.getAsDouble();
-        }
-
-        boolean flag(JsonObject o, String name, String key, boolean absent) {
-            if (!o.has(name) || o.get(name).isJsonNull()) {
-                return absent;
-            }
-            JsonElement e = o.get(name);
-            if (!e.isJsonPrimitive() || !e.getAsJsonPrimitive().isBoolean()) {
-                throw bad(key, "must be true or false", e);
-            }
-            return e.getAsBoolean();
-        }
-
-        long wholeNumber(JsonObject o, String name, String key, long min, long max, long absent) {
-            if (!o.has(name) || o.get(name).isJsonNull()) {
-                return absent;
-            }
-            JsonElement e = o.get(name);
-            double v = isNumber(e) ? e.getAsDouble() : Double.NaN;
-            if (!(v == Math.rint(v) && v >= min && v <= max)) {
-                throw bad(key, "must be a whole number from " + min + " to " + max, e);
-            }
-            return e.getAsLong();
-        }
-
-        int[] frameRange(JsonElement e) {
-            String need = "must be [first, last]: two whole frame numbers counted from 0, first <= last";
-            if (!e.isJsonArray() || e.getAsJsonArray().size() != 2) {
-                throw bad("baseline_frames", need, e);
-            }
-            JsonArray a = e.getAsJsonArray();
-            int[] out = new int[2];
-            for (int i = 0; i < 2; i++) {
-                JsonElement x = a.get(i);
-                if (!isNumber(x) || x.getAsDouble() != Math.rint(x.getAsDouble()) || x.getAsDouble() < 0
-                        || x.getAsDouble() > Integer.MAX_VALUE) {
-                    throw bad("baseline_frames", need, e);
-                }
-                out[i] = (int) x.getAsDouble();
-            }
-            if (out[0] > out[1]) {
-                throw bad("baseline_frames", need, e);
-            }
-            return out;
-        }
-
-        private static boolean isNumber(JsonElement e) {
-            return e != null && e.isJsonPrimitive() && e.getAsJsonPrimitive().isNumber();
-        }
+        return out;
     }
 
     /** The keys Dendrokin reads, for documentation and tests. */

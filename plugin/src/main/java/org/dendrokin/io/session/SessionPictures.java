@@ -24,6 +24,7 @@ import org.dendrokin.io.plot.Heatmap;
 import org.dendrokin.io.plot.LinePlot;
 import org.dendrokin.io.plot.Picture;
 import org.dendrokin.io.plot.Pictures;
+import org.dendrokin.io.text.Numbers;
 
 /** The pictures of an analysis, written as PNG next to the report. */
 public final class SessionPictures {
@@ -233,6 +234,6 @@ public final class SessionPictures {
     }
 
     static String fmt(double v) {
-        return ReportHtml.number(v);
+        return Numbers.forPeople(v);
     }
 }

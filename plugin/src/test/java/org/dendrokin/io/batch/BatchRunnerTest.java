@@ -121,6 +121,25 @@ class BatchRunnerTest {
     }
 
     @Test
+    void aResultsFileCutShortOrDeletedSinceIsRedoneNotCountedEmpty(@TempDir Path tmp) throws IOException {
+        Path root = tmp.resolve("study");
+        for (int i = 0; i < 3; i++) {
+            BatchFixtures.session(root, "s" + i, "a", 0.5 + i * 0.1, 0.2);
+        }
+        Path out = tmp.resolve("out");
+        run(root, out, 1, FAKE);
+        Path cut = out.resolve("sessions/s0/results.json");
+        String whole = BatchFixtures.read(cut);
+        Files.writeString(cut, whole.substring(0, whole.length() / 2));
+        Files.delete(out.resolve("sessions/s1/results.json"));
+        BatchOutcome again = run(root, out, 1, FAKE);
+        assertEquals(2, again.analysed(), "the two sessions with damaged results are redone");
+        assertEquals(1, again.skipped(), "the intact one is kept");
+        assertEquals(whole, BatchFixtures.read(cut), "results.json written again in full");
+        assertEquals("0.6", summary(out).get(1).get("diffusion-decay D [um^2/s]"), "s1 is back in the table");
+    }
+
+    @Test
     void aNewVersionOfTheMovieIsNoticed(@TempDir Path tmp) throws IOException {
         Path root = tmp.resolve("study");
         BatchFixtures.session(root, "s0", "a", 0.5, 0.2);

@@ -112,4 +112,18 @@ class SessionConfigTest {
         assertTrue(error(" \n").contains("is empty"), "empty file");
         assertEquals(1, message.split("\n").length, "one line");
     }
+
+    @Test
+    void anUnknownModelNameAKeyGivenTwiceAndTextAfterTheObjectAreRefused() {
+        String model = error("{\"models\": [\"diffusion-decay\", \"cable-wave\"]}");
+        assertTrue(model.contains("key \"models\"") && model.contains("cable-wave") && model.contains("nagumo"),
+                model);
+        String twice = error("{\"path_width_um\": 1,\n \"path_width_um\": 2}");
+        assertTrue(twice.startsWith(FILE + ": ") && twice.contains("key \"path_width_um\"") && twice.contains("twice"),
+                twice);
+        assertTrue(error("{\"movie\": \"a.tif\"}\n{\"movie\": \"b.tif\"}").contains("text after the end"));
+        assertTrue(error("{\"stimulus\": {\"time_s\": NaN}}").contains("key \"stimulus.time_s\""));
+        assertEquals(2.0, SessionConfig.parse(FILE, "\uFEFF{\"path_width_um\": 2}").pathWidthUm(), 0.0,
+                "a byte-order mark is ignored");
+    }
 }

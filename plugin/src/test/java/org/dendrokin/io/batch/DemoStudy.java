@@ -1,15 +1,14 @@
 package org.dendrokin.io.batch;
 
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Locale;
 import java.util.Random;
 
 import com.google.gson.GsonBuilder;
 import com.google.gson.JsonObject;
-import com.google.gson.JsonParser;
 
 import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.json.JsonFiles;
 import org.dendrokin.io.demo.DemoSessionGenerator;
 import org.dendrokin.io.demo.DemoSessionGenerator.Scenario;
 
@@ -20,9 +19,9 @@ import org.dendrokin.io.demo.DemoSessionGenerator.Scenario;
  * control's (0.8 against 0.4 um^2/s), each cell varies around its group's value by 15% (log-normal), and the
  * decay rate is 0.05 1/s +- 15% everywhere.
  *
- * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.batch.DemoStudy OUT_DIR N [WIDTH HEIGHT FRAMES]}
- * (defaults 128 x 64 pixels, 100 frames, about 1.6 MB a movie; smaller frames leave too few pixels away
- * from the path to estimate the background).
+ * <p>Usage: {@code java -cp "$(bench/test-classpath.sh)" org.dendrokin.io.batch.DemoStudy OUT_DIR N
+ * [WIDTH HEIGHT FRAMES]} (defaults 128 x 64 pixels, 100 frames, about 1.6 MB a movie; smaller frames leave too
+ * few pixels away from the path to estimate the background). A main beside the tests: it is not shipped.
  */
 public final class DemoStudy {
     private DemoStudy() {
@@ -62,13 +61,9 @@ public final class DemoStudy {
     }
 
     private static void addGroup(Path json, String group, double d, double k) {
-        try {
-            JsonObject o = JsonParser.parseString(Files.readString(json)).getAsJsonObject();
-            o.addProperty("group", group);
-            o.addProperty("notes", String.format(Locale.ROOT, "demo study: true D %.4f um^2/s, true k %.4f 1/s", d, k));
-            AtomicFiles.writeString(json, new GsonBuilder().setPrettyPrinting().create().toJson(o) + "\n");
-        } catch (java.io.IOException e) {
-            throw new java.io.UncheckedIOException(e);
-        }
+        JsonObject o = JsonFiles.readObject(json, "the session's settings");
+        o.addProperty("group", group);
+        o.addProperty("notes", String.format(Locale.ROOT, "demo study: true D %.4f um^2/s, true k %.4f 1/s", d, k));
+        AtomicFiles.writeString(json, new GsonBuilder().setPrettyPrinting().create().toJson(o) + "\n");
     }
 }

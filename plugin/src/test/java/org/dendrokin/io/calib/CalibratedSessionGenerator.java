@@ -36,8 +36,8 @@ import ij.process.ShortProcessor;
  * noise (SD 3 counts); there is no bleaching. The standards are the indicator's curve at nine concentrations
  * in triplicate with 1.5% noise, as a user would measure them in the same band on the same setup.
  *
- * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.calib.CalibratedSessionGenerator [OUT_DIR]}
- * (default {@code test-images/calibrated-session}).
+ * <p>Usage: {@code java -cp "$(bench/test-classpath.sh)" org.dendrokin.io.calib.CalibratedSessionGenerator
+ * [OUT_DIR]} (default {@code test-images/calibrated-session}). Test code, not shipped.
  */
 public final class CalibratedSessionGenerator {
     static final int WIDTH_PX = 150;

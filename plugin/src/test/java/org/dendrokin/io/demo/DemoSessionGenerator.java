@@ -32,8 +32,9 @@ import ij.process.ShortProcessor;
  * a constant offset plus autofluorescence that does not bleach, photon (Poisson-like, variance = counts) noise
  * and read noise.
  *
- * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.demo.DemoSessionGenerator [OUT_DIR]}
- * (default {@code test-images/demo-session}).
+ * <p>Usage: {@code java -cp "$(bench/test-classpath.sh)" org.dendrokin.io.demo.DemoSessionGenerator [OUT_DIR]}
+ * (default {@code test-images/demo-session}). Test code, not shipped: the {@code demo} command analyses the
+ * session this wrote, which the jar carries.
  */
 public final class DemoSessionGenerator {
     private DemoSessionGenerator() {

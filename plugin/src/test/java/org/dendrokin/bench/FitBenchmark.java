@@ -1,4 +1,4 @@
-package org.dendrokin.io.fit;
+package org.dendrokin.bench;
 
 import java.io.IOException;
 import java.nio.file.Files;
@@ -36,8 +36,9 @@ import org.dendrokin.io.KymographCsv;
  * profile-likelihood intervals are timed separately. Each case is warmed up by repeated fits for 2 s (at least one
  * fit) before the best of the timed repeats is taken; the first, cold fit of each case is printed too.
  *
- * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.fit.FitBenchmark OUT_DIR [repeats] [cases]}, cases
- * {@code all} (the default), {@code diffusion-decay} or {@code nagumo}.
+ * <p>Usage: {@code java -cp "$(bench/test-classpath.sh)" org.dendrokin.bench.FitBenchmark OUT_DIR [repeats] [cases]},
+ * cases {@code all} (the default), {@code diffusion-decay} or {@code nagumo}; or {@code bench/fit-benchmark.sh}, which
+ * runs the SciPy side too. A main beside the tests: it is not shipped.
  */
 public final class FitBenchmark {
     static final int[][] SIZES = {{60, 150}, {200, 400}, {400, 1500}};

@@ -1,4 +1,4 @@
-package org.dendrokin.io.batch;
+package org.dendrokin.bench;
 
 import java.io.IOException;
 import java.lang.management.ManagementFactory;
@@ -6,9 +6,17 @@ import java.lang.management.MemoryPoolMXBean;
 import java.lang.management.MemoryType;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.Comparator;
 import java.util.Locale;
+import java.util.stream.Stream;
 
 import org.dendrokin.core.Progress;
+import org.dendrokin.io.batch.BatchOptions;
+import org.dendrokin.io.batch.BatchOutcome;
+import org.dendrokin.io.batch.BatchRunner;
+import org.dendrokin.io.batch.DemoStudy;
+import org.dendrokin.io.batch.SessionAnalyzers;
+import org.dendrokin.io.batch.SessionFolder;
 
 /**
  * Benchmark (run by hand, not a test): analyses every session under STUDY once per thread count, each time
@@ -19,8 +27,8 @@ import org.dendrokin.core.Progress;
  * 50 ms; file-backed pages are movie pages mapped from the page cache, which the system can drop at any time)
  * and the process's peak resident memory so far (VmHWM).
  *
- * <p>Usage: {@code java -cp dendrokin-cli.jar org.dendrokin.io.batch.BatchBenchmark STUDY OUT_BASE THREADS...
- * [--no-warm-up]}
+ * <p>Usage: {@code java -cp "$(bench/test-classpath.sh)" org.dendrokin.bench.BatchBenchmark STUDY OUT_BASE
+ * THREADS... [--no-warm-up]} (a main beside the tests: it is not shipped)
  */
 public final class BatchBenchmark {
     private BatchBenchmark() {
@@ -40,7 +48,7 @@ public final class BatchBenchmark {
         int last = warm ? args.length : args.length - 1;
         if (warm) {
             Path warmStudy = base.resolve("warm-up-study");
-            BatchRunner.deleteTree(warmStudy);
+            deleteTree(warmStudy);
             DemoStudy.write(warmStudy, 6, 128, 64, 100, 1L);
             pass(warmStudy, base.resolve("warm-up"), 2, 6, "warm-up");
         }
@@ -51,7 +59,7 @@ public final class BatchBenchmark {
     }
 
     private static void pass(Path study, Path out, int threads, int sessions, String label) throws IOException {
-        BatchRunner.deleteTree(out);
+        deleteTree(out);
         Files.createDirectories(out);
         System.gc();
         for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
@@ -87,6 +95,18 @@ public final class BatchBenchmark {
                         + "peak anonymous RSS %d MB, peak file-backed RSS %d MB (mapped movie pages), "
                         + "process peak RSS so far %s%n", label, o.analysed(), o.failed(), seconds, sessions / seconds,
                 peak >> 20, peakRss[0] >> 10, peakRss[1] >> 10, vmHwm());
+    }
+
+    /** Deletes {@code dir} and everything in it, if it exists. */
+    private static void deleteTree(Path dir) throws IOException {
+        if (!Files.exists(dir)) {
+            return;
+        }
+        try (Stream<Path> all = Files.walk(dir)) {
+            for (Path p : all.sorted(Comparator.reverseOrder()).toList()) {
+                Files.delete(p);
+            }
+        }
     }
 
     /** RssAnon and RssFile of this process, kB (0 where /proc is not there). */
