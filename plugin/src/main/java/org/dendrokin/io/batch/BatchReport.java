@@ -71,6 +71,18 @@ public final class BatchReport {
                 .append("analysed, and fits that converged, count. p values are two-sided and not corrected for ")
                 .append("the number of comparisons; with few sessions per group, read the effect size and the ")
                 .append("picture rather than the p value.</p>\n");
+        Map<String, Long> units = table.entries().stream().filter(e -> e.results() != null)
+                .map(e -> e.results().has("signal_unit") ? e.results().get("signal_unit").getAsString() : "")
+                .collect(java.util.stream.Collectors.groupingBy(u -> u, TreeMap::new,
+                        java.util.stream.Collectors.counting()));
+        if (units.size() > 1) {
+            html.append("<p><b>The sessions were analysed in different signal units</b> (")
+                    .append(esc(units.entrySet().stream().map(e -> e.getValue() + " in " + e.getKey())
+                            .collect(java.util.stream.Collectors.joining(", "))))
+                    .append("). A quantity in the signal's unit, such as an amplitude or a baseline, is listed and ")
+                    .append("compared separately for each unit and never pooled across them; D, k and the other ")
+                    .append("constants carry their own units.</p>\n");
+        }
         Map<String, String> groupOf = new TreeMap<>();
         for (SummaryTable.SessionEntry e : table.entries()) {
             groupOf.put(e.id(), e.group().isEmpty() ? NO_GROUP : e.group());

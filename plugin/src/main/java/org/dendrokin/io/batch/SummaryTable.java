@@ -6,9 +6,12 @@ import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.HashSet;
 import java.util.LinkedHashMap;
+import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
+import java.util.Set;
 import java.util.stream.Collectors;
 
 import com.google.gson.JsonElement;
@@ -66,14 +69,17 @@ public final class SummaryTable {
         }
     }
 
-    /** Reads the results of {@code ids} under {@code out/sessions}. */
+    /**
+     * Reads the results of {@code ids} under {@code out/sessions}. A quantity is kept apart by its unit: a fitted
+     * amplitude in dF/F0 and one in uM become two columns and two distributions, never one. A number without an
+     * interval (a count) gets one column; an estimate gets its value and the two ends of its 95% interval.
+     */
     public static SummaryTable read(Path out, List<String> ids) {
         SummaryTable t = new SummaryTable();
         Map<String, Map<String, String>> cells = new LinkedHashMap<>();
+        Columns columns = new Columns();
         List<String> spreadNames = new ArrayList<>(List.of(SPREAD_ORDER));
         Map<String, List<String>> modelParams = new LinkedHashMap<>();
-        Map<String, String> units = new LinkedHashMap<>();
-        Map<String, Map<String, Double>> values = new LinkedHashMap<>();
         for (String id : ids.stream().sorted(SessionFolder.ORDER).toList()) {
             String key = new SessionFolder(id, out).key();
             Path dir = out.resolve("sessions").resolve(key);
@@ -94,7 +100,7 @@ public final class SummaryTable {
                         if (!spreadNames.contains(e.getKey())) {
                             spreadNames.add(e.getKey());
                         }
-                        estimate(row, "spread:" + e.getKey(), object(e.getValue()), units, values, id);
+                        columns.cell(row, "spread:" + e.getKey(), e.getValue(), id, true);
                     }
                 }
                 if (results.get("fits") != null && results.get("fits").isJsonArray()) {
@@ -106,8 +112,10 @@ public final class SummaryTable {
                         String model = text(fit.get("model"));
                         List<String> params = modelParams.computeIfAbsent(model, m -> new ArrayList<>());
                         boolean converged = !fit.has("converged") || "true".equals(text(fit.get("converged")));
-                        for (String k : new String[] {"converged", "aic", "bic", "rmse"}) {
-                            row.put("fit:" + model + ":" + k, text(fit.get(k)));
+                        JsonObject misfit = object(fit.get("misfit"));
+                        boolean describes = misfit == null || !"misfit".equals(text(misfit.get("verdict")));
+                        for (String k : FIT_COLUMNS) {
+                            row.put("fit:" + model + ":" + k, k.equals("residuals") ? residuals(fit) : text(fit.get(k)));
                         }
                         JsonObject ps = object(fit.get("parameters"));
                         if (ps != null) {
@@ -115,8 +123,10 @@ public final class SummaryTable {
                                 if (!params.contains(p.getKey())) {
                                     params.add(p.getKey());
                                 }
-                                estimate(row, "param:" + model + ":" + p.getKey(), object(p.getValue()), units,
-                                        converged ? values : new LinkedHashMap<>(), id);
+                                // a fit that did not converge, or whose model does not describe the data, gives no
+                                // value to the group statistics
+                                columns.cell(row, "param:" + model + ":" + p.getKey(), p.getValue(), id,
+                                        converged && describes);
                             }
                         }
                     }
@@ -136,18 +146,19 @@ public final class SummaryTable {
         order.add(new String[] {"status", "status"});
         order.add(new String[] {"error", "error"});
         order.add(new String[] {"best_model", "best_model"});
+        order.add(new String[] {"signal_unit", "signal_unit"});
         for (String s : spreadNames) {
-            addEstimateColumns(order, "spread:" + s, s, units);
+            columns.addColumns(order, "spread:" + s, s);
         }
         for (Map.Entry<String, List<String>> m : modelParams.entrySet()) {
-            for (String k : new String[] {"converged", "aic", "bic", "rmse"}) {
+            for (String k : FIT_COLUMNS) {
                 order.add(new String[] {"fit:" + m.getKey() + ":" + k, m.getKey() + " " + k});
             }
             for (String p : m.getValue()) {
-                addEstimateColumns(order, "param:" + m.getKey() + ":" + p, m.getKey() + " " + p, units);
+                columns.addColumns(order, "param:" + m.getKey() + ":" + p, m.getKey() + " " + p);
             }
         }
-        for (String c : new String[] {"warnings", "signal_unit", "tool_version", "settings_sha256", "inputs_sha256"}) {
+        for (String c : new String[] {"warnings", "tool_version", "settings_sha256", "inputs_sha256"}) {
             order.add(new String[] {c, c});
         }
         for (String[] c : order) {
@@ -161,55 +172,117 @@ public final class SummaryTable {
             t.rows.add(named);
         }
         for (String s : spreadNames) {
-            addQuantity(t, "spread:" + s, s, units, values);
+            columns.addQuantities(t, "spread:" + s, s);
         }
         for (Map.Entry<String, List<String>> m : modelParams.entrySet()) {
             for (String p : m.getValue()) {
-                addQuantity(t, "param:" + m.getKey() + ":" + p, m.getKey() + " " + p, units, values);
+                columns.addQuantities(t, "param:" + m.getKey() + ":" + p, m.getKey() + " " + p);
             }
         }
         return t;
     }
 
-    private static void addQuantity(SummaryTable t, String key, String label, Map<String, String> units,
-                                    Map<String, Map<String, Double>> values) {
-        Map<String, Double> v = values.get(key);
-        if (v != null && !v.isEmpty()) {
-            t.quantities.add(new Quantity(label, units.getOrDefault(key, ""), v));
+    /** Columns written for every fitted model besides its parameters. */
+    static final String[] FIT_COLUMNS = {"converged", "aic", "bic", "rmse", "residuals"};
+
+    /** The residual verdict of a fit, e.g. {@code misfit: stripes along time}; "not tried" or empty without one. */
+    private static String residuals(JsonObject fit) {
+        JsonObject m = object(fit.get("misfit"));
+        if (m == null) {
+            return text(fit.get("tried")).equals("false") ? "not tried" : "";
         }
+        String pattern = text(m.get("pattern"));
+        return text(m.get("verdict")) + (pattern.isEmpty() || pattern.equals("none") ? "" : ": " + pattern);
     }
 
-    private static void addEstimateColumns(List<String[]> order, String key, String label, Map<String, String> units) {
-        String unit = units.getOrDefault(key, "");
-        String suffix = unit.isEmpty() ? "" : " [" + unit + "]";
-        order.add(new String[] {key, label + suffix});
-        order.add(new String[] {key + ":lo", label + " ci95 low" + suffix});
-        order.add(new String[] {key + ":hi", label + " ci95 high" + suffix});
-    }
+    /**
+     * The columns of the quantities, kept apart by unit: each base key (e.g. {@code param:diffusion-decay:D}) has
+     * one set of columns per unit seen, in the order seen, and each set its own distribution for the group
+     * statistics.
+     */
+    private static final class Columns {
+        private final Map<String, Set<String>> units = new LinkedHashMap<>();
+        private final Set<String> withInterval = new HashSet<>();
+        private final Set<String> words = new HashSet<>();
+        private final Map<String, Map<String, Double>> values = new LinkedHashMap<>();
 
-    private static void estimate(Map<String, String> row, String key, JsonObject e, Map<String, String> units,
-                                 Map<String, Map<String, Double>> values, String id) {
-        if (e == null) {
-            return;
+        private static String key(String base, String unit) {
+            return base + "|" + unit;
         }
-        String unit = text(e.get("unit"));
-        if (!unit.isEmpty()) {
-            units.putIfAbsent(key, unit);
+
+        private String seen(String base, String unit) {
+            units.computeIfAbsent(base, b -> new LinkedHashSet<>()).add(unit);
+            return key(base, unit);
         }
-        String v = text(e.get("value"));
-        row.put(key, v);
-        JsonElement ci = e.get("ci95");
-        if (ci != null && ci.isJsonArray() && ci.getAsJsonArray().size() == 2) {
-            row.put(key + ":lo", text(ci.getAsJsonArray().get(0)));
-            row.put(key + ":hi", text(ci.getAsJsonArray().get(1)));
-        }
-        try {
-            double d = Double.parseDouble(v);
-            if (Double.isFinite(d)) {
-                values.computeIfAbsent(key, k -> new LinkedHashMap<>()).put(id, d);
+
+        /** Records one session's cell of a quantity: an estimate, a plain number, or the front's verdict. */
+        void cell(Map<String, String> row, String base, JsonElement element, String id, boolean counts) {
+            if (element == null || element.isJsonNull()) {
+                return;
             }
-        } catch (NumberFormatException ignored) {
-            // a missing or non-numeric value stays out of the distributions
+            if (element.isJsonPrimitive()) {
+                String key = seen(base, "");
+                row.put(key, text(element));
+                number(key, text(element), id, counts);
+                return;
+            }
+            JsonObject e = object(element);
+            if (e == null) {
+                return;
+            }
+            if (e.has("verdict") && !e.has("value")) {
+                // whether the arrival times show a front: a word, not a number
+                String key = seen(base, "");
+                words.add(key);
+                row.put(key, text(e.get("verdict")));
+                return;
+            }
+            String key = seen(base, text(e.get("unit")));
+            String v = text(e.get("value"));
+            row.put(key, v);
+            JsonElement ci = e.get("ci95");
+            if (ci != null && ci.isJsonArray() && ci.getAsJsonArray().size() == 2) {
+                withInterval.add(key);
+                row.put(key + ":lo", text(ci.getAsJsonArray().get(0)));
+                row.put(key + ":hi", text(ci.getAsJsonArray().get(1)));
+            }
+            number(key, v, id, counts);
+        }
+
+        private void number(String key, String text, String id, boolean counts) {
+            if (!counts) {
+                return;
+            }
+            try {
+                double d = Double.parseDouble(text);
+                if (Double.isFinite(d)) {
+                    values.computeIfAbsent(key, k -> new LinkedHashMap<>()).put(id, d);
+                }
+            } catch (NumberFormatException ignored) {
+                // a missing or non-numeric value stays out of the distributions
+            }
+        }
+
+        void addColumns(List<String[]> order, String base, String label) {
+            for (String unit : units.getOrDefault(base, Set.of())) {
+                String key = key(base, unit);
+                String suffix = unit.isEmpty() ? "" : " [" + unit + "]";
+                order.add(new String[] {key, label + suffix});
+                if (withInterval.contains(key)) {
+                    order.add(new String[] {key + ":lo", label + " ci95 low" + suffix});
+                    order.add(new String[] {key + ":hi", label + " ci95 high" + suffix});
+                }
+            }
+        }
+
+        void addQuantities(SummaryTable t, String base, String label) {
+            for (String unit : units.getOrDefault(base, Set.of())) {
+                String key = key(base, unit);
+                Map<String, Double> v = values.get(key);
+                if (v != null && !v.isEmpty() && !words.contains(key) && withInterval.contains(key)) {
+                    t.quantities.add(new Quantity(label, unit, v));
+                }
+            }
         }
     }
 
