@@ -4,7 +4,7 @@
 # pipeline, and compared with the truth; prints a markdown table (CoverageStudy).
 #
 # Usage: bench/coverage/run-coverage-study.sh [CoverageStudy options]
-#   e.g. bench/coverage/run-coverage-study.sh --seeds 100 --scenarios realistic --threads 2 --csv /tmp/coverage.csv
+#   e.g. bench/coverage/run-coverage-study.sh --seeds 100 --scenarios realistic --threads 2 --csv coverage.csv
 #   --help lists the options (seeds, first seed, scenarios, threads, models, work folder, keep, csv).
 set -euo pipefail
 ROOT="$(cd "$(dirname "$0")/../.." && pwd)"
