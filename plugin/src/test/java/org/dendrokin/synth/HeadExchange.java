@@ -9,7 +9,8 @@ import org.dendrokin.core.Checks;
  * dc_h/dt = (c_d(t) - c_h) / tau - kHead c_h, with the shaft's value c_d at the spine's base given as a function of
  * time. Integrated exactly for c_d linear over each sub-step (exponential integrator):
  * <pre>
- *   c(t + h) = c(t) e^(-L h) + g0 (1 - e^(-L h)) / L + (g1 - g0) / h * (h (1 - e^(-L h)) / L - (1 - e^(-L h) (1 + L h)) / L^2)
+ *   c(t + h) = c(t) e^(-L h) + g0 (1 - e^(-L h)) / L
+ *              + (g1 - g0) / h * (h (1 - e^(-L h)) / L - (1 - e^(-L h) (1 + L h)) / L^2)
  * </pre>
  * with L = 1/tau + kHead and g = c_d / tau at the sub-step's ends. Sub-steps are at most tau / 8 and an eighth of the
  * output spacing, and one ends exactly at the stimulus time, where a stimulated head's value jumps by {@code kick}.

@@ -51,7 +51,7 @@ class HeadExchangeTest {
                 dy[0] = (shaft.applyAsDouble(t) - y[0]) / tau - kHead * y[0];
             }
         };
-        // REF: Commons Math DormandPrince853Integrator, tolerances 1e-12, as an independent integrator [common practice]
+        // REF: Commons Math DormandPrince853Integrator, tolerances 1e-12, an independent integrator [common practice]
         DormandPrince853Integrator reference = new DormandPrince853Integrator(1e-8, 1, 1e-13, 1e-12);
         double[] y = {kick};
         double t = t0;

@@ -15,7 +15,8 @@ class MotionTest {
         SessionSpec moved = still.withMotion(new SessionSpec.Motion(0, 0, 0, 3 * px, -2 * px, 0));
         SessionGenerator.Rendering a = SessionGenerator.render(still);
         SessionGenerator.Rendering b = SessionGenerator.render(moved);
-        assertArrayEquals(a.truth().path().xPx(), b.truth().path().xPx(), 0, "the drawn path does not depend on motion");
+        assertArrayEquals(a.truth().path().xPx(), b.truth().path().xPx(), 0,
+                "the drawn path does not depend on motion");
         int w = a.width();
         double worst = 0;
         for (int f : new int[] {0, 19, 25, 39}) {
@@ -23,7 +24,8 @@ class MotionTest {
             float[] eb = b.expected()[b.plane(0, 0, f)];
             for (int j = 0; j < a.height() - 2; j++) {
                 for (int i = 3; i < w; i++) {
-                    worst = Math.max(worst, Math.abs(eb[j * w + i] - ea[(j + 2) * w + i - 3]) / ea[(j + 2) * w + i - 3]);
+                    float before = ea[(j + 2) * w + i - 3];
+                    worst = Math.max(worst, Math.abs(eb[j * w + i] - before) / before);
                 }
             }
         }

@@ -1,5 +1,6 @@
 package org.dendrokin.synth;
 
+import java.util.Arrays;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
@@ -128,7 +129,7 @@ final class Renderer {
         double sx = scene.shiftXPx[frame];
         double sy = scene.shiftYPx[frame];
         for (int r = rowFrom; r < rowTo; r++) {
-            java.util.Arrays.fill(density, r * fineW, (r + 1) * fineW, 0);
+            Arrays.fill(density, r * fineW, (r + 1) * fineW, 0);
         }
         shaft(signal, sx, sy, rowFrom, rowTo);
         List<Scene.SpineGeometry> spines = scene.spines;
@@ -330,7 +331,7 @@ final class Renderer {
             int base = r * fineW + pad;
             int dst = r * outW;
             if (zeroRow(r)) {
-                java.util.Arrays.fill(rowsBlurred, dst, dst + outW, 0);
+                Arrays.fill(rowsBlurred, dst, dst + outW, 0);
                 continue;
             }
             for (int c = 0; c < outW; c++) {
@@ -344,7 +345,7 @@ final class Renderer {
         }
         for (int r = outFrom; r < outTo; r++) {
             int dst = r * outW;
-            java.util.Arrays.fill(fine, dst, dst + outW, 0);
+            Arrays.fill(fine, dst, dst + outW, 0);
             int srcRow = r + pad - radius;
             for (int i = 0; i < k.length; i++) {
                 if (zeroRow(srcRow + i)) {

@@ -380,27 +380,29 @@ final class Scene {
     // ---------------------------------------------------------------------------------------------------------
     // Spines and the intruder
 
+    /** Where a spine leaves the axis. */
+    private record Base(double axisUm, int side, boolean stimulated) {
+    }
+
     private List<SpineGeometry> spines(SessionSpec.Spines s, SplittableRandom random) {
-        List<double[]> bases = new ArrayList<>();   // {axisUm, side}
+        List<Base> bases = new ArrayList<>();
         if (s.perUm() > 0) {
             double pos = -Math.log(1 - random.nextDouble()) / s.perUm();
             while (pos < axisLengthUm) {
-                bases.add(new double[] {pos, random.nextBoolean() ? 1 : -1});
+                bases.add(new Base(pos, random.nextBoolean() ? 1 : -1, false));
                 pos += -Math.log(1 - random.nextDouble()) / s.perUm();
             }
         }
         int stimulatedSide = random.nextBoolean() ? 1 : -1;
         if (s.stimulatedSpine() && s.perUm() > 0) {
-            bases.removeIf(b -> b[1] == stimulatedSide && Math.abs(b[0] - stimulusAxisUm) < s.minGapUm());
-            bases.add(new double[] {stimulusAxisUm, stimulatedSide, 1});
+            bases.removeIf(b -> b.side() == stimulatedSide && Math.abs(b.axisUm() - stimulusAxisUm) < s.minGapUm());
+            bases.add(new Base(stimulusAxisUm, stimulatedSide, true));
         }
-        bases.sort(Comparator.comparingDouble(b -> b[0]));
+        bases.sort(Comparator.comparingDouble(Base::axisUm));
         List<SpineGeometry> out = new ArrayList<>();
         double[] lastOnSide = {Double.NEGATIVE_INFINITY, Double.NEGATIVE_INFINITY};
-        for (double[] b : bases) {
-            boolean stimulated = b.length > 2;
-            int side = (int) b[1];
-            int sideIndex = side > 0 ? 0 : 1;
+        for (Base b : bases) {
+            int sideIndex = b.side() > 0 ? 0 : 1;
             // Draw every spine's properties even if it is dropped, so that the others do not depend on the gap rule.
             double[] hr = s.headRadiusUm();
             double[] nl = s.neckLengthUm();
@@ -411,20 +413,20 @@ final class Scene {
             double bright = br[0] + (br[1] - br[0]) * random.nextDouble();
             double tauNeck = tau[0] * Math.pow(tau[1] / tau[0], random.nextDouble());
             double tilt = Math.toRadians(25) * (2 * random.nextDouble() - 1);
-            if (!stimulated && b[0] - lastOnSide[sideIndex] < s.minGapUm()) {
+            if (!b.stimulated() && b.axisUm() - lastOnSide[sideIndex] < s.minGapUm()) {
                 continue;
             }
-            lastOnSide[sideIndex] = b[0];
-            double sPx = b[0] / px;
+            lastOnSide[sideIndex] = b.axisUm();
+            double sPx = b.axisUm() / px;
             double[] q = axis.point(sPx);
             double[] nrm = axis.normal(sPx);
             double[] tan = axis.tangent(sPx);
-            double ex = side * (nrm[0] * Math.cos(tilt) + tan[0] * Math.sin(tilt));
-            double ey = side * (nrm[1] * Math.cos(tilt) + tan[1] * Math.sin(tilt));
-            double r = radiusUm(b[0]);
-            out.add(new SpineGeometry(b[0], side, q[0] + ex * r / px, q[1] + ey * r / px,
+            double ex = b.side() * (nrm[0] * Math.cos(tilt) + tan[0] * Math.sin(tilt));
+            double ey = b.side() * (nrm[1] * Math.cos(tilt) + tan[1] * Math.sin(tilt));
+            double r = radiusUm(b.axisUm());
+            out.add(new SpineGeometry(b.axisUm(), b.side(), q[0] + ex * r / px, q[1] + ey * r / px,
                     q[0] + ex * (r + neck + head) / px, q[1] + ey * (r + neck + head) / px, head, neck, bright,
-                    tauNeck, stimulated));
+                    tauNeck, b.stimulated()));
         }
         return List.copyOf(out);
     }

@@ -123,6 +123,27 @@ public final class SessionGenerator {
         }
     }
 
+    /**
+     * Writes one session folder of a named scenario (see {@link CoverageHarness#scenarios}), to look at in ImageJ
+     * or to analyse by hand. Usage: {@code SessionGenerator SCENARIO SEED OUT_DIR}.
+     */
+    public static void main(String[] args) {
+        if (args.length != 3) {
+            System.err.println("usage: SessionGenerator SCENARIO SEED OUT_DIR; scenarios: "
+                    + String.join(", ", CoverageHarness.scenarios().keySet()));
+            System.exit(2);
+        }
+        CoverageHarness.Scenario scenario = CoverageHarness.scenarios().get(args[0]);
+        if (scenario == null) {
+            System.err.println("unknown scenario " + args[0]);
+            System.exit(2);
+        }
+        Written w = write(scenario.specs().apply(Long.parseLong(args[1])), Path.of(args[2]));
+        System.out.printf(Locale.ROOT, "Wrote %s: D %.4g um^2/s, k %.4g 1/s, stimulus at %.3g s, %.3g um along the "
+                + "path%n", w.dir(), w.truth().signal().dUm2PerS(), w.truth().signal().kPerS(),
+                w.truth().stimulus().timeS(), w.truth().stimulus().pathPositionUm());
+    }
+
     /** Renders a session in memory. */
     public static Rendering render(SessionSpec spec) {
         Scene scene = new Scene(spec);

@@ -11,7 +11,8 @@ import org.dendrokin.core.Checks;
  * intensities in camera counts. {@link #clean} and {@link #realistic} are the two presets; the {@code with...}
  * methods return a copy with one part replaced, e.g.
  * <pre>
- *   SessionSpec spec = SessionSpec.realistic(7).withMotion(Motion.linear(0.8, 0.2)).withChannels(Channels.twoStructuralFirst());
+ *   SessionSpec spec = SessionSpec.realistic(7).withMotion(Motion.linear(0.8, 0.02))
+ *           .withChannels(Channels.twoStructuralFirst());
  * </pre>
  * A spec does no random drawing itself except in the presets; {@link SessionGenerator} draws the random parts of
  * the scene (curve, spines, loading, background, jitter, noise) from {@link #seed}, each from its own stream, so

@@ -1,5 +1,7 @@
 package org.dendrokin.synth;
 
+import java.util.Arrays;
+
 import org.dendrokin.core.Checks;
 
 /**
@@ -38,7 +40,7 @@ interface SignalField {
         public void profile(double tS, double s0Um, double dsUm, double[] out) {
             double tau = tS - stimulusTimeS;
             if (tau < 0) {
-                java.util.Arrays.fill(out, 0);
+                Arrays.fill(out, 0);
                 return;
             }
             double v = sigma0Um * sigma0Um + 2 * dUm2PerS * tau;
@@ -104,7 +106,7 @@ interface SignalField {
             while (first < times.length && times[first] <= spec.timeS()) {
                 first++;
             }
-            double[] after = java.util.Arrays.copyOfRange(times, first, times.length);
+            double[] after = Arrays.copyOfRange(times, first, times.length);
             NagumoLine line = new NagumoLine(spec.dUm2PerS(), spec.kPerS(), spec.a(), h, nodes);
             this.solution = line.solve(lo, u0, spec.timeS(), after);
         }
