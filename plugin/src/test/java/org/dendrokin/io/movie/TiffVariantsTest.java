@@ -5,12 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import java.awt.color.ColorSpace;
-import java.awt.image.BufferedImage;
-import java.awt.image.ColorModel;
-import java.awt.image.ComponentColorModel;
-import java.awt.image.DataBuffer;
-import java.awt.image.WritableRaster;
 import java.io.IOException;
 import java.nio.ByteBuffer;
 import java.nio.ByteOrder;
@@ -22,18 +16,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.stream.Stream;
 
-import javax.imageio.IIOImage;
-import javax.imageio.ImageIO;
-import javax.imageio.ImageTypeSpecifier;
-import javax.imageio.ImageWriteParam;
-import javax.imageio.ImageWriter;
-import javax.imageio.metadata.IIOMetadata;
-import javax.imageio.metadata.IIOMetadataNode;
 import javax.imageio.plugins.tiff.BaselineTIFFTagSet;
-import javax.imageio.plugins.tiff.TIFFDirectory;
-import javax.imageio.plugins.tiff.TIFFField;
-import javax.imageio.plugins.tiff.TIFFTag;
-import javax.imageio.stream.ImageOutputStream;
 
 import ij.ImagePlus;
 import ij.ImageStack;
@@ -217,7 +200,7 @@ class TiffVariantsTest {
             throws IOException {
         String what = String.format(Locale.ROOT, "%d-bit %s %s %s", bits, compression, tiled ? "tiles" : "strips",
                 order);
-        Path file = writeWithJava(dir.resolve(what.replace(' ', '-') + ".tif"), bits, compression, tiled, order,
+        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve(what.replace(' ', '-') + ".tif"), bits, compression, tiled, order,
                 false, null, images(bits, 1));
         assertPixels(file, bits, 1, what);
         assertSameKymograph(kymograph(plain(bits, 0), 0), kymograph(file, 0), what);
@@ -228,7 +211,7 @@ class TiffVariantsTest {
     void eightBitPredictorFilesFromJavaGiveThePlainKymograph(String compression) throws IOException {
         for (boolean tiled : new boolean[] {false, true}) {
             String what = "8-bit " + compression + " predictor 2 " + (tiled ? "tiles" : "strips");
-            Path file = writeWithJava(dir.resolve(what.replace(' ', '-') + ".tif"), 8, compression, tiled,
+            Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve(what.replace(' ', '-') + ".tif"), 8, compression, tiled,
                     ByteOrder.LITTLE_ENDIAN, true, null, images(8, 1));
             assertPixels(file, 8, 1, what);
             assertSameKymograph(kymograph(plain(8, 0), 0), kymograph(file, 0), what);
@@ -328,7 +311,7 @@ class TiffVariantsTest {
                 }
             }
         }
-        Path lzw = writeWithJava(dir.resolve("float-lzw-predictor2.tif"), 32, "LZW", false, ByteOrder.BIG_ENDIAN,
+        Path lzw = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("float-lzw-predictor2.tif"), 32, "LZW", false, ByteOrder.BIG_ENDIAN,
                 false, null, differenced);
         setShortTag(lzw, BaselineTIFFTagSet.TAG_PREDICTOR, 2);
         assertRefused(lzw, "32-bit", "LZW", "TIFF predictor 2");
@@ -351,7 +334,7 @@ class TiffVariantsTest {
     @Test
     void tiledFileWithPredictor2On16BitSamplesIsRefused() throws IOException {
         // Java's writer writes 16-bit tiles without a predictor; marking them predicted makes the file this layout
-        Path file = writeWithJava(dir.resolve("tiles-16-predictor2.tif"), 16, "Deflate", true,
+        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("tiles-16-predictor2.tif"), 16, "Deflate", true,
                 ByteOrder.LITTLE_ENDIAN, false, null, images(16, 1));
         setShortTag(file, BaselineTIFFTagSet.TAG_PREDICTOR, 2);
         assertRefused(file, "16-bit", "in tiles", "TIFF predictor 2");
@@ -434,7 +417,7 @@ class TiffVariantsTest {
                 + "DimensionOrder=\"XYCZT\" Type=\"uint8\" SizeX=\"" + WIDTH + "\" SizeY=\"" + HEIGHT + "\" SizeZ=\"1\" "
                 + "SizeC=\"1\" SizeT=\"" + FRAMES + "\" PhysicalSizeX=\"0.0004\" PhysicalSizeXUnit=\"mm\" "
                 + "TimeIncrement=\"2\" TimeIncrementUnit=\"min\"><TiffData/></Pixels></Image></OME>";
-        Path file = writeWithJava(dir.resolve("ome-tiled.tif"), 8, "LZW", true, ByteOrder.BIG_ENDIAN, false, xml,
+        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("ome-tiled.tif"), 8, "LZW", true, ByteOrder.BIG_ENDIAN, false, xml,
                 images(8, 1));
         try (Movie movie = Movie.open(file, null, null)) {
             // REF: 0.0004 mm = 0.4 um and 2 min = 120 s, converted by hand [common practice]
@@ -465,12 +448,10 @@ class TiffVariantsTest {
 
         String broken = "<OME xmlns=\"" + OME_NS + "\"><Image ID=\"Image:0\">" + pixels + " PhysicalSizeX=\"3\" "
                 + "PhysicalSizeXUnit=\"thou\"><TiffData/></Pixels></Image></OME>";
-        try (Movie movie = Movie.open(imageJ(dir.resolve("thou.tif"), 16, 0, broken), null, 1.0)) {
-            fail("no usable pixel size: " + movie.pixelSizeUm());
-        } catch (InputException e) {
-            assertTrue(e.getMessage().contains("set \"pixel_size_um\""), e.getMessage());
-        }
-        try (Movie movie = Movie.open(dir.resolve("thou.tif"), 0.2, 1.0)) {
+        Path thou = imageJ(dir.resolve("thou.tif"), 16, 0, broken);
+        InputException noPixel = assertThrows(InputException.class, () -> Movie.open(thou, null, 1.0));
+        assertTrue(noPixel.getMessage().contains("set \"pixel_size_um\""), noPixel.getMessage());
+        try (Movie movie = Movie.open(thou, 0.2, 1.0)) {
             assertTrue(movie.warnings().stream().anyMatch(w -> w.contains("\"thou\"")), movie.warnings().toString());
         }
 
@@ -488,66 +469,6 @@ class TiffVariantsTest {
             assertTrue(movie.warnings().stream().anyMatch(w -> w.contains("could not be read as XML")),
                     movie.warnings().toString());
         }
-    }
-
-    private static void fail(String message) {
-        org.junit.jupiter.api.Assertions.fail(message);
-    }
-
-    // ---- writers
-
-    /** Writes the images with Java's TIFF writer; compression null means none. */
-    static Path writeWithJava(Path file, int bits, String compression, boolean tiled, ByteOrder order,
-            boolean predictor, String description, double[][][] images) throws IOException {
-        ImageWriter writer = ImageIO.getImageWritersByFormatName("tiff").next();
-        try (ImageOutputStream out = ImageIO.createImageOutputStream(file.toFile())) {
-            writer.setOutput(out);
-            ImageWriteParam param = writer.getDefaultWriteParam();
-            if (compression == null) {
-                param.setCompressionMode(ImageWriteParam.MODE_DISABLED);
-            } else {
-                param.setCompressionMode(ImageWriteParam.MODE_EXPLICIT);
-                param.setCompressionType(compression);
-            }
-            if (tiled) {
-                param.setTilingMode(ImageWriteParam.MODE_EXPLICIT);
-                param.setTiling(16, 16, 0, 0);
-            }
-            IIOMetadata stream = writer.getDefaultStreamMetadata(param);
-            IIOMetadataNode root = new IIOMetadataNode("javax_imageio_tiff_stream_1.0");
-            IIOMetadataNode byteOrder = new IIOMetadataNode("ByteOrder");
-            byteOrder.setAttribute("value", order.toString());
-            root.appendChild(byteOrder);
-            stream.setFromTree("javax_imageio_tiff_stream_1.0", root);
-            writer.prepareWriteSequence(stream);
-            for (int i = 0; i < images.length; i++) {
-                BufferedImage image = grey(bits, images[i][0]);
-                IIOMetadata metadata = writer.getDefaultImageMetadata(new ImageTypeSpecifier(image), param);
-                TIFFDirectory tags = TIFFDirectory.createFromMetadata(metadata);
-                BaselineTIFFTagSet base = BaselineTIFFTagSet.getInstance();
-                tags.addTIFFField(new TIFFField(base.getTag(BaselineTIFFTagSet.TAG_PREDICTOR), predictor ? 2 : 1));
-                if (description != null && i == 0) {
-                    tags.addTIFFField(new TIFFField(base.getTag(BaselineTIFFTagSet.TAG_IMAGE_DESCRIPTION),
-                            TIFFTag.TIFF_ASCII, 1, new String[] {description}));
-                }
-                writer.writeToSequence(new IIOImage(image, null, tags.getAsMetadata()), param);
-            }
-            writer.endWriteSequence();
-        } finally {
-            writer.dispose();
-        }
-        return file;
-    }
-
-    private static BufferedImage grey(int bits, double[] values) {
-        int type = bits == 8 ? DataBuffer.TYPE_BYTE : bits == 16 ? DataBuffer.TYPE_USHORT : DataBuffer.TYPE_FLOAT;
-        ColorModel cm = new ComponentColorModel(ColorSpace.getInstance(ColorSpace.CS_GRAY), false, false,
-                ColorModel.OPAQUE, type);
-        WritableRaster r = cm.createCompatibleWritableRaster(WIDTH, HEIGHT);
-        for (int p = 0; p < values.length; p++) {
-            r.setSample(p % WIDTH, p / WIDTH, 0, (float) values[p]);
-        }
-        return new BufferedImage(cm, r, false, null);
     }
 
     /** Sets a SHORT tag that each image directory already has, in place. */
