@@ -15,8 +15,6 @@ import java.util.Locale;
 import java.util.Properties;
 import java.util.Set;
 
-import ij.IJ;
-import ij.ImagePlus;
 import ij.io.FileInfo;
 import ij.io.FileOpener;
 import ij.io.TiffDecoder;
@@ -30,7 +28,7 @@ import org.dendrokin.io.InputException;
  * <p>Which reader: the first image directory's tags are read by Java's TIFF reader ({@link TiffTags}). Files that
  * ImageJ reads correctly (grey strips, uncompressed or compressed with LZW, Deflate or PackBits, a predictor only on
  * 8- and 16-bit samples) go to ImageJ: uncompressed ones through a memory map of the planes ({@link MappedPlanes}),
- * compressed ones through ImageJ's virtual stack ({@link VirtualPlanes}). Tiled files, files with several grey
+ * compressed ones decoded by ImageJ's reader one plane at a time ({@link StripPlanes}). Tiled files, files with several grey
  * samples a pixel (each sample a channel), and JPEG-compressed strips go to Java's TIFF reader
  * ({@link ImageIoPlanes}). What neither decodes correctly is refused with the reason: the floating-point
  * predictor (TIFF predictor 3), horizontal differencing (predictor 2) on 32-bit samples (ImageJ adds the
@@ -75,6 +73,7 @@ final class MovieLayout {
     private boolean intel;
     private long[] offsets;
     private boolean mappable;
+    private FileInfo[] planeInfo;
     /** For Java's route: the open file, handed to the plane store. */
     private JavaTiff javaTiff;
     private int samples = 1;
@@ -519,6 +518,12 @@ final class MovieLayout {
             if (present < planeCount) {
                 throw truncated(file, planeCount, present);
             }
+            planeInfo = new FileInfo[planeCount];
+            for (int i = 0; i < planeCount; i++) {
+                planeInfo[i] = info.length == planeCount ? info[i] : (FileInfo) info[0].clone();
+                planeInfo[i].longOffset = offsets[i];
+                planeInfo[i].offset = 0;
+            }
         } else {
             // compressed: every strip of every image must lie inside the file
             long present = 0;
@@ -535,6 +540,7 @@ final class MovieLayout {
             if (present < planeCount) {
                 throw truncated(file, planeCount, present);
             }
+            planeInfo = info;
         }
         mappable = uncompressed && MappedPlanes.supports(fileType);
     }
@@ -677,10 +683,10 @@ final class MovieLayout {
                 throw new InputException(file, "the movie could not be read (" + e.getMessage() + ")", e);
             }
         }
-        ImagePlus imp = IJ.openVirtual(file.toAbsolutePath().toString());
-        if (imp == null || imp.getStackSize() != planeCount) {
-            throw new InputException(file, "ImageJ could not read the images of this TIFF");
+        try {
+            return new StripPlanes(file, planeInfo);
+        } catch (IOException e) {
+            throw new InputException(file, "the movie could not be read (" + e.getMessage() + ")", e);
         }
-        return new VirtualPlanes(imp.getStack());
     }
 }

@@ -272,6 +272,29 @@ class TiffVariantsTest {
     }
 
     @Test
+    void signedSixteenBitSamplesKeepTheirSignCompressedOrNot() throws IOException {
+        double[][][] signed = images(16, 1);
+        for (double[][] image : signed) {
+            for (int p = 0; p < image[0].length; p++) {
+                image[0][p] -= 40000;  // -40000 .. 25535: both signs
+            }
+        }
+        SmallTiffWriter.Format plainSigned = SmallTiffWriter.Format.of(16, 2).order(ByteOrder.BIG_ENDIAN);
+        Path plainFile = SmallTiffWriter.write(dir.resolve("signed.tif"), plainSigned, WIDTH, HEIGHT, signed);
+        Path deflate = SmallTiffWriter.write(dir.resolve("signed-deflate.tif"),
+                plainSigned.compressed(SmallTiffWriter.DEFLATE, 2), WIDTH, HEIGHT, signed);
+        for (Path file : new Path[] {plainFile, deflate}) {
+            try (Movie movie = Movie.open(file, PIXEL_UM, FRAME_S)) {
+                float[] px = movie.channel(0).gather(3, new int[] {0, 11 * WIDTH + 30}, new float[2]);
+                // REF: the signed values the writer was given [common practice]
+                assertEquals(signed[3][0][0], px[0], 0.0, file.getFileName() + ", pixel 0");
+                assertEquals(signed[3][0][11 * WIDTH + 30], px[1], 0.0, file.getFileName() + ", pixel (30, 11)");
+            }
+        }
+        assertSameKymograph(kymograph(plainFile, 0), kymograph(deflate, 0), "signed 16-bit, Deflate predictor 2");
+    }
+
+    @Test
     void planarConfigurationWithOneSampleIsPlain() throws IOException {
         SmallTiffWriter.Format f = SmallTiffWriter.Format.of(16, 1).samples(1, 2).order(ByteOrder.BIG_ENDIAN);
         Path file = SmallTiffWriter.write(dir.resolve("planar-one.tif"), f, WIDTH, HEIGHT, images(16, 1));
