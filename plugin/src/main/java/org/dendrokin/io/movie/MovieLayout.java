@@ -275,6 +275,10 @@ final class MovieLayout {
         if (width <= 0 || height <= 0) {
             throw new InputException(file, "the TIFF gives an image size of " + width + " x " + height + " pixels");
         }
+        if (first.compression == TiffTags.COMPRESSION_JPEG || first.compression == TiffTags.COMPRESSION_OLD_JPEG) {
+            warnings.add("The movie " + file.getFileName() + " is JPEG-compressed, which loses information: its "
+                    + "intensities are not exactly those recorded.");
+        }
         checkDirectoryChain(file, intelHeader, Integer.MAX_VALUE);
         long size = fileSize(file);
         int images;

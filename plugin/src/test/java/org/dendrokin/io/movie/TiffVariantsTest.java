@@ -218,6 +218,26 @@ class TiffVariantsTest {
         }
     }
 
+    @Test
+    void jpegIsReadWithAWarningThatItIsLossy() throws IOException {
+        double[][][] smooth = new double[FRAMES][1][WIDTH * HEIGHT];
+        for (int i = 0; i < FRAMES; i++) {
+            for (int p = 0; p < WIDTH * HEIGHT; p++) {
+                smooth[i][0][p] = 100 + 2 * (p % WIDTH) + (p / WIDTH) + 3 * i;
+            }
+        }
+        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("jpeg.tif"), 8, "JPEG", false,
+                ByteOrder.LITTLE_ENDIAN, false, null, smooth);
+        try (Movie movie = Movie.open(file, PIXEL_UM, FRAME_S)) {
+            assertEquals(FRAMES, movie.frameCount());
+            assertTrue(movie.warnings().stream().anyMatch(w -> w.contains("JPEG-compressed")),
+                    movie.warnings().toString());
+            float[] px = movie.channel(0).gather(2, new int[] {14 * WIDTH + 20}, new float[1]);
+            // a smooth ramp survives JPEG at the writer's default quality to within a few grey levels
+            assertEquals(smooth[2][0][14 * WIDTH + 20], px[0], 4.0, "pixel (20, 14) of frame 2");
+        }
+    }
+
     // ---- ImageJ's own writer: both byte orders
 
     @ParameterizedTest(name = "{0}-bit")
