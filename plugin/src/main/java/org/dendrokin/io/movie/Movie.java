@@ -16,12 +16,12 @@ import org.dendrokin.io.InputException;
  *
  * <p>How the file is read is decided by {@link MovieLayout}: uncompressed grey strips through a memory map of the
  * planes at the offsets in the header ({@link MappedPlanes}); compressed strips (LZW, Deflate, PackBits) through
- * ImageJ's own decoder, one plane at a time ({@link StripPlanes}); tiled files and files with several grey samples a pixel through
- * Java's own TIFF reader ({@link ImageIoPlanes}); compressed files neither library decodes correctly (the
- * floating-point predictor, horizontal differencing on 32-bit samples) are refused with the reason. Every route
- * decodes at most one frame at a time. The dimensions (channels, slices, frames) and the calibration come from
- * ImageJ's own image description, from OME-TIFF metadata (OME-XML in the first image description), or, for other
- * TIFFs, from the resolution tags.
+ * ImageJ's own decoder, one plane at a time ({@link StripPlanes}); tiled files and files with several grey samples
+ * a pixel through Java's own TIFF reader ({@link ImageIoPlanes}); compressed files neither library decodes
+ * correctly (the floating-point predictor, horizontal differencing on 32-bit samples) are refused with the reason.
+ * Every route decodes at most one frame at a time. The dimensions (channels, slices, frames) and the calibration
+ * come from ImageJ's own image description, from OME-TIFF metadata (OME-XML in the first image description), or,
+ * for other TIFFs, from the resolution tags.
  *
  * <p>Frames are read by channel and time point. A movie with several slices and one frame is read as a time
  * series (with a warning); one with several slices and several frames is refused.

@@ -28,8 +28,8 @@ import org.dendrokin.io.InputException;
  * <p>Which reader: the first image directory's tags are read by Java's TIFF reader ({@link TiffTags}). Files that
  * ImageJ reads correctly (grey strips, uncompressed or compressed with LZW, Deflate or PackBits, a predictor only on
  * 8- and 16-bit samples) go to ImageJ: uncompressed ones through a memory map of the planes ({@link MappedPlanes}),
- * compressed ones decoded by ImageJ's reader one plane at a time ({@link StripPlanes}). Tiled files, files with several grey
- * samples a pixel (each sample a channel), and JPEG-compressed strips go to Java's TIFF reader
+ * compressed ones decoded by ImageJ's reader one plane at a time ({@link StripPlanes}). Tiled files, files with
+ * several grey samples a pixel (each sample a channel), and JPEG-compressed strips go to Java's TIFF reader
  * ({@link ImageIoPlanes}). What neither decodes correctly is refused with the reason: the floating-point
  * predictor (TIFF predictor 3), horizontal differencing (predictor 2) on 32-bit samples (ImageJ adds the
  * differences as floating-point numbers, not as the 32-bit words the TIFF specification differences, and Java's

@@ -200,8 +200,8 @@ class TiffVariantsTest {
             throws IOException {
         String what = String.format(Locale.ROOT, "%d-bit %s %s %s", bits, compression, tiled ? "tiles" : "strips",
                 order);
-        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve(what.replace(' ', '-') + ".tif"), bits, compression, tiled, order,
-                false, null, images(bits, 1));
+        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve(what.replace(' ', '-') + ".tif"), bits,
+                compression, tiled, order, false, null, images(bits, 1));
         assertPixels(file, bits, 1, what);
         assertSameKymograph(kymograph(plain(bits, 0), 0), kymograph(file, 0), what);
     }
@@ -211,8 +211,8 @@ class TiffVariantsTest {
     void eightBitPredictorFilesFromJavaGiveThePlainKymograph(String compression) throws IOException {
         for (boolean tiled : new boolean[] {false, true}) {
             String what = "8-bit " + compression + " predictor 2 " + (tiled ? "tiles" : "strips");
-            Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve(what.replace(' ', '-') + ".tif"), 8, compression, tiled,
-                    ByteOrder.LITTLE_ENDIAN, true, null, images(8, 1));
+            Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve(what.replace(' ', '-') + ".tif"), 8,
+                    compression, tiled, ByteOrder.LITTLE_ENDIAN, true, null, images(8, 1));
             assertPixels(file, 8, 1, what);
             assertSameKymograph(kymograph(plain(8, 0), 0), kymograph(file, 0), what);
         }
@@ -354,8 +354,8 @@ class TiffVariantsTest {
                 }
             }
         }
-        Path lzw = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("float-lzw-predictor2.tif"), 32, "LZW", false, ByteOrder.BIG_ENDIAN,
-                false, null, differenced);
+        Path lzw = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("float-lzw-predictor2.tif"), 32, "LZW", false,
+                ByteOrder.BIG_ENDIAN, false, null, differenced);
         setShortTag(lzw, BaselineTIFFTagSet.TAG_PREDICTOR, 2);
         assertRefused(lzw, "32-bit", "LZW", "TIFF predictor 2");
     }
@@ -457,11 +457,12 @@ class TiffVariantsTest {
     @Test
     void omeMetadataInATiledFileFromJavasWriter() throws IOException {
         String xml = "<OME xmlns=\"" + OME_NS + "\"><Image ID=\"Image:0\"><Pixels ID=\"Pixels:0\" "
-                + "DimensionOrder=\"XYCZT\" Type=\"uint8\" SizeX=\"" + WIDTH + "\" SizeY=\"" + HEIGHT + "\" SizeZ=\"1\" "
-                + "SizeC=\"1\" SizeT=\"" + FRAMES + "\" PhysicalSizeX=\"0.0004\" PhysicalSizeXUnit=\"mm\" "
+                + "DimensionOrder=\"XYCZT\" Type=\"uint8\" SizeX=\"" + WIDTH + "\" SizeY=\"" + HEIGHT
+                + "\" SizeZ=\"1\" SizeC=\"1\" SizeT=\"" + FRAMES + "\" PhysicalSizeX=\"0.0004\" "
+                + "PhysicalSizeXUnit=\"mm\" "
                 + "TimeIncrement=\"2\" TimeIncrementUnit=\"min\"><TiffData/></Pixels></Image></OME>";
-        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("ome-tiled.tif"), 8, "LZW", true, ByteOrder.BIG_ENDIAN, false, xml,
-                images(8, 1));
+        Path file = JavaTiffWriter.write(WIDTH, HEIGHT, dir.resolve("ome-tiled.tif"), 8, "LZW", true,
+                ByteOrder.BIG_ENDIAN, false, xml, images(8, 1));
         try (Movie movie = Movie.open(file, null, null)) {
             // REF: 0.0004 mm = 0.4 um and 2 min = 120 s, converted by hand [common practice]
             assertEquals(0.4, movie.pixelSizeUm(), 1e-12, "pixel size (um)");
