@@ -202,8 +202,13 @@ public final class CoverageHarness {
         try {
             SessionRunner.Result result = SessionRunner.analyze(sessionDir, outDir, Progress.NONE);
             best = result.bestModel();
-            JsonObject fit = result.fits().stream()
-                    .filter(f -> "diffusion-decay".equals(f.get("model").getAsString())).findFirst().orElse(null);
+            JsonObject fit = null;
+            for (JsonElement f : com.google.gson.JsonParser.parseString(java.nio.file.Files.readString(
+                    outDir.resolve("results.json"))).getAsJsonObject().getAsJsonArray("fits")) {
+                if ("diffusion-decay".equals(f.getAsJsonObject().get("model").getAsString())) {
+                    fit = f.getAsJsonObject();
+                }
+            }
             if (fit == null) {
                 failure = "no diffusion-decay fit";
             } else if (!fit.get("converged").getAsBoolean()) {
@@ -216,7 +221,7 @@ public final class CoverageHarness {
                     failure = "no value for D or k";
                 }
             }
-        } catch (RuntimeException e) {
+        } catch (RuntimeException | java.io.IOException e) {
             failure = e.getClass().getSimpleName() + ": " + e.getMessage();
         } finally {
             if (!keep) {

@@ -1,5 +1,8 @@
 package org.dendrokin.io.movie;
 
+import java.io.IOException;
+import java.io.InputStream;
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -11,19 +14,23 @@ import org.dendrokin.io.InputException;
 /**
  * A TIFF movie opened for reading a few rows or pixels at a time; the whole movie is never loaded.
  *
- * <p>The header is read by ImageJ's {@code TiffDecoder} and checked by {@link TiffLayout}; the dimensions
- * (channels, slices, frames) and the calibration come from ImageJ's own image description (as ImageJ writes it)
- * or, for other TIFFs, from the resolution tags. Uncompressed files are read through a memory map of the planes
- * at the offsets the header gives ({@link MappedPlanes}); compressed files through ImageJ's virtual stack
- * ({@link VirtualPlanes}).
+ * <p>How the file is read is decided by {@link MovieLayout}: uncompressed grey strips through a memory map of the
+ * planes at the offsets in the header ({@link MappedPlanes}); compressed strips (LZW, Deflate, PackBits) through
+ * ImageJ's own decoder, one plane at a time ({@link StripPlanes}); tiled files and files with several grey samples
+ * a pixel through Java's own TIFF reader ({@link ImageIoPlanes}); compressed files neither library decodes
+ * correctly (the floating-point predictor, horizontal differencing on 32-bit samples) are refused with the reason.
+ * Every route decodes at most one frame at a time. The dimensions (channels, slices, frames) and the calibration
+ * come from ImageJ's own image description, from OME-TIFF metadata (OME-XML in the first image description), or,
+ * for other TIFFs, from the resolution tags.
  *
- * <p>Planes are in ImageJ's order, channel fastest, then slice, then frame. A movie with several slices and one
- * frame is read as a time series (with a warning); one with several slices and several frames is refused.
+ * <p>Frames are read by channel and time point. A movie with several slices and one frame is read as a time
+ * series (with a warning); one with several slices and several frames is refused.
  *
  * <p>Checks made on opening, each an {@link InputException} naming the file: the file is not a TIFF; the file
  * is shorter than its header promises (ImageJ's own reader would silently return fewer frames); the samples
- * are colour (RGB) or of a type that cannot be read; a 32-bit movie holds only NaN in the first, middle and last
- * frames of every channel; the pixel size or frame interval is in neither the TIFF nor the arguments.
+ * are colour (RGB) or of a type or compression that cannot be read correctly; a 32-bit movie holds only NaN in the
+ * first, middle and last frames of every channel; the pixel size or frame interval is in neither the TIFF nor the
+ * arguments.
  */
 public final class Movie implements AutoCloseable {
     private final Path file;
@@ -35,9 +42,11 @@ public final class Movie implements AutoCloseable {
     private final double pixelSizeUm;
     private final double frameIntervalS;
     private final List<String> warnings;
+    private final List<String> channelNames;
+    private final MovieLayout layout;
     private final PlaneStore planes;
 
-    private Movie(Path file, TiffLayout layout, double pixelSizeUm, double frameIntervalS, List<String> warnings,
+    private Movie(Path file, MovieLayout layout, double pixelSizeUm, double frameIntervalS, List<String> warnings,
             PlaneStore planes) {
         this.file = file;
         this.width = layout.width;
@@ -48,6 +57,8 @@ public final class Movie implements AutoCloseable {
         this.pixelSizeUm = pixelSizeUm;
         this.frameIntervalS = frameIntervalS;
         this.warnings = List.copyOf(warnings);
+        this.channelNames = List.copyOf(layout.channelNames);
+        this.layout = layout;
         this.planes = planes;
     }
 
@@ -61,33 +72,41 @@ public final class Movie implements AutoCloseable {
      *                        arguments (naming the session.json key to set)
      */
     public static Movie open(Path file, Double pixelSizeUm, Double frameIntervalS) {
-        TiffLayout layout = TiffLayout.read(file);
-        List<String> warnings = new ArrayList<>(layout.warnings);
-        double pixel = pixelSizeUm != null ? overrideValue(file, pixelSizeUm, "pixel_size_um")
-                : layout.pixelSizeUm;
-        double interval = frameIntervalS != null ? overrideValue(file, frameIntervalS, "frame_interval_s")
-                : layout.frameIntervalS;
-        boolean noPixel = !(pixel > 0);
-        boolean noInterval = !(interval > 0);
-        if (noPixel || noInterval) {
-            String what = noPixel && noInterval ? "no pixel size and no frame interval"
-                    : noPixel ? "no pixel size" : "no frame interval";
-            String keys = noPixel && noInterval ? "\"pixel_size_um\" and \"frame_interval_s\""
-                    : noPixel ? "\"pixel_size_um\"" : "\"frame_interval_s\"";
-            throw new InputException(file, "the movie has " + what + " in its calibration; set " + keys
-                    + " in session.json");
+        boolean intel = checkIsTiff(file);
+        MovieLayout layout = MovieLayout.read(file, intel);
+        PlaneStore planes = null;
+        try {
+            List<String> warnings = new ArrayList<>(layout.warnings);
+            double pixel = pixelSizeUm != null ? overrideValue(file, pixelSizeUm, "pixel_size_um")
+                    : layout.pixelSizeUm;
+            double interval = frameIntervalS != null ? overrideValue(file, frameIntervalS, "frame_interval_s")
+                    : layout.frameIntervalS;
+            boolean noPixel = !(pixel > 0);
+            boolean noInterval = !(interval > 0);
+            if (noPixel || noInterval) {
+                String what = noPixel && noInterval ? "no pixel size and no frame interval"
+                        : noPixel ? "no pixel size" : "no frame interval";
+                String keys = noPixel && noInterval ? "\"pixel_size_um\" and \"frame_interval_s\""
+                        : noPixel ? "\"pixel_size_um\"" : "\"frame_interval_s\"";
+                throw new InputException(file, "the movie has " + what + " in its calibration; set " + keys
+                        + " in session.json");
+            }
+            if (pixelSizeUm == null && layout.pixelAspect != 1) {
+                warnings.add(String.format(Locale.ROOT, "The pixels of %s are not square (height/width %.4g); "
+                        + "the pixel width %.4g um is used along the path.", file.getFileName(), layout.pixelAspect,
+                        pixel));
+            }
+            planes = layout.openPlanes(file);
+            Movie movie = new Movie(file, layout, pixel, interval, warnings, planes);
+            movie.checkDecodable();
+            return movie;
+        } catch (RuntimeException e) {
+            layout.discard();
+            if (planes != null) {
+                planes.close();
+            }
+            throw e;
         }
-        if (pixelSizeUm == null && layout.pixelAspect != 1) {
-            warnings.add(String.format(Locale.ROOT, "The pixels of %s are not square (height/width %.4g); "
-                    + "the pixel width %.4g um is used along the path.", file.getFileName(), layout.pixelAspect,
-                    pixel));
-        }
-        PlaneStore planes = layout.openPlanes(file);
-        Movie movie = new Movie(file, layout, pixel, interval, warnings, planes);
-        if (layout.bitDepth == 32) {
-            movie.checkNotAllNaN();
-        }
-        return movie;
     }
 
     private static double overrideValue(Path file, double value, String key) {
@@ -97,13 +116,48 @@ public final class Movie implements AutoCloseable {
         return value;
     }
 
-    /** Refuses a 32-bit movie whose first, middle and last frames of every channel hold only NaN. */
-    private void checkNotAllNaN() {
+    /** Refuses what is not a classic TIFF; returns true for little-endian ("II") byte order. */
+    private static boolean checkIsTiff(Path file) {
+        if (!Files.exists(file)) {
+            throw new InputException(file, "the movie file does not exist");
+        }
+        if (!Files.isRegularFile(file) || !Files.isReadable(file)) {
+            throw new InputException(file, "the movie is not a readable file");
+        }
+        byte[] head = new byte[4];
+        int n;
+        try (InputStream in = Files.newInputStream(file)) {
+            n = in.readNBytes(head, 0, 4);
+        } catch (IOException e) {
+            throw new InputException(file, "the movie could not be read (" + e.getMessage() + ")", e);
+        }
+        boolean intel = n == 4 && head[0] == 'I' && head[1] == 'I';
+        boolean motorola = n == 4 && head[0] == 'M' && head[1] == 'M';
+        int magic = intel ? (head[2] & 0xff) | (head[3] & 0xff) << 8 : (head[2] & 0xff) << 8 | (head[3] & 0xff);
+        if ((intel || motorola) && magic == 43) {
+            throw new InputException(file, "the movie is a BigTIFF, which this tool cannot read; save it as a "
+                    + "standard TIFF");
+        }
+        if (!(intel || motorola) || magic != 42) {
+            throw new InputException(file, "the movie is not a TIFF file (it does not start with a TIFF header)");
+        }
+        return intel;
+    }
+
+    /**
+     * Decodes the first frame (a file Java's reader cannot decode fails here, not halfway through an analysis) and
+     * refuses a 32-bit movie whose first, middle and last frames of every channel hold only NaN.
+     */
+    private void checkDecodable() {
         float[] row = new float[width];
+        planes.readRows(plane(0, 0), 0, 1, row);
+        if (bitDepth != 32) {
+            return;
+        }
         for (int c = 0; c < channels; c++) {
             for (int t : new int[] {0, frames / 2, frames - 1}) {
                 for (int y = 0; y < height; y++) {
-                    planes.readRows(c + t * channels, y, 1, row);
+                    planes.readRows(plane(c, t), y, 1, row);
                     for (float v : row) {
                         if (!Float.isNaN(v)) {
                             return;
@@ -114,6 +168,10 @@ public final class Movie implements AutoCloseable {
         }
         throw new InputException(file, "the 32-bit movie holds only NaN values (checked its first, middle and "
                 + "last frames)");
+    }
+
+    private int plane(int channel, int frame) {
+        return layout.storePlane(channel, frame);
     }
 
     public int width() {
@@ -150,6 +208,13 @@ public final class Movie implements AutoCloseable {
 
     public Path file() {
         return file;
+    }
+
+    /**
+     * One name a channel, as the file gives it (OME-TIFF metadata); an empty string where the file names none.
+     */
+    public List<String> channelNames() {
+        return channelNames;
     }
 
     /** Plain sentences about how the file was read, e.g. slices read as time points. */
@@ -192,14 +257,14 @@ public final class Movie implements AutoCloseable {
                     throw new IllegalArgumentException("rows " + firstRow + " to " + (firstRow + rowCount - 1)
                             + " are outside a frame of " + height + " rows");
                 }
-                planes.readRows(channel + frame * channels, firstRow, rowCount, dst);
+                planes.readRows(plane(channel, frame), firstRow, rowCount, dst);
                 return dst;
             }
 
             @Override
             public float[] gather(int frame, int[] pixelIndices, float[] dst) {
                 checkFrame(frame);
-                planes.gather(channel + frame * channels, pixelIndices, dst);
+                planes.gather(plane(channel, frame), pixelIndices, dst);
                 return dst;
             }
 
