@@ -184,8 +184,8 @@ public final class EngineFitModel implements FitModel {
         for (int count : windows) {
             progress.checkCancelled();
             double[] times = java.util.Arrays.copyOf(outputTimesS, count);
-            EngineFitModel part = new EngineFitModel(model.name(), domain, times, outputPositionsUm, stimuli, fixedStepS,
-                    signalUnit);
+            EngineFitModel part = new EngineFitModel(model.name(), domain, times, outputPositionsUm, stimuli,
+                    fixedStepS, signalUnit);
             FitData partData = new FitData(java.util.Arrays.copyOf(data.values(), count * positions),
                     java.util.Arrays.copyOf(data.sigmas(), count * positions));
             List<double[]> next = new ArrayList<>();
