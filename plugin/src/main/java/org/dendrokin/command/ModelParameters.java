@@ -1,11 +1,17 @@
 package org.dendrokin.command;
 
 import org.dendrokin.core.model.Boundary;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.io.compare.ModelComparison;
 import org.scijava.command.ContextCommand;
 import org.scijava.plugin.Parameter;
 
-/** The model inputs shared by the simulate and compare commands; names carry units. */
+/**
+ * The model inputs shared by the simulate and compare commands; names carry units. The model's choices are the
+ * one-species models of the {@link ModelCatalogue}, written out because an annotation holds only constants (a
+ * {@code DynamicCommand} could fill them in at run time, but {@code CommandService.run} then returns no module to
+ * scripts); {@code CommandServiceTest} fails when the two lists differ.
+ */
 abstract class ModelParameters extends ContextCommand {
     @Parameter(label = "Model", choices = {"diffusion-decay", "nagumo", "fisher-kpp"})
     String model = "diffusion-decay";

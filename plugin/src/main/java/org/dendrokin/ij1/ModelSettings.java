@@ -1,7 +1,9 @@
 package org.dendrokin.ij1;
 
+import java.util.List;
+
 import org.dendrokin.core.model.Boundary;
-import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.io.compare.ModelComparison;
 
 /** The model fields of the Simulate and Compare dialogs: labels with units; first words are option keys. */
@@ -12,7 +14,8 @@ final class ModelSettings {
     }
 
     static void addFields(OptionsDialog d, double pathLengthUm, double firstTimeS) {
-        d.choice("Model", ScalarRun.MODELS.toArray(new String[0]), ScalarRun.MODELS.get(0));
+        List<String> models = ModelCatalogue.scalarNames();
+        d.choice("Model", models.toArray(new String[0]), models.get(0));
         d.number("D (um^2/s, diffusion coefficient)", 1.0, 3);
         d.number("Rate k or r (1/s)", 0.5, 3);
         d.number("Threshold a (nagumo only, 0-0.5)", 0.2, 3);

@@ -13,6 +13,8 @@ import java.util.List;
 import java.util.stream.Stream;
 
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.model.BuiltInModel;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.io.KymographCsv;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
@@ -72,6 +74,17 @@ class SimulateCommandTest {
             assertEquals(List.of("front.json", "out"), files.map(p -> p.getFileName().toString()).sorted().toList(),
                     "nothing written beside the model file");
         }
+    }
+
+    @Test
+    void helpListsTheBuiltInModelsWithTheirParameters() {
+        Outcome o = run("simulate", "--help");
+        assertEquals(0, o.status(), o.err());
+        for (BuiltInModel m : ModelCatalogue.all()) {
+            assertTrue(o.out().contains("  " + m.name() + ": "), m.name() + " listed: " + o.out());
+        }
+        assertTrue(o.out().contains("nagumo: D (um^2/s), k (1/s), a"), o.out());
+        assertTrue(o.out().contains("kon (1/(uM s))"), o.out());
     }
 
     @Test

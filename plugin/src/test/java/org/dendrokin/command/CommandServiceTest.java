@@ -16,6 +16,7 @@ import org.dendrokin.core.kymo.Extraction;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.Boundary;
 import org.dendrokin.core.model.Domain;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.io.KymographCsv;
@@ -73,6 +74,15 @@ class CommandServiceTest {
             assertTrue(i.canRunHeadless(), i.getClassName() + " runs headless");
             assertTrue(i.getMenuPath().getMenuString().startsWith("Plugins > Dendrokin > Scripting > "),
                     i.getClassName() + ": " + i.getMenuPath().getMenuString());
+        }
+    }
+
+    @Test
+    void modelChoicesAreTheCataloguesOneSpeciesModels() {
+        for (Class<?> c : List.of(SimulateOnGridCommand.class, CompareWithModelCommand.class)) {
+            CommandInfo info = commands.getCommand(c.getName());
+            assertEquals(ModelCatalogue.scalarNames(), info.getInput("model", String.class).getChoices(),
+                    c.getSimpleName() + ": the model choices written in ModelParameters");
         }
     }
 

@@ -12,6 +12,8 @@ import org.dendrokin.core.kymo.Extraction;
 import org.dendrokin.core.kymo.FrameSource;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.kymo.KymographExtractor;
+import org.dendrokin.core.model.BuiltInModel;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.core.preprocess.BackgroundEstimator;
 import org.dendrokin.core.preprocess.BaselineChange;
 import org.dendrokin.core.preprocess.Preprocessing;
@@ -26,8 +28,6 @@ import org.dendrokin.core.spread.SpreadAnalysis;
  * ({@link Headline}). Nothing here reads or writes a file: the caller opens the movie and writes the outputs.
  */
 public final class SessionAnalysis {
-    /** Models whose solutions are travelling fronts: fitted by default only where the data show a front. */
-    static final List<String> WAVE_MODELS = List.of("nagumo", "fisher-kpp", "fitzhugh-nagumo");
     /** Frames averaged for the reference image of the path picture. */
     private static final int REFERENCE_FRAMES = 10;
 
@@ -114,7 +114,7 @@ public final class SessionAnalysis {
         List<String> models = new ArrayList<>(asked ? request.models() : KymographFits.DEFAULT_MODELS);
         if (!asked && spread != null && !spread.front().present()) {
             for (String m : List.copyOf(models)) {
-                if (WAVE_MODELS.contains(m)) {
+                if (ModelCatalogue.find(m).map(BuiltInModel::travellingWave).orElse(false)) {
                     models.remove(m);
                     skipped.add(new SkippedModel(m, "The arrival times show no front (" + spread.front().verdict()
                             .phrase() + "), so this travelling-wave model was not fitted; name it in session.json's "

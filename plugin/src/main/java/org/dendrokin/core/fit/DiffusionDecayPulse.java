@@ -5,6 +5,7 @@ import java.util.List;
 import java.util.stream.IntStream;
 
 import org.dendrokin.core.Checks;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.core.units.Unit;
 
 /**
@@ -28,7 +29,7 @@ import org.dendrokin.core.units.Unit;
  * (sheet s2.1), and t0 is the effective release time of an instantaneous point source.
  */
 public final class DiffusionDecayPulse implements FitModel {
-    public static final String NAME = "diffusion-decay";
+    public static final String NAME = ModelCatalogue.DIFFUSION_DECAY.name();
     private static final int MAX_IMAGES = 50;
     /** Samples between exact restarts of the Gaussian recurrence (rounding grows like BLOCK^2 ulp, about 3e-14). */
     private static final int BLOCK = 16;
@@ -158,8 +159,8 @@ public final class DiffusionDecayPulse implements FitModel {
 
     @Override
     public List<DerivedQuantity> derivedQuantities() {
-        return List.of(new DerivedQuantity("length_constant", Unit.MICROMETRE, true,
-                th -> Math.sqrt(th[0] / th[1])));
+        // D and k come first, in the catalogue entry's order
+        return ModelCatalogue.DIFFUSION_DECAY.closedForms().stream().map(DerivedQuantity::of).toList();
     }
 
     /** Parameter vector in this model's order from the full set (D, k, A, x0, s0, b, t0). */

@@ -6,26 +6,31 @@ import java.util.List;
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.model.Domain;
+import org.dendrokin.core.model.ModelCatalogue;
+import org.dendrokin.core.model.ModelParameter;
+import org.dendrokin.core.model.ScalarModel;
 import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.core.model.SolverSettings;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.core.units.Unit;
 
 /**
- * Any scalar engine model ({@link ScalarRun}) as a fit model: the observed signal is b + A u(x, t; theta), with
- * u from the engine (Strang-split Crank-Nicolson on the model's domain, stimuli fixed as given) and theta the
- * model's own parameters, plus the amplitude A and baseline b. The engine runs with a fixed time step chosen once
- * from the starting parameters, so the objective is a smooth function of theta, and the Jacobian columns of theta
- * are forward differences of the engine's own solve (relative step 1e-7, runs in parallel), multiplied by A;
- * those of A and b are exact. Forward differences cost one plain run per parameter, several times less than the
- * engine's forward-sensitivity solve ({@link ScalarRun#solveWithSensitivities}), and agree with it to about
- * 1e-6 relative.
+ * Any one-species model of the {@link ModelCatalogue} ({@link ScalarModel}, run by {@link ScalarRun}) as a fit
+ * model: the observed signal is b + A u(x, t; theta), with u from the engine (Strang-split Crank-Nicolson on the
+ * model's domain, stimuli fixed as given) and theta the model's own parameters, plus the amplitude A and baseline
+ * b. The engine runs with a fixed time step chosen once from the starting parameters, so the objective is a smooth
+ * function of theta, and the Jacobian columns of theta are forward differences of the engine's own solve
+ * (relative step 1e-7, runs in parallel), multiplied by A; those of A and b are exact. Forward differences cost
+ * one plain run per parameter, several times less than the engine's forward-sensitivity solve
+ * ({@link ScalarRun#solveWithSensitivities}), and agree with it to about 1e-6 relative.
  *
- * <p>Scales: D, k, r (and any other rate or diffusion coefficient) on the log scale; Nagumo's threshold a on a
- * logistic map onto (0, 0.5), where the front invades the resting state.
+ * <p>Parameters, scales and derived quantities come from the catalogue entry: a parameter whose fit range is
+ * (0, infinity) (D, k, r) moves on the log scale, one with a finite range (Nagumo's threshold a, kept in (0, 0.5)
+ * where the front invades the resting state) on a logistic map onto it; the entry's closed forms (front speed,
+ * front width, length constant) are reported with intervals.
  */
 public final class EngineFitModel implements FitModel {
-    private final String modelName;
+    private final ScalarModel model;
     private final Domain domain;
     private final double[] outputTimesS;
     private final double[] outputPositionsUm;
@@ -53,7 +58,7 @@ public final class EngineFitModel implements FitModel {
     }
 
     /**
-     * @param model             engine model name ("diffusion-decay", "nagumo", "fisher-kpp")
+     * @param model             name of a one-species model of the {@link ModelCatalogue}
      * @param domain            the cable the engine solves on
      * @param outputTimesS      kymograph frame times, s. Not modified.
      * @param outputPositionsUm kymograph positions measured in the domain's coordinates, um. Not modified.
@@ -66,36 +71,41 @@ public final class EngineFitModel implements FitModel {
         Checks.positiveFinite(fixedStepS, "engine time step (s)");
         this.fixedStepS = fixedStepS;
         this.signalUnit = signalUnit;
-        this.modelName = model;
+        this.model = ModelCatalogue.scalar(model);
         this.domain = domain;
         this.outputTimesS = outputTimesS.clone();
         this.outputPositionsUm = outputPositionsUm.clone();
         this.stimuli = List.copyOf(stimuli);
         this.settings = SolverSettings.DEFAULT.withFixedStepS(fixedStepS);
-        ScalarRun probe = ScalarRun.prepare(model, domain, outputTimesS, outputPositionsUm, stimuli, settings);
+        // prepared once here so that a bad grid, sampling or protocol fails at construction
+        ScalarRun.prepare(this.model, domain, outputTimesS, outputPositionsUm, stimuli, settings);
         List<ParameterSpec> s = new ArrayList<>();
-        for (String name : probe.parameterNames()) {
-            if (name.equals("a")) {
-                s.add(ParameterSpec.bounded("a", Unit.DIMENSIONLESS, 0, 0.5));
-            } else if (name.equals("D")) {
-                s.add(ParameterSpec.positive("D", Unit.DIFFUSION));
-            } else {
-                s.add(ParameterSpec.positive(name, Unit.RATE));
-            }
+        for (ModelParameter p : this.model.parameters()) {
+            s.add(spec(p));
         }
         engineParameters = s.size();
         s.add(ParameterSpec.linear("amplitude", signalUnit));
         s.add(ParameterSpec.linear("baseline", signalUnit));
         this.specs = List.copyOf(s);
         int size = outputTimesS.length * outputPositionsUm.length;
-        this.work = ThreadLocal.withInitial(() -> new Work(
-                ScalarRun.prepare(model, domain, this.outputTimesS, this.outputPositionsUm, this.stimuli, settings),
-                size));
+        this.work = ThreadLocal.withInitial(() -> new Work(ScalarRun.prepare(this.model, domain, this.outputTimesS,
+                this.outputPositionsUm, this.stimuli, settings), size));
+    }
+
+    /** The fit's view of a model parameter: its scale from the range the catalogue lets a fit use. */
+    private static ParameterSpec spec(ModelParameter p) {
+        if (Double.isFinite(p.fitLower()) && Double.isFinite(p.fitUpper())) {
+            return ParameterSpec.bounded(p.name(), p.unit(), p.fitLower(), p.fitUpper());
+        }
+        if (p.fitLower() == 0 && p.fitUpper() == Double.POSITIVE_INFINITY) {
+            return ParameterSpec.positive(p.name(), p.unit());
+        }
+        return ParameterSpec.linear(p.name(), p.unit());
     }
 
     @Override
     public String name() {
-        return modelName;
+        return model.name();
     }
 
     @Override
@@ -115,39 +125,12 @@ public final class EngineFitModel implements FitModel {
 
     @Override
     public List<DerivedQuantity> derivedQuantities() {
-        switch (modelName) {
-            case "nagumo":
-                // REF for the formulas: McKean 1970; sheet s5.2: c = sqrt(k D / 2)(1 - 2a), w = sqrt(2 D / k)
-                return List.of(
-                        new DerivedQuantity("front_speed", Unit.SPEED, true,
-                                th -> Math.sqrt(th[1] * th[0] / 2) * (1 - 2 * th[2])),
-                        new DerivedQuantity("front_width", Unit.MICROMETRE, true, th -> Math.sqrt(2 * th[0] / th[1])));
-            case "fisher-kpp":
-                // Fisher 1937, Kolmogorov-Petrovsky-Piskunov 1937; sheet s5.1: c* = 2 sqrt(r D), ell = sqrt(D / r)
-                return List.of(
-                        new DerivedQuantity("front_speed", Unit.SPEED, true, th -> 2 * Math.sqrt(th[1] * th[0])),
-                        new DerivedQuantity("front_width", Unit.MICROMETRE, true, th -> Math.sqrt(th[0] / th[1])));
-            case "diffusion-decay":
-                return List.of(new DerivedQuantity("length_constant", Unit.MICROMETRE, true,
-                        th -> Math.sqrt(th[0] / th[1])));
-            default:
-                return List.of();
-        }
+        return model.closedForms().stream().map(DerivedQuantity::of).toList();
     }
 
     @Override
     public String poorlyDeterminedAdvice() {
-        if (modelName.equals("nagumo")) {
-            return "A steadily travelling bistable front shows only its speed and its width, so D, k and a of the "
-                    + "nagumo fit are not separately determined by these data: report front_speed and front_width "
-                    + "(with their intervals) instead of D, k and a. The three separate only when the movie shows the "
-                    + "front forming at a stimulus of known width.";
-        }
-        if (modelName.equals("fisher-kpp")) {
-            return "A travelling front shows mainly its speed and width, so D and r of the fisher-kpp fit are not "
-                    + "separately determined: report front_speed and front_width instead.";
-        }
-        return "";
+        return model.fitAdvice();
     }
 
     /** The engine's domain. */
@@ -201,8 +184,8 @@ public final class EngineFitModel implements FitModel {
         for (int count : windows) {
             progress.checkCancelled();
             double[] times = java.util.Arrays.copyOf(outputTimesS, count);
-            EngineFitModel part = new EngineFitModel(modelName, domain, times, outputPositionsUm, stimuli, fixedStepS,
-                    signalUnit);
+            EngineFitModel part = new EngineFitModel(model.name(), domain, times, outputPositionsUm, stimuli,
+                    fixedStepS, signalUnit);
             FitData partData = new FitData(java.util.Arrays.copyOf(data.values(), count * positions),
                     java.util.Arrays.copyOf(data.sigmas(), count * positions));
             List<double[]> next = new ArrayList<>();

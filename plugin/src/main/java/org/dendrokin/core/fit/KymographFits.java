@@ -11,8 +11,10 @@ import org.dendrokin.core.Checks;
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.Boundary;
+import org.dendrokin.core.model.DataGuesses;
 import org.dendrokin.core.model.Domain;
-import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.ModelCatalogue;
+import org.dendrokin.core.model.StartPoints;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.core.spread.SpreadAnalysis;
@@ -28,7 +30,8 @@ import org.dendrokin.core.units.Unit;
  */
 public final class KymographFits {
     /** Models fitted when the user names none. */
-    public static final List<String> DEFAULT_MODELS = List.of(DiffusionDecayPulse.NAME, "nagumo");
+    public static final List<String> DEFAULT_MODELS = List.of(DiffusionDecayPulse.NAME,
+            ModelCatalogue.NAGUMO.name());
     /** Engine models get profile-likelihood intervals only up to this many samples (each profile point is a refit). */
     public static final int ENGINE_PROFILE_LIMIT = 20_000;
 
@@ -58,8 +61,8 @@ public final class KymographFits {
             models = List.copyOf(models);
             Checks.require(!models.isEmpty(), "name at least one model to fit");
             for (String m : models) {
-                Checks.require(m.equals(DiffusionDecayPulse.NAME) || ScalarRun.MODELS.contains(m),
-                        "unknown model '" + m + "'; known: " + ScalarRun.MODELS);
+                Checks.require(ModelCatalogue.findScalar(m).isPresent(),
+                        "unknown model '" + m + "'; known: " + ModelCatalogue.scalarNames());
             }
         }
 
@@ -299,26 +302,17 @@ public final class KymographFits {
             return FitResult.failed(name, "the kymograph has too few positions for a model along the dendrite",
                     List.of());
         }
-        double c = g.frontSpeedUmPerS;
+        // the model's own starts from the data's measures, then amplitude (the plateau) and baseline
+        StartPoints own = ModelCatalogue.scalar(name).startPoints(
+                new DataGuesses(g.frontSpeedUmPerS, width, g.dUm2PerS, g.kPerS, kymoDx));
         List<double[]> starts = new ArrayList<>();
-        double[] widths = {Math.max(3 * kymoDx, width / 2), Math.max(8 * kymoDx, 2 * width)};
-        double minFront = Double.POSITIVE_INFINITY;
-        for (double w : widths) {
-            if (name.equals("nagumo")) {
-                for (double a : new double[] {0.15, 0.3}) {
-                    double d = c * w / (1 - 2 * a);
-                    starts.add(new double[] {d, 2 * d / (w * w), a, g.plateau, g.baseline});
-                    minFront = Math.min(minFront, w);
-                }
-            } else if (name.equals("fisher-kpp")) {
-                double d = c * w / 2;
-                starts.add(new double[] {d, d / (w * w), g.plateau, g.baseline});
-                minFront = Math.min(minFront, w);
-            } else {
-                starts.add(new double[] {g.dUm2PerS * w / widths[0], g.kPerS, g.plateau, g.baseline});
-                minFront = Math.min(minFront, width);
-            }
+        for (double[] theta : own.points()) {
+            double[] start = java.util.Arrays.copyOf(theta, theta.length + 2);
+            start[theta.length] = g.plateau;
+            start[theta.length + 1] = g.baseline;
+            starts.add(start);
         }
+        double minFront = own.narrowestFeatureUm();
         double h = Math.min(kymoDx, Math.min(minFront, width) / 3);
         h = Math.min(h, lengthUm / 4);
         double dMax = 0;

@@ -1,6 +1,5 @@
 package org.dendrokin.core.model;
 
-import java.util.Arrays;
 import java.util.List;
 
 import org.dendrokin.core.Checks;
@@ -12,109 +11,45 @@ import org.dendrokin.core.Checks;
  * Scheme: Strang splitting, as {@link ScalarRun}: a reaction half step at every node by the two-stage
  * L-stable Rosenbrock method ROS2 (Verwer et al. 1999) with the exact Jacobian of the rate expressions
  * (an m x m solve per stage, m = number of species, so stiff reactions such as fast buffering stay stable),
- * one Crank-Nicolson diffusion step per species (Thomas algorithm), and another reaction half step.
- * Second order in dt and h. At fixed ends every species is held at its resting value and does not react.
- * Time step rule: {@link SolverSettings} with the network's rate scale and its largest D.
+ * one Crank-Nicolson diffusion step per species (Thomas algorithm), and another reaction half step
+ * ({@link NetworkStepper}). Second order in dt and h. At fixed ends every species is held at its resting value
+ * and does not react. Events, clamps, sources and output sampling are those of {@link TimeMarcher}. Time step
+ * rule: {@link SolverSettings} with the network's rate scale and its largest D.
  * <p>
  * Not thread-safe; {@code solve} allocates nothing.
  */
 public final class NetworkRun {
-    private static final double GAMMA = 1 + 1 / Math.sqrt(2);
-    private static final int CACHE = 4;
-
     private final ReactionNetwork network;
     private final CableGrid grid;
-    private final int n;
-    private final int m;
-    private final Timeline timeline;
-    private final List<Stimulus> stimuli;
-    private final int[] stimulusSpecies;
-    private final double[][] profile;
-    private final boolean[][] clampMask;
-    private final double minWidthUm;
     private final int frames;
     private final int positions;
-    private final OutputSampler sampler;
+    private final double minWidthUm;
     private final SolverSettings settings;
-    private final double[] d;
-
-    private final double[][] c;
-    private final double[] rhs;
-    private final double[][] source;
-    private final boolean[] injectionOn;
-    private final boolean[] clampOn;
-    private final double[][] wm;
-    private final double[][] fm;
-    private final double[][] k1m;
-    private final double[][] stagem;
-    private final int[][] pivots;
-    private final double[] k1;
-    private final double[] k2;
-    private final double[] w;
-    private final int[] pivot;
-    private final double[] cacheC;
-    private final double[][] cacheLower;
-    private final double[][] cacheCPrime;
-    private final double[][] cacheInvPivot;
-    private final double[][] cachePLower;
-    private final double[][] cachePDiag;
-    private final double[][] cachePUpper;
-    private final double[] work;
-    private final double[][] cPrev;
-    private int cacheNext;
+    private final NetworkStepper stepper;
+    private final TimeMarcher marcher;
     private long lastStepCount;
 
     private NetworkRun(ReactionNetwork network, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
             List<Stimulus> stimuli, SolverSettings settings, String observedDefault) {
         this.network = network.forThread();
         this.grid = new CableGrid(domain, settings.spatialOrder());
-        this.n = grid.n;
-        this.m = network.speciesCount();
         this.settings = settings;
-        this.d = network.diffusionUm2PerS();
-        this.stimuli = List.copyOf(stimuli);
-        this.timeline = new Timeline(outputTimesS, this.stimuli, false);
         this.frames = outputTimesS.length;
         this.positions = outputPositionsUm.length;
-        sampler = new OutputSampler(outputPositionsUm, domain.lengthUm(), grid.h, n);
-        int count = this.stimuli.size();
-        stimulusSpecies = new int[count];
-        for (int s = 0; s < count; s++) {
-            Stimulus st = this.stimuli.get(s);
+        OutputSampler sampler = new OutputSampler(outputPositionsUm, domain.lengthUm(), grid.h, grid.n);
+        int[] stimulusSpecies = new int[stimuli.size()];
+        for (int s = 0; s < stimuli.size(); s++) {
+            Stimulus st = stimuli.get(s);
             String name = st.species() == null ? observedDefault : st.species();
             stimulusSpecies[s] = network.indexOf(name);
             Checks.require(stimulusSpecies[s] >= 0, "a stimulus names species '" + name
                     + "', which the network does not have " + network.species());
         }
-        StimulusLayout layout = new StimulusLayout(grid, this.stimuli);
-        profile = layout.profile;
-        clampMask = layout.clampMask;
+        StimulusLayout layout = new StimulusLayout(grid, stimuli);
         minWidthUm = layout.minWidthUm;
-        c = new double[m][n];
-        rhs = new double[n];
-        source = new double[m][n];
-        injectionOn = new boolean[count];
-        clampOn = new boolean[count];
-        wm = new double[m * m][n];
-        fm = new double[m][n];
-        k1m = new double[m][n];
-        stagem = new double[m][n];
-        pivots = new int[m > 3 ? m : 0][n];
-        this.network.reserveBatch(n);
-        k1 = new double[m];
-        k2 = new double[m];
-        w = new double[m * m];
-        pivot = new int[m];
-        cacheC = new double[CACHE * m];
-        Arrays.fill(cacheC, Double.NaN);
-        cacheLower = new double[CACHE * m][n];
-        cacheCPrime = new double[CACHE * m][n];
-        cacheInvPivot = new double[CACHE * m][n];
-        cachePLower = new double[CACHE * m][n];
-        cachePDiag = new double[CACHE * m][n];
-        cachePUpper = new double[CACHE * m][n];
-        work = new double[n];
-        cPrev = new double[m][n];
+        stepper = new NetworkStepper(this.network, grid);
+        marcher = new TimeMarcher(outputTimesS, stimuli, layout, stimulusSpecies, network.speciesCount(), sampler,
+                settings);
     }
 
     /**
@@ -161,483 +96,9 @@ public final class NetworkRun {
      *            null to skip that species). Modified.
      */
     public void solve(double[][] out) {
-        Checks.require(out.length == m, "need one output row per species");
-        double[] init = network.initial();
-        for (int s = 0; s < m; s++) {
-            Arrays.fill(c[s], init[s]);
-            Arrays.fill(source[s], 0);
-        }
-        Arrays.fill(injectionOn, false);
-        Arrays.fill(clampOn, false);
-        double dMax = 0;
-        for (double v : d) {
-            dMax = Math.max(dMax, v);
-        }
-        double dtMax = settings.maxStep(network.rateScalePerS(), grid.h, dMax, minWidthUm);
-        boolean smooth = false;
-        long steps = 0;
-        int interior = 0;
-        Timeline tl = timeline;
-        int nb = tl.breakCount();
-        for (int j = 0; j < nb; j++) {
-            boolean injectionsChanged = false;
-            for (int e = tl.eventStart[j]; e < tl.eventStart[j + 1]; e++) {
-                int s = tl.eventStimulus[e];
-                switch (tl.eventType[e]) {
-                    case Timeline.INJECTION_OFF, Timeline.INJECTION_ON -> {
-                        injectionOn[s] = tl.eventType[e] == Timeline.INJECTION_ON;
-                        injectionsChanged = true;
-                    }
-                    case Timeline.CLAMP_OFF, Timeline.CLAMP_ON -> {
-                        clampOn[s] = tl.eventType[e] == Timeline.CLAMP_ON;
-                        smooth = true;
-                    }
-                    case Timeline.PULSE -> {
-                        double a = stimuli.get(s).amount();
-                        double[] g = profile[s];
-                        double[] target = c[stimulusSpecies[s]];
-                        for (int i = 0; i < n; i++) {
-                            target[i] += a * g[i];
-                        }
-                        smooth = true;
-                    }
-                    default -> throw new IllegalStateException();
-                }
-            }
-            if (injectionsChanged) {
-                for (double[] row : source) {
-                    Arrays.fill(row, 0);
-                }
-                for (int s = 0; s < injectionOn.length; s++) {
-                    if (injectionOn[s]) {
-                        Stimulus st = stimuli.get(s);
-                        double r = st.amount() / st.durationS();
-                        double[] g = profile[s];
-                        double[] row = source[stimulusSpecies[s]];
-                        for (int i = 0; i < n; i++) {
-                            row[i] += r * g[i];
-                        }
-                    }
-                }
-                // sources enter as B q, like the time derivative (B = I unless compact)
-                for (double[] row : source) {
-                    System.arraycopy(row, 0, work, 0, n);
-                    grid.applyMass(work, row);
-                }
-            }
-            boolean anyClamp = false;
-            for (boolean on : clampOn) {
-                anyClamp |= on;
-            }
-            if (anyClamp) {
-                applyClamps();
-            }
-            for (int o = tl.outputStart[j]; o < tl.outputStart[j + 1]; o++) {
-                int frame = tl.outputFrame[o];
-                for (int s = 0; s < m; s++) {
-                    if (out[s] != null) {
-                        sampler.sample(c[s], out[s], frame);
-                    }
-                }
-            }
-            if (j == nb - 1) {
-                break;
-            }
-            double gap = tl.breaksS[j + 1] - tl.breaksS[j];
-            long count = settings.stepCount(gap, dtMax);
-            double dt = gap / count;
-            double t = tl.breaksS[j];
-            for (long step = 0; step < count; step++) {
-                double tNext = step == count - 1 ? tl.breaksS[j + 1] : tl.breaksS[j] + (step + 1) * dt;
-                boolean interpolate = interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext;
-                if (interpolate) {
-                    for (int s = 0; s < m; s++) {
-                        if (out[s] != null) {
-                            System.arraycopy(c[s], 0, cPrev[s], 0, n);
-                        }
-                    }
-                }
-                react(0.5 * dt);
-                for (int s = 0; s < m; s++) {
-                    diffuse(s, dt, smooth && settings.smoothing());
-                }
-                smooth = false;
-                react(0.5 * dt);
-                if (anyClamp) {
-                    applyClamps();
-                }
-                while (interior < tl.interiorTimeS.length && tl.interiorTimeS[interior] <= tNext) {
-                    // outputs between steps: linear in time, second order like the scheme
-                    double w = (tl.interiorTimeS[interior] - t) / (tNext - t);
-                    int frame = tl.interiorFrame[interior];
-                    for (int s = 0; s < m; s++) {
-                        if (out[s] != null) {
-                            sampler.blend(cPrev[s], c[s], w, out[s], frame);
-                        }
-                    }
-                    interior++;
-                }
-                t = tNext;
-            }
-            steps += count;
-        }
-        lastStepCount = steps;
-    }
-
-    private void applyClamps() {
-        for (int s = 0; s < clampOn.length; s++) {
-            if (clampOn[s]) {
-                boolean[] mask = clampMask[s];
-                double value = stimuli.get(s).amount();
-                double[] row = c[stimulusSpecies[s]];
-                for (int i = 0; i < n; i++) {
-                    if (mask[i]) {
-                        row[i] = value;
-                    }
-                }
-            }
-        }
-    }
-
-    /** Cache slot of A = B - cc L (factored) and P = B + cc L for one species; computed on a miss. */
-    private int factorisation(int species, double cc) {
-        for (int k = 0; k < CACHE; k++) {
-            if (cacheC[species * CACHE + k] == cc) {
-                return species * CACHE + k;
-            }
-        }
-        int slot = species * CACHE + cacheNext;
-        cacheNext = (cacheNext + 1) % CACHE;
-        double[] lower = cacheLower[slot];
-        double[] diag = rhs;    // scratch: rhs is rebuilt before each use
-        double[] upper = work;  // scratch: work is only used when sources change
-        for (int i = 0; i < n; i++) {
-            lower[i] = grid.massLower[i] - cc * grid.lower[i];
-            diag[i] = grid.massDiag[i] - cc * grid.diag[i];
-            upper[i] = grid.massUpper[i] - cc * grid.upper[i];
-            cachePLower[slot][i] = grid.massLower[i] + cc * grid.lower[i];
-            cachePDiag[slot][i] = grid.massDiag[i] + cc * grid.diag[i];
-            cachePUpper[slot][i] = grid.massUpper[i] + cc * grid.upper[i];
-        }
-        TridiagonalSolver.factor(lower, diag, upper, cacheCPrime[slot], cacheInvPivot[slot]);
-        cacheC[slot] = cc;
-        return slot;
-    }
-
-    /** Crank-Nicolson (B - c L) u1 = (B + c L) u0 + dt B q for one species, or two backward-Euler half steps. */
-    private void diffuse(int s, double dt, boolean rannacher) {
-        double ds = d[s];
-        double[] u = c[s];
-        double[] q = source[s];
-        if (ds == 0) {
-            if (grid.compact) {
-                // B u_t = B q: an immobile species just accumulates its source
-                for (int i = 0; i < n; i++) {
-                    work[i] = dt * q[i];
-                }
-                TridiagonalSolver.solve(grid.massLower, grid.massDiag, grid.massUpper, work, work, rhs);
-                for (int i = 0; i < n; i++) {
-                    u[i] += work[i];
-                }
-            } else {
-                for (int i = 0; i < n; i++) {
-                    u[i] += dt * q[i];
-                }
-            }
-            return;
-        }
-        double cc = 0.5 * dt * ds;
-        int slot = factorisation(s, cc);
-        double[] lower = cacheLower[slot];
-        double[] cPrime = cacheCPrime[slot];
-        double[] invPivot = cacheInvPivot[slot];
-        if (rannacher) {
-            double half = 0.5 * dt;
-            for (int sub = 0; sub < 2; sub++) {
-                grid.applyMass(u, rhs);
-                for (int i = 0; i < n; i++) {
-                    rhs[i] += half * q[i];
-                }
-                TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
-            }
-            return;
-        }
-        double[] pl = cachePLower[slot];
-        double[] pd = cachePDiag[slot];
-        double[] pu = cachePUpper[slot];
-        int last = n - 1;
-        rhs[0] = pd[0] * u[0] + pu[0] * u[1] + dt * q[0];
-        for (int i = 1; i < last; i++) {
-            rhs[i] = pl[i] * u[i - 1] + pd[i] * u[i] + pu[i] * u[i + 1] + dt * q[i];
-        }
-        rhs[last] = pl[last] * u[last - 1] + pd[last] * u[last] + dt * q[last];
-        TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
-    }
-
-    /**
-     * ROS2 at every node: W k1 = f(u), W k2 = f(u + tau k1) - 2 k1, u1 = u + tau (3 k1 + k2) / 2,
-     * W = I - gamma tau J. All nodes move together, a row per species (struct of arrays): the rate programs
-     * sweep whole rows, and W is inverted once per node (explicitly for up to 3 species, by LU otherwise) and
-     * used for both stages.
-     */
-    private void react(double tau) {
-        if (network.reactions().isEmpty()) {
-            return;
-        }
-        int from = grid.fixedEnds ? 1 : 0;
-        int to = grid.fixedEnds ? n - 1 : n;
-        network.stepMatrixBatch(c, from, to, -GAMMA * tau, wm);
-        network.ratesBatch(c, from, to, fm);
-        switch (m) {
-            case 1 -> {
-                double[] w0 = wm[0];
-                double[] f0 = fm[0];
-                double[] r0 = k1m[0];
-                double[] u0 = c[0];
-                double[] s0 = stagem[0];
-                for (int i = from; i < to; i++) {
-                    double inv = 1 / w0[i];
-                    w0[i] = inv;
-                    double k = inv * f0[i];
-                    r0[i] = k;
-                    s0[i] = u0[i] + tau * k;
-                }
-                network.ratesBatch(stagem, from, to, fm);
-                for (int i = from; i < to; i++) {
-                    double k = r0[i];
-                    double k2 = w0[i] * (f0[i] - 2 * k);
-                    u0[i] += tau * (1.5 * k + 0.5 * k2);
-                }
-            }
-            case 2 -> react2(tau, from, to);
-            case 3 -> react3(tau, from, to);
-            default -> reactGeneral(tau, from, to);
-        }
-    }
-
-    private void react2(double tau, int from, int to) {
-        double[] w00 = wm[0];
-        double[] w01 = wm[1];
-        double[] w10 = wm[2];
-        double[] w11 = wm[3];
-        double[] f0 = fm[0];
-        double[] f1 = fm[1];
-        double[] r0 = k1m[0];
-        double[] r1 = k1m[1];
-        double[] u0 = c[0];
-        double[] u1 = c[1];
-        double[] s0 = stagem[0];
-        double[] s1 = stagem[1];
-        for (int i = from; i < to; i++) {
-            double a = w00[i];
-            double b = w01[i];
-            double cc = w10[i];
-            double dd = w11[i];
-            double inv = 1 / (a * dd - b * cc);
-            double i00 = dd * inv;
-            double i01 = -b * inv;
-            double i10 = -cc * inv;
-            double i11 = a * inv;
-            w00[i] = i00;
-            w01[i] = i01;
-            w10[i] = i10;
-            w11[i] = i11;
-            double g0 = f0[i];
-            double g1 = f1[i];
-            double x0 = i00 * g0 + i01 * g1;
-            double x1 = i10 * g0 + i11 * g1;
-            r0[i] = x0;
-            r1[i] = x1;
-            s0[i] = u0[i] + tau * x0;
-            s1[i] = u1[i] + tau * x1;
-        }
-        network.ratesBatch(stagem, from, to, fm);
-        for (int i = from; i < to; i++) {
-            double x0 = r0[i];
-            double x1 = r1[i];
-            double g0 = f0[i] - 2 * x0;
-            double g1 = f1[i] - 2 * x1;
-            double y0 = w00[i] * g0 + w01[i] * g1;
-            double y1 = w10[i] * g0 + w11[i] * g1;
-            u0[i] += tau * (1.5 * x0 + 0.5 * y0);
-            u1[i] += tau * (1.5 * x1 + 0.5 * y1);
-        }
-    }
-
-    private void react3(double tau, int from, int to) {
-        double[] w00 = wm[0];
-        double[] w01 = wm[1];
-        double[] w02 = wm[2];
-        double[] w10 = wm[3];
-        double[] w11 = wm[4];
-        double[] w12 = wm[5];
-        double[] w20 = wm[6];
-        double[] w21 = wm[7];
-        double[] w22 = wm[8];
-        double[] f0 = fm[0];
-        double[] f1 = fm[1];
-        double[] f2 = fm[2];
-        double[] r0 = k1m[0];
-        double[] r1 = k1m[1];
-        double[] r2 = k1m[2];
-        double[] u0 = c[0];
-        double[] u1 = c[1];
-        double[] u2 = c[2];
-        double[] s0 = stagem[0];
-        double[] s1 = stagem[1];
-        double[] s2 = stagem[2];
-        for (int i = from; i < to; i++) {
-            double a = w00[i];
-            double b = w01[i];
-            double cc = w02[i];
-            double d = w10[i];
-            double e = w11[i];
-            double ff = w12[i];
-            double g = w20[i];
-            double h = w21[i];
-            double q = w22[i];
-            // the inverse as adjugate / determinant
-            double c00 = e * q - ff * h;
-            double c10 = ff * g - d * q;
-            double c20 = d * h - e * g;
-            double inv = 1 / (a * c00 + b * c10 + cc * c20);
-            double i00 = c00 * inv;
-            double i01 = (cc * h - b * q) * inv;
-            double i02 = (b * ff - cc * e) * inv;
-            double i10 = c10 * inv;
-            double i11 = (a * q - cc * g) * inv;
-            double i12 = (cc * d - a * ff) * inv;
-            double i20 = c20 * inv;
-            double i21 = (b * g - a * h) * inv;
-            double i22 = (a * e - b * d) * inv;
-            w00[i] = i00;
-            w01[i] = i01;
-            w02[i] = i02;
-            w10[i] = i10;
-            w11[i] = i11;
-            w12[i] = i12;
-            w20[i] = i20;
-            w21[i] = i21;
-            w22[i] = i22;
-            double g0 = f0[i];
-            double g1 = f1[i];
-            double g2 = f2[i];
-            double x0 = i00 * g0 + i01 * g1 + i02 * g2;
-            double x1 = i10 * g0 + i11 * g1 + i12 * g2;
-            double x2 = i20 * g0 + i21 * g1 + i22 * g2;
-            r0[i] = x0;
-            r1[i] = x1;
-            r2[i] = x2;
-            s0[i] = u0[i] + tau * x0;
-            s1[i] = u1[i] + tau * x1;
-            s2[i] = u2[i] + tau * x2;
-        }
-        network.ratesBatch(stagem, from, to, fm);
-        for (int i = from; i < to; i++) {
-            double x0 = r0[i];
-            double x1 = r1[i];
-            double x2 = r2[i];
-            double g0 = f0[i] - 2 * x0;
-            double g1 = f1[i] - 2 * x1;
-            double g2 = f2[i] - 2 * x2;
-            double y0 = w00[i] * g0 + w01[i] * g1 + w02[i] * g2;
-            double y1 = w10[i] * g0 + w11[i] * g1 + w12[i] * g2;
-            double y2 = w20[i] * g0 + w21[i] * g1 + w22[i] * g2;
-            u0[i] += tau * (1.5 * x0 + 0.5 * y0);
-            u1[i] += tau * (1.5 * x1 + 0.5 * y1);
-            u2[i] += tau * (1.5 * x2 + 0.5 * y2);
-        }
-    }
-
-    /** More than 3 species: W gathered per node, LU with partial pivoting, kept for the second stage. */
-    private void reactGeneral(double tau, int from, int to) {
-        for (int i = from; i < to; i++) {
-            for (int a = 0; a < m * m; a++) {
-                w[a] = wm[a][i];
-            }
-            luFactor();
-            for (int a = 0; a < m * m; a++) {
-                wm[a][i] = w[a];
-            }
-            for (int s = 0; s < m; s++) {
-                pivots[s][i] = pivot[s];
-                k1[s] = fm[s][i];
-            }
-            luSolve(k1);
-            for (int s = 0; s < m; s++) {
-                k1m[s][i] = k1[s];
-                stagem[s][i] = c[s][i] + tau * k1[s];
-            }
-        }
-        network.ratesBatch(stagem, from, to, fm);
-        for (int i = from; i < to; i++) {
-            for (int a = 0; a < m * m; a++) {
-                w[a] = wm[a][i];
-            }
-            for (int s = 0; s < m; s++) {
-                pivot[s] = pivots[s][i];
-                k2[s] = fm[s][i] - 2 * k1m[s][i];
-            }
-            luSolve(k2);
-            for (int s = 0; s < m; s++) {
-                c[s][i] += tau * (1.5 * k1m[s][i] + 0.5 * k2[s]);
-            }
-        }
-    }
-
-    /** In-place LU with partial pivoting of the m x m matrix w. */
-    private void luFactor() {
-        for (int col = 0; col < m; col++) {
-            int best = col;
-            double big = Math.abs(w[col * m + col]);
-            for (int r = col + 1; r < m; r++) {
-                double v = Math.abs(w[r * m + col]);
-                if (v > big) {
-                    big = v;
-                    best = r;
-                }
-            }
-            pivot[col] = best;
-            if (best != col) {
-                for (int k = 0; k < m; k++) {
-                    double t = w[col * m + k];
-                    w[col * m + k] = w[best * m + k];
-                    w[best * m + k] = t;
-                }
-            }
-            double p = w[col * m + col];
-            if (p == 0) {
-                throw new IllegalStateException(
-                        "singular reaction step matrix; the reactions are too stiff for the step");
-            }
-            for (int r = col + 1; r < m; r++) {
-                double factor = w[r * m + col] / p;
-                w[r * m + col] = factor;
-                for (int k = col + 1; k < m; k++) {
-                    w[r * m + k] -= factor * w[col * m + k];
-                }
-            }
-        }
-    }
-
-    private void luSolve(double[] b) {
-        for (int col = 0; col < m; col++) {
-            int p = pivot[col];
-            if (p != col) {
-                double t = b[col];
-                b[col] = b[p];
-                b[p] = t;
-            }
-            for (int r = col + 1; r < m; r++) {
-                b[r] -= w[r * m + col] * b[col];
-            }
-        }
-        for (int r = m - 1; r >= 0; r--) {
-            double sum = b[r];
-            for (int k = r + 1; k < m; k++) {
-                sum -= w[r * m + k] * b[k];
-            }
-            b[r] = sum / w[r * m + r];
-        }
+        Checks.require(out.length == network.speciesCount(), "need one output row per species");
+        stepper.reset();
+        double dtMax = settings.maxStep(network.rateScalePerS(), grid.h, stepper.maxDiffusionUm2PerS(), minWidthUm);
+        lastStepCount = marcher.run(stepper, dtMax, out);
     }
 }

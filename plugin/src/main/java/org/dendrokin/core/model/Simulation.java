@@ -17,9 +17,8 @@ import org.dendrokin.core.kymo.Kymograph;
  * sampled every output interval from 0 to the duration, deterministic or stochastic. Pure: no files.
  */
 public final class Simulation {
-    /** Built-in model names: the scalar ones plus the multi-species ones. */
-    public static final List<String> BUILT_IN = List.of("diffusion-decay", "nagumo", "fisher-kpp",
-            "buffered-diffusion", "buffered-diffusion-rapid", "fitzhugh-nagumo");
+    /** The model name of a user's own reaction network (not a catalogue entry). */
+    public static final String NETWORK = "network";
 
     private Simulation() {
     }
@@ -27,7 +26,7 @@ public final class Simulation {
     /**
      * What to run.
      *
-     * @param model             a built-in name or "network" (then {@code network} is given)
+     * @param model             a {@link ModelCatalogue} name or {@value #NETWORK} (then {@code network} is given)
      * @param parameters        model parameters by name (built-in models)
      * @param network           the reaction network, or null for a built-in model
      * @param observed          species shown in the kymograph (networks); null for the model's default
@@ -86,43 +85,6 @@ public final class Simulation {
     /** Step halvings the time-error control makes at most (the last run costs 2^6 plain runs). */
     public static final int MAX_HALVINGS = 6;
 
-    /** Parameters each built-in model takes, in order. */
-    public static List<String> parameterNames(String model) {
-        return switch (model) {
-            case "diffusion-decay" -> List.of("D", "k");
-            case "nagumo" -> List.of("D", "k", "a");
-            case "fisher-kpp" -> List.of("D", "r");
-            case "buffered-diffusion", "buffered-diffusion-rapid" ->
-                    List.of("D_ca", "D_buffer", "B_total", "Kd", "kon", "k");
-            case "fitzhugh-nagumo" -> List.of("D", "k", "alpha", "eps", "gamma");
-            default -> throw new IllegalArgumentException("unknown model '" + model + "'; known: " + BUILT_IN
-                    + " or a network");
-        };
-    }
-
-    /** The network behind a multi-species built-in model, or the spec's own network. */
-    public static ReactionNetwork networkOf(Spec spec) {
-        Map<String, Double> p = spec.parameters();
-        return switch (spec.model()) {
-            case "buffered-diffusion" -> ReactionNetwork.bufferedDiffusion(p.get("D_ca"), p.get("D_buffer"),
-                    p.get("B_total"), p.get("Kd"), p.get("kon"), p.get("k"));
-            case "fitzhugh-nagumo" -> ReactionNetwork.fitzHughNagumo(p.get("D"), p.get("alpha"), p.get("eps"),
-                    p.get("gamma"), p.get("k"));
-            case "network" -> Objects.requireNonNull(spec.network(), "network");
-            default -> null;
-        };
-    }
-
-    /** The species a kymograph shows by default. */
-    public static String defaultObserved(Spec spec) {
-        return switch (spec.model()) {
-            case "buffered-diffusion" -> "Ca";
-            case "fitzhugh-nagumo" -> "v";
-            case "network" -> spec.network().species().get(0);
-            default -> "u";
-        };
-    }
-
     /** Runs the spec. */
     public static Result run(Spec spec, Progress progress) {
         return run(spec, progress, MAX_HALVINGS);
@@ -146,53 +108,35 @@ public final class Simulation {
             }
         }
         double origin = spec.stimuli().isEmpty() ? 0 : spec.stimuli().get(0).positionUm();
-        String model = spec.model();
-        if (ScalarRun.MODELS.contains(model) || model.equals("buffered-diffusion-rapid")) {
-            Checks.require(spec.stochastic() == null, "the stochastic mode needs a network or a multi-species model;"
-                    + " give the model as a network to simulate it stochastically");
-            List<String> names = parameterNames(model);
-            double[] p = new double[names.size()];
-            for (int i = 0; i < p.length; i++) {
-                Double v = spec.parameters().get(names.get(i));
-                Checks.require(v != null, "parameter " + names.get(i) + " is missing");
-                p[i] = v;
+        ReactionNetwork network;
+        String defaultObserved;
+        if (spec.model().equals(NETWORK)) {
+            network = Objects.requireNonNull(spec.network(), "network");
+            defaultObserved = network.species().get(0);
+        } else {
+            BuiltInModel entry = ModelCatalogue.get(spec.model());
+            if (entry.engine() == BuiltInModel.Engine.SCALAR) {
+                Checks.require(spec.stochastic() == null, "the stochastic mode needs a network or a multi-species"
+                        + " model; give the model as a network to simulate it stochastically");
             }
-            String scalarModel = model;
-            List<Stimulus> stimuli = spec.stimuli();
-            if (model.equals("buffered-diffusion-rapid")) {
-                // Rapid buffer approximation, linearised at rest (c << Kd): Wagner & Keizer 1994, sheet s3.2.
-                double kappa = p[2] / p[3];
-                double dEff = (p[0] + kappa * p[1]) / (1 + kappa);
-                double kEff = p[5] / (1 + kappa);
-                info.put("buffer_capacity", kappa);
-                info.put("effective_D_um2_per_s", dEff);
-                info.put("effective_k_per_s", kEff);
-                scalarModel = "diffusion-decay";
-                List<Stimulus> scaled = new ArrayList<>();
-                for (Stimulus s : stimuli) {
-                    // total calcium added splits into free and bound; the free part is 1 / (1 + kappa)
-                    double amount = s.kind() == Stimulus.Kind.CLAMP ? s.amount() : s.amount() / (1 + kappa);
-                    scaled.add(new Stimulus(s.timeS(), s.positionUm(), s.widthUm(), amount, s.kind(), s.durationS(),
-                            null));
-                }
-                stimuli = scaled;
-                p = new double[] {dEff, kEff};
+            Realisation realisation = entry.realise(entry.values(spec.parameters()), spec.stimuli());
+            if (realisation instanceof Realisation.Scalar scalar) {
+                info.putAll(scalar.figures());
+                Solved solved = controlled(spec.settings(), spanS, maxHalvings, info, warnings, progress, settings -> {
+                    ScalarRun run = ScalarRun.prepare(scalar.model(), spec.domain(), times, x, scalar.stimuli(),
+                            settings);
+                    double[] out = new double[times.length * x.length];
+                    run.solve(scalar.parameters(), out);
+                    return new Solved(out, run.lastStepCount(), run.spatialOrder());
+                });
+                Kymograph k = new Kymograph(x, times, solved.out(), "model units");
+                return new Result(k, null, scalar.species(), solved.steps(), FrontSpeed.measure(k, origin), info,
+                        warnings);
             }
-            String runModel = scalarModel;
-            List<Stimulus> runStimuli = stimuli;
-            double[] values = p;
-            Solved solved = controlled(spec.settings(), spanS, maxHalvings, info, warnings, progress, settings -> {
-                ScalarRun run = ScalarRun.prepare(runModel, spec.domain(), times, x, runStimuli, settings);
-                double[] out = new double[times.length * x.length];
-                run.solve(values, out);
-                return new Solved(out, run.lastStepCount(), run.spatialOrder());
-            });
-            Kymograph k = new Kymograph(x, times, solved.out(), "model units");
-            String shown = model.equals("buffered-diffusion-rapid") ? "Ca" : "u";
-            return new Result(k, null, shown, solved.steps(), FrontSpeed.measure(k, origin), info, warnings);
+            network = ((Realisation.Network) realisation).network();
+            defaultObserved = entry.observedSpecies();
         }
-        ReactionNetwork network = networkOf(spec);
-        String observed = spec.observed() != null ? spec.observed() : defaultObserved(spec);
+        String observed = spec.observed() != null ? spec.observed() : defaultObserved;
         Checks.require(network.indexOf(observed) >= 0, "the observed species '" + observed
                 + "' is not in the model " + network.species());
         if (spec.stochastic() != null) {

@@ -7,9 +7,12 @@ import org.dendrokin.core.Checks;
 /**
  * The stimuli laid out on a cable's grid, once per prepared run: the spatial profile of each pulse or
  * injection at every node, the nodes each clamp holds, and the narrowest stimulus width (which the step rule
- * needs). Fixed-value end nodes take no stimulus. Shared by the scalar and the network runs.
+ * needs). Fixed-value end nodes take no stimulus. Shared by the scalar and the network runs; {@link TimeMarcher}
+ * applies it.
  */
 final class StimulusLayout {
+    /** Number of nodes every profile and mask covers. */
+    final int nodeCount;
     /** Per stimulus, its profile at each node (null for a clamp). */
     final double[][] profile;
     /** Per stimulus, the nodes it holds (null for a pulse or injection). */
@@ -19,6 +22,7 @@ final class StimulusLayout {
 
     StimulusLayout(CableGrid grid, List<Stimulus> stimuli) {
         int n = grid.n;
+        nodeCount = n;
         int count = stimuli.size();
         profile = new double[count][];
         clampMask = new boolean[count][];

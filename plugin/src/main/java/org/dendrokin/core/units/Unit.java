@@ -8,6 +8,8 @@ public enum Unit {
     RATE("1/s"),
     SPEED("um/s"),
     MICROMOLAR("uM"),
+    /** A second-order rate constant, e.g. a binding rate kon. */
+    PER_MICROMOLAR_SECOND("1/(uM s)"),
     DF_F0("dF/F0"),
     DIMENSIONLESS("");
 

@@ -9,7 +9,10 @@ import org.dendrokin.core.fit.NoiseEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.Boundary;
 import org.dendrokin.core.model.Domain;
+import org.dendrokin.core.model.ModelCatalogue;
+import org.dendrokin.core.model.ModelParameter;
 import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.SolverSettings;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.core.spread.SpreadAnalysis;
@@ -25,12 +28,15 @@ public final class ModelComparison {
     }
 
     /**
-     * A model, its parameters and one stimulus pulse.
+     * A model, its parameters and one stimulus pulse: the fields of the ImageJ and SciJava dialogs, which give
+     * every one-species model its parameters by role: the diffusion coefficient, the rate, the threshold.
      *
-     * @param model         "diffusion-decay", "nagumo" or "fisher-kpp"
-     * @param dUm2PerS      diffusion coefficient D, um^2/s
-     * @param ratePerS      k (diffusion-decay, nagumo) or r (fisher-kpp), 1/s
-     * @param threshold     nagumo's a, dimensionless, 0..0.5 (ignored by the other models)
+     * @param model         a one-species model of the {@link ModelCatalogue}: "diffusion-decay", "nagumo" or
+     *                      "fisher-kpp"
+     * @param dUm2PerS      diffusion coefficient D, um^2/s (every parameter in um^2/s)
+     * @param ratePerS      k (diffusion-decay, nagumo) or r (fisher-kpp), 1/s (every parameter in 1/s)
+     * @param threshold     nagumo's a, dimensionless, 0..0.5 (every dimensionless parameter; ignored by the
+     *                      models without one)
      * @param stimulusTimeS time of the pulse on the imaging clock, s
      * @param stimulusUm    position of the pulse along the path, um from the first vertex
      * @param widthUm       standard deviation of the pulse's Gaussian profile, um
@@ -41,22 +47,30 @@ public final class ModelComparison {
     public record Settings(String model, double dUm2PerS, double ratePerS, double threshold, double stimulusTimeS,
             double stimulusUm, double widthUm, double amount, Boundary boundary, double gridUm) {
         public Settings {
-            Checks.require(ScalarRun.MODELS.contains(model), "model " + model + " is not one of " + ScalarRun.MODELS);
+            requireScalar(model);
             Checks.positiveFinite(gridUm, "grid spacing (um)");
         }
 
-        /** The parameter values in the order the model takes them. */
+        /** The parameter values in the order the model takes them, each from the field of its unit. */
         public double[] parameters() {
-            return model.equals("nagumo") ? new double[] {dUm2PerS, ratePerS, threshold}
-                    : new double[] {dUm2PerS, ratePerS};
+            List<ModelParameter> list = ModelCatalogue.scalar(model).parameters();
+            double[] values = new double[list.size()];
+            for (int i = 0; i < values.length; i++) {
+                values[i] = switch (list.get(i).unit()) {
+                    case DIFFUSION -> dUm2PerS;
+                    case RATE -> ratePerS;
+                    case DIMENSIONLESS -> threshold;
+                    default -> throw new IllegalStateException("the dialogs have no field for parameter "
+                            + list.get(i).name() + " of " + model);
+                };
+            }
+            return values;
         }
 
         /** Parameter names and units, in the order of {@link #parameters()}. */
         public String[][] parameterLabels() {
-            String rate = model.equals("fisher-kpp") ? "r" : "k";
-            return model.equals("nagumo")
-                    ? new String[][] {{"D", "um^2/s"}, {"k", "1/s"}, {"a", ""}}
-                    : new String[][] {{"D", "um^2/s"}, {rate, "1/s"}};
+            return ModelCatalogue.scalar(model).parameters().stream()
+                    .map(p -> new String[] {p.name(), p.unit().symbol()}).toArray(String[][]::new);
         }
     }
 
@@ -65,8 +79,9 @@ public final class ModelComparison {
      * command line's {@code compare} set beside a measured kymograph. The predicted signal is
      * {@code baseline + amplitude * u}.
      *
-     * @param model      "diffusion-decay", "nagumo" or "fisher-kpp"
-     * @param parameters the model's parameters in {@link ScalarRun#parameterNames()} order
+     * @param model      a one-species model of the {@link ModelCatalogue}: "diffusion-decay", "nagumo" or
+     *                   "fisher-kpp"
+     * @param parameters the model's parameters in the order of its catalogue entry
      * @param stimuli    the protocol; positions in um along the path (the kymograph's distances)
      * @param amplitude  signal per unit of u
      * @param baseline   signal at rest, signal unit
@@ -76,7 +91,7 @@ public final class ModelComparison {
     public record GivenModel(String model, double[] parameters, List<Stimulus> stimuli, double amplitude,
             double baseline, Boundary boundary, double gridUm) {
         public GivenModel {
-            Checks.require(ScalarRun.MODELS.contains(model), "model " + model + " is not one of " + ScalarRun.MODELS);
+            requireScalar(model);
             Checks.require(!stimuli.isEmpty(), "give at least one stimulus");
             Checks.finite(amplitude, "amplitude");
             Checks.finite(baseline, "baseline");
@@ -129,7 +144,8 @@ public final class ModelComparison {
             shifted.add(s.shiftedBy(-x0));
         }
         progress.report("simulating " + g.model(), 0, 1);
-        ScalarRun run = ScalarRun.prepare(g.model(), domain, t, d, shifted);
+        ScalarRun run = ScalarRun.prepare(ModelCatalogue.scalar(g.model()), domain, t, d, shifted,
+                SolverSettings.DEFAULT);
         double[] out = new double[d.length * t.length];
         run.solve(g.parameters(), out);
         for (int i = 0; i < out.length; i++) {
@@ -173,8 +189,12 @@ public final class ModelComparison {
 
     /** The parameter names of a built-in scalar model, in the order its parameters are given. */
     public static List<String> parameterNames(String model) {
-        return ScalarRun.prepare(model, new Domain(1, 0.5, Boundary.NO_FLUX), new double[] {0}, new double[] {0},
-                List.of()).parameterNames();
+        return ModelCatalogue.scalar(model).parameterNames();
+    }
+
+    private static void requireScalar(String model) {
+        Checks.require(ModelCatalogue.findScalar(model).isPresent(),
+                "model " + model + " is not one of " + ModelCatalogue.scalarNames());
     }
 
     /** The commands' settings as a given model: one pulse, amplitude 1, baseline 0. */

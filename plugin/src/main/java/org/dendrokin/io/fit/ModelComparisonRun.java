@@ -11,7 +11,7 @@ import java.util.Locale;
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.Boundary;
-import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.core.spread.SpreadAnalysis;
@@ -70,9 +70,9 @@ public final class ModelComparisonRun {
             throw new InputException(modelJson, "is not a JSON object (" + e.getMessage() + ")", e);
         }
         String model = string(root, "model", modelJson);
-        if (!ScalarRun.MODELS.contains(model)) {
+        if (ModelCatalogue.findScalar(model).isEmpty()) {
             throw new InputException(modelJson, "key \"model\": unknown model '" + model + "'; known: "
-                    + ScalarRun.MODELS);
+                    + ModelCatalogue.scalarNames());
         }
         JsonArray st = root.has("stimuli") && root.get("stimuli").isJsonArray() ? root.getAsJsonArray("stimuli")
                 : null;

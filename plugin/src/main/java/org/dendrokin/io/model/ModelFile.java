@@ -9,9 +9,13 @@ import java.util.Map;
 import java.util.Set;
 
 import org.dendrokin.core.model.Boundary;
+import org.dendrokin.core.model.BuiltInModel;
+import org.dendrokin.core.model.ClosedForm;
 import org.dendrokin.core.model.CrossSection;
 import org.dendrokin.core.model.Domain;
 import org.dendrokin.core.model.Expression;
+import org.dendrokin.core.model.ModelCatalogue;
+import org.dendrokin.core.model.ModelParameter;
 import org.dendrokin.core.model.ReactionNetwork;
 import org.dendrokin.core.model.Simulation;
 import org.dendrokin.core.model.SolverSettings;
@@ -169,8 +173,8 @@ public final class ModelFile {
 
         Map<String, Double> parameters = new LinkedHashMap<>();
         ReactionNetwork network = null;
-        String kind = model;
-        if (model.equals("network")) {
+        BuiltInModel entry = null;
+        if (model.equals(Simulation.NETWORK)) {
             if (root.has("parameters")) {
                 throw fail("parameters is for built-in models; a network keeps its constants in network.parameters"
                         + " or in each reaction");
@@ -185,13 +189,9 @@ public final class ModelFile {
             if (root.has("network") || root.has("sbml")) {
                 throw fail("network and sbml need \"model\": \"network\"");
             }
-            List<String> names;
-            try {
-                names = Simulation.parameterNames(model);
-            } catch (IllegalArgumentException e) {
-                throw fail("model \"" + model + "\" is not known; use one of " + String.join(", ", Simulation.BUILT_IN)
-                        + ", or \"network\"");
-            }
+            entry = ModelCatalogue.find(model).orElseThrow(() -> fail("model \"" + model + "\" is not known; use one"
+                    + " of " + String.join(", ", ModelCatalogue.names()) + ", or \"network\""));
+            List<String> names = entry.parameterNames();
             JsonFields p = root.object("parameters");
             p.refuseUnknownKeys(Set.copyOf(names));
             for (String name : names) {
@@ -202,12 +202,9 @@ public final class ModelFile {
                 double v = p.number(name);
                 parameters.put(name, v);
             }
-            checkBuiltIn(model, parameters, h);
-            double rate = switch (model) {
-                case "nagumo", "fitzhugh-nagumo" -> parameters.get("k");
-                case "fisher-kpp" -> parameters.get("r");
-                default -> 0;
-            };
+            double[] values = entry.values(parameters);
+            checkBuiltIn(entry, values, h);
+            double rate = entry.stiffnessPerS(values);
             if (settings.fixedStepS() > 0 && rate * settings.fixedStepS() > 1) {
                 throw fail("solver.fixed_step_s (" + num(settings.fixedStepS()) + " s) is too long to resolve the"
                         + " reactions of " + model + ": their rate is " + num(rate)
@@ -229,17 +226,16 @@ public final class ModelFile {
             double per = s.has("molecules_per_unit_um3")
                     ? s.positive("molecules_per_unit_um3")
                     : StochasticSettings.MICROMOLAR_PER_UM3;
-            if (!kind.equals("network") && !kind.equals("buffered-diffusion") && !kind.equals("fitzhugh-nagumo")) {
-                throw fail("stochastic needs a reaction network (model \"network\" or \"buffered-diffusion\"); "
-                        + model + " is a continuum model only");
+            if (entry != null && entry.engine() != BuiltInModel.Engine.NETWORK) {
+                throw fail("stochastic needs a reaction network (model " + stochasticModels() + "); " + model
+                        + " is a continuum model only");
             }
             if (settings.timeTolerance() > 0) {
                 throw fail("solver.time_tolerance applies to deterministic runs only; remove it or the stochastic"
                         + " block");
             }
-            if (kind.equals("fitzhugh-nagumo")) {
-                throw fail("stochastic is not available for fitzhugh-nagumo, whose rates change sign; write it as a"
-                        + " network of one-way reactions");
+            if (entry != null && entry.stochasticRefusal() != null) {
+                throw fail("stochastic is not available for " + model + ", " + entry.stochasticRefusal());
             }
             stochastic = new StochasticSettings(runs, seed, threads, per);
         }
@@ -261,53 +257,47 @@ public final class ModelFile {
         return (int) v;
     }
 
-    /** Checks that the grid and step can resolve a built-in model, saying which does not. */
-    private void checkBuiltIn(String model, Map<String, Double> p, double h) {
-        for (Map.Entry<String, Double> e : p.entrySet()) {
-            boolean mayBeNegative = e.getKey().equals("a") || e.getKey().equals("alpha");
-            if (!mayBeNegative && e.getValue() < 0) {
-                throw fail("parameters." + e.getKey() + " must be zero or positive, got " + num(e.getValue()));
+    /** Checks a built-in model's values against their ranges and that the grid resolves it, saying which not. */
+    private void checkBuiltIn(BuiltInModel entry, double[] values, double h) {
+        List<ModelParameter> list = entry.parameters();
+        List<String> strictly = new ArrayList<>();
+        boolean zero = false;
+        for (int i = 0; i < values.length; i++) {
+            ModelParameter p = list.get(i);
+            if (p.range() != ModelParameter.Range.ANY && values[i] < 0) {
+                throw fail("parameters." + p.name() + " must be zero or positive, got " + num(values[i]));
+            }
+            if (p.range() == ModelParameter.Range.POSITIVE) {
+                strictly.add("parameters." + p.name());
+                zero |= values[i] <= 0;
             }
         }
-        String scaleName = null;
-        double scale = Double.POSITIVE_INFINITY;
-        switch (model) {
-            case "nagumo" -> {
-                if (p.get("k") > 0) {
-                    scale = Math.sqrt(2 * p.get("D") / p.get("k"));
-                    scaleName = "the front width sqrt(2 D / k)";
-                }
-            }
-            case "fitzhugh-nagumo" -> {
-                if (p.get("k") > 0) {
-                    scale = Math.sqrt(2 * p.get("D") / p.get("k"));
-                    scaleName = "the front width sqrt(2 D / k)";
-                }
-            }
-            case "fisher-kpp" -> {
-                if (p.get("r") > 0) {
-                    scale = Math.sqrt(p.get("D") / p.get("r"));
-                    scaleName = "the front width sqrt(D / r)";
-                }
-            }
-            case "diffusion-decay" -> {
-                if (p.get("k") > 0) {
-                    scale = Math.sqrt(p.get("D") / p.get("k"));
-                    scaleName = "the length constant sqrt(D / k)";
-                }
-            }
-            case "buffered-diffusion", "buffered-diffusion-rapid" -> {
-                if (p.get("Kd") <= 0 || p.get("kon") <= 0) {
-                    throw fail("parameters.Kd and parameters.kon must be positive");
-                }
-            }
-            default -> {
+        if (zero) {
+            throw fail(String.join(" and ", strictly) + " must be positive");
+        }
+        ClosedForm scale = entry.gridScale().orElse(null);
+        if (scale != null) {
+            // NaN or infinite when the model's rate is zero: nothing to resolve then
+            double length = scale.value(values);
+            if (h > length / 2) {
+                throw fail("domain.dx_um (" + num(h) + " um) is too coarse to resolve " + entry.name() + ": the "
+                        + scale.description() + " is " + num(length) + " um, so dx_um must be at most "
+                        + num(length / 2) + " um");
             }
         }
-        if (h > scale / 2) {
-            throw fail("domain.dx_um (" + num(h) + " um) is too coarse to resolve " + model + ": " + scaleName + " is "
-                    + num(scale) + " um, so dx_um must be at most " + num(scale / 2) + " um");
+    }
+
+    /** The models the stochastic mode runs, quoted, for messages: "network" or "buffered-diffusion". */
+    private static String stochasticModels() {
+        List<String> names = new ArrayList<>();
+        names.add("\"" + Simulation.NETWORK + "\"");
+        for (BuiltInModel e : ModelCatalogue.all()) {
+            if (e.engine() == BuiltInModel.Engine.NETWORK && e.stochasticRefusal() == null) {
+                names.add("\"" + e.name() + "\"");
+            }
         }
+        String last = names.remove(names.size() - 1);
+        return names.isEmpty() ? last : String.join(", ", names) + " or " + last;
     }
 
     private Stimulus stimulus(JsonFields o, String key, double length, double h) {

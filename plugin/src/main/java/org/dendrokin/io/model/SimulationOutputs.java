@@ -8,7 +8,11 @@ import java.util.Map;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.model.BuiltInModel;
+import org.dendrokin.core.model.ModelCatalogue;
+import org.dendrokin.core.model.ModelParameter;
 import org.dendrokin.core.model.Simulation;
+import org.dendrokin.core.units.Unit;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.KymographCsv;
@@ -40,7 +44,9 @@ public final class SimulationOutputs {
             throw new InputException(modelFile, e.getMessage());
         }
         FiniteOutput.require(modelFile, spec, result);
-        String unit = ScalarUnit.of(spec.model());
+        BuiltInModel entry = spec.model().equals(Simulation.NETWORK) ? null : ModelCatalogue.get(spec.model());
+        // a network's values are concentrations, uM, like the stimulus amounts given for it
+        String unit = entry == null ? Unit.MICROMOLAR.symbol() : entry.signalUnit();
         Kymograph k = result.kymograph().withValues(result.kymograph().values(), unit);
         List<Path> files = new ArrayList<>();
         List<String> warnings = new ArrayList<>(result.warnings());
@@ -72,10 +78,10 @@ public final class SimulationOutputs {
         summary.put("model", spec.model());
         summary.put("species", result.species());
         summary.put("signal_unit", unit);
-        if (!spec.parameters().isEmpty()) {
+        if (entry != null) {
             Map<String, Object> params = new LinkedHashMap<>();
-            for (String name : Simulation.parameterNames(spec.model())) {
-                params.put(name, Map.of("value", spec.parameters().get(name), "unit", ScalarUnit.parameter(name)));
+            for (ModelParameter p : entry.parameters()) {
+                params.put(p.name(), Map.of("value", spec.parameters().get(p.name()), "unit", p.unit().symbol()));
             }
             summary.put("parameters", params);
         }
@@ -111,29 +117,5 @@ public final class SimulationOutputs {
         AtomicFiles.writeString(json, text + "\n");
         files.add(json);
         return new Written(result, files, warnings);
-    }
-
-    /** Units of the built-in models' values and parameters. */
-    static final class ScalarUnit {
-        private ScalarUnit() {
-        }
-
-        static String of(String model) {
-            return switch (model) {
-                case "nagumo", "fisher-kpp", "fitzhugh-nagumo" -> "u";
-                case "diffusion-decay" -> "u";
-                default -> "uM";
-            };
-        }
-
-        static String parameter(String name) {
-            return switch (name) {
-                case "D", "D_ca", "D_buffer" -> "um^2/s";
-                case "k", "r" -> "1/s";
-                case "B_total", "Kd" -> "uM";
-                case "kon" -> "1/(uM s)";
-                default -> "";
-            };
-        }
     }
 }

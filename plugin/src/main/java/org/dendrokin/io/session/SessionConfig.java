@@ -7,7 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Set;
 
-import org.dendrokin.core.model.ScalarRun;
+import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.json.JsonFields;
 import org.dendrokin.io.json.JsonFiles;
@@ -59,7 +59,7 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
             "free_stimulus", "sealed_ends");
     private static final Set<String> STIMULUS_KEYS = Set.of("time_s", "position_um");
     /** The names {@code models} may hold: the models the session analysis can fit. */
-    private static final List<String> FITTABLE_MODELS = ScalarRun.MODELS;
+    private static final List<String> FITTABLE_MODELS = ModelCatalogue.scalarNames();
 
     public SessionConfig {
         baselineFrames = baselineFrames == null ? null : baselineFrames.clone();

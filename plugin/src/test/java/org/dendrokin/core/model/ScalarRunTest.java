@@ -309,6 +309,42 @@ class ScalarRunTest {
     }
 
     @Test
+    void sensitivitiesAtAZeroRateMatchOneSidedDifferences() {
+        Domain domain = new Domain(30, 0.25, Boundary.NO_FLUX);
+        double[] pos = range(0.3, 1.7, 17);
+        double[] times = range(0, 0.5, 13);
+        List<Stimulus> protocol = List.of(Stimulus.pulse(0, 6, 1.5, 0.8), Stimulus.injection(1.2, 2, 20, 1.0, 0.6));
+        String[] models = {"diffusion-decay", "nagumo", "fisher-kpp"};
+        double[][] params = {{0.8, 0}, {1.2, 0, 0.2}, {0.7, 0}};
+        for (int m = 0; m < models.length; m++) {
+            ScalarRun run = ScalarRun.prepare(models[m], domain, times, pos, protocol,
+                    SolverSettings.DEFAULT.withFixedStepS(0.05));
+            int size = times.length * pos.length;
+            double[] out = new double[size];
+            double[][] sens = new double[params[m].length][size];
+            run.solveWithSensitivities(params[m], out, sens);
+            double h = 1e-4;
+            double[][] f = new double[3][size];
+            for (int s = 0; s < 3; s++) {
+                double[] p = params[m].clone();
+                p[1] = s * h;   // a rate cannot be negative, so the difference is one-sided
+                run.solve(p, f[s]);
+            }
+            double scale = 0;
+            double err = 0;
+            for (int i = 0; i < size; i++) {
+                double fd = (-3 * f[0][i] + 4 * f[1][i] - f[2][i]) / (2 * h);
+                scale = Math.max(scale, Math.abs(fd));
+                err = Math.max(err, Math.abs(fd - sens[1][i]));
+            }
+            // REF: second-order one-sided difference, error O(h^2) [common practice]
+            assertTrue(scale > 0.1, models[m] + ": the rate has an effect at zero");
+            assertTrue(err < 1e-6 * scale, models[m] + " d/d" + run.parameterNames().get(1) + " at zero: " + err
+                    + " vs scale " + scale);
+        }
+    }
+
+    @Test
     void diffusionDecaySensitivitiesMatchTheDerivativeOfTheClosedForm() {
         Domain domain = new Domain(60, 0.05, Boundary.NO_FLUX);
         double[] x = nodes(domain);
