@@ -9,35 +9,36 @@ import org.apache.commons.math3.util.KthSelector;
  * Proc. IEEE Int. Conf. on Cybernetics and Society, 163-165), with a Gaussian weighting of the spectrum and a
  * three-point Gaussian fit to the peak.
  *
- * <p>Each tile f (and the reference g) is apodised: its median (over every third pixel) is subtracted and the result multiplied by the
- * weights w (a taper to zero at the tile's edges, so the edges of the tile are not taken for image structure), then
- * zero-padded to the transform size nx x ny. The median, not the mean: where structure is sparse on a flat
- * background the median is the background, and w (f - median) then has no component of the shape of w, which would
- * stay in place while the image moves and pull the peak towards zero. With F and G their spectra (see {@link RealFft2d}), the correlation
- * surface is
+ * <p>Each tile f (and the reference g) is apodised: its median (over every third pixel) is subtracted and the result
+ * multiplied by the weights w (a taper to zero at the tile's edges, so that the edges of the tile are not taken for
+ * image structure). The median, not the mean: where structure is sparse on a flat background the median is the
+ * background, and w (f - median) then has no component of the shape of w, which would stay in place while the image
+ * moves and pull the peak towards zero. With F and G their spectra (see {@link RealFft2d}), the correlation surface
+ * is
  * <pre>
- *   r(x, y) = IDFT[ L(k) F(k) conj G(k) / |F(k) conj G(k)| ](x, y),   L(k) = exp(-2 pi^2 s^2 (kx^2/nx^2 + ky^2/ny^2))
+ *   r(x, y) = IDFT[ L(k) F(k) conj G(k) / |F(k) conj G(k)| ](x, y),
+ *   L(k) = exp(-2 pi^2 s^2 (kx^2 / nx^2 + ky^2 / ny^2))
  * </pre>
- * with k = (kx, ky) in cycles per transform length (ky and kx taken as signed frequencies) and s = {@code sigmaPx}.
- * Dividing by the magnitude ("whitening") keeps only the phase, which a translation changes and a change of
- * brightness mostly does not: edges and fine structure decide the match, not where the tile is brightest. For a pure
- * circular translation by d, F conj G / |F conj G| = exp(-2 pi i (kx dx / nx + ky dy / ny)), and r is the sampled
- * Gaussian of standard deviation s centred on d (up to the tails of L beyond the Nyquist frequency, exp(-pi^2 s^2 / 2)
- * of the peak: 7e-3 at s = 1, 2e-5 at s = 1.5). The three-point Gaussian estimator along x and y through the
- * largest sample and its neighbours (Willert and Gharib 1991, Exp Fluids 10:181-193) is exact for a sampled
- * Gaussian, so it gives the sub-pixel position without the bias a parabola has on a correlation peak. L also
- * removes the noise-dominated highest frequencies, where the whitened spectrum would otherwise give noise the same
- * weight as structure. The constant term (k = 0) is left out, and so are the frequencies where L is below 1e-3
- * (|kx / nx| or |ky / ny| above sqrt(ln 1000 / (2 pi^2 s^2)), 0.39 at s = 1.5), which saves a fifth of the work.
+ * with k = (kx, ky) the signed frequencies in cycles per transform length and s = {@code sigmaPx}. Dividing by the
+ * magnitude ("whitening") keeps only the phase, which a translation changes and a change of brightness mostly does
+ * not: edges and fine structure decide the match, not where the tile is brightest. For a pure circular translation
+ * by d, F conj G / |F conj G| = exp(-2 pi i (kx dx / nx + ky dy / ny)), and r is the sampled Gaussian of standard
+ * deviation s centred on d, up to the tails of L that are left out. The three-point Gaussian estimator along x and
+ * along y through the largest sample and its neighbours (Willert and Gharib 1991, Exp Fluids 10:181-193) is exact
+ * for a sampled Gaussian, so it gives the sub-pixel position without the bias a parabola has on a correlation peak.
+ * L also removes the noise-dominated highest frequencies, where the whitened spectrum would otherwise give noise the
+ * same weight as structure. Left out: the constant term (k = 0) and the frequencies where L is below 1e-3
+ * (|kx / nx| or |ky / ny| above sqrt(ln 1000 / (2 pi^2 s^2)), 0.39 at s = 1.5), which saves a fifth of the
+ * transforms; only the rows of r within the search range are computed.
  *
  * <p>Sign: if the tile shows the reference moved by (dx, dy) pixels, f(x, y) = g(x - dx, y - dy), the peak is at
  * (dx, dy). The peak is searched for within {@code maxShiftPx} of zero in x and in y.
  *
  * <p>Peak height: the fitted peak amplitude divided by its value for a pure translation,
- * {@code (sum over all k != 0 of L(k)) / (nx ny)}; 1 means the tile is the reference translated, values near 0 that
- * nothing in it matches. Independent noise alone gives peaks of about 0.1 for a 64 x 64 transform at s = 1.
+ * {@code (sum over the kept k != 0 of L(k)) / (nx ny)}; 1 means the tile is the reference translated, values near 0
+ * that nothing in it matches. Independent noise alone gives peaks of about 0.1 for a 64 x 64 transform at s = 1.5.
  *
- * <p>Holds scratch arrays: one instance serves one thread.
+ * <p>Holds scratch arrays: one instance serves one thread ({@link #copy} makes one for another).
  */
 final class PhaseCorrelation {
     private static final int MEDIAN_STRIDE = 3;
@@ -140,6 +141,16 @@ final class PhaseCorrelation {
         apodise(tile);
         fft.forward(image, refRe, refIm, columns);
         hasReference = true;
+    }
+
+    /** A new instance with the same settings and reference and scratch of its own, for another thread. */
+    PhaseCorrelation copy() {
+        PhaseCorrelation c = new PhaseCorrelation(tileWidth, tileHeight, weights, fft.nx(), fft.ny(), sigmaPx,
+                maxShiftPx);
+        System.arraycopy(refRe, 0, c.refRe, 0, refRe.length);
+        System.arraycopy(refIm, 0, c.refIm, 0, refIm.length);
+        c.hasReference = hasReference;
+        return c;
     }
 
     /**
