@@ -10,7 +10,8 @@ import org.dendrokin.core.Checks;
  *                        of it (or of the pixel size, if the band is narrower) is reported with a warning
  * @param windowPx        largest side of the measurement window, pixels: a power of two from 16 to 1024. The cost
  *                        of a frame grows as its square; 64 is enough for a dendrite with spines
- * @param maxShiftPx      largest shift looked for along x and along y, pixels, 1 to {@code windowPx / 4}
+ * @param maxShiftPx      largest shift looked for along x and along y, pixels, 1 to {@code windowPx / 4}; as the
+ *                        window follows the content, this limits a sudden jump, not the total drift
  * @param smoothingFrames width of the running median applied to the measured trace, frames: 1 (none) or an odd
  *                        number; it removes isolated wrong frames and keeps sudden steps
  */

@@ -26,15 +26,27 @@ final class SyntheticDendrite {
     private final boolean[] blobOnDendrite;
 
     /**
+     * A dendrite along a gentle sine curve.
+     *
      * @param width  image width, pixels
      * @param height image height, pixels
      * @param seed   places the spines and blobs
      */
     SyntheticDendrite(int width, int height, long seed) {
+        this(width, height, seed, height / 10.0);
+    }
+
+    /**
+     * @param width       image width, pixels
+     * @param height      image height, pixels
+     * @param seed        places the spines and blobs
+     * @param amplitudePx amplitude of the dendrite's sine curve, pixels; 0 for a straight horizontal dendrite
+     */
+    SyntheticDendrite(int width, int height, long seed, double amplitudePx) {
         this.width = width;
         this.height = height;
         this.centreY = height / 2.0;
-        this.amplitudePx = height / 10.0;
+        this.amplitudePx = amplitudePx;
         this.periodPx = width * 0.9;
         SplittableRandom random = new SplittableRandom(seed);
         int spines = Math.max(4, width / 8);

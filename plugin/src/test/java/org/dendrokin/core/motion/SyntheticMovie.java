@@ -58,6 +58,32 @@ final class SyntheticMovie implements FrameSource {
         };
     }
 
+    /**
+     * A diffusion-decay pulse along a straight dendrite lying along x: relative change
+     * {@code A s0 / sqrt(V) exp(-(x - x0)^2 / (2 V)) exp(-k tau)}, V = s0^2 + 2 D tau, tau = (f - firstFrame) dt,
+     * the closed form of c_t = D c_xx - k c after a Gaussian pulse (Crank 1975).
+     *
+     * @param x0Px        release position, pixels
+     * @param amplitude   A, relative change at the release
+     * @param s0Px        s0, pixels
+     * @param dPx2PerS    D, pixels^2/s
+     * @param kPerS       k, 1/s
+     * @param firstFrame  frame of the release
+     * @param frameS      frame interval, s
+     */
+    static IntFunction<SyntheticDendrite.Gain> diffusionDecay(double x0Px, double amplitude, double s0Px,
+            double dPx2PerS, double kPerS, int firstFrame, double frameS) {
+        return f -> {
+            if (f < firstFrame) {
+                return null;
+            }
+            double tau = (f - firstFrame) * frameS;
+            double v = s0Px * s0Px + 2 * dPx2PerS * tau;
+            double a = amplitude * s0Px / Math.sqrt(v) * Math.exp(-kPerS * tau);
+            return (x, y) -> a * Math.exp(-(x - x0Px) * (x - x0Px) / (2 * v));
+        };
+    }
+
     private static double gaussian(SplittableRandom random) {
         // Box-Muller; one of the pair is enough here
         double u = 1 - random.nextDouble();
