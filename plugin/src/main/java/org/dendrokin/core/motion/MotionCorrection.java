@@ -103,75 +103,22 @@ public final class MotionCorrection {
                 window.ny, PEAK_SIGMA_PX, maxShift);
 
         int[] pixels = window.pixelIndices(width);
-        float[] tile = new float[pixels.length];
-        double[] mean = new double[pixels.length];
-        for (int f = baselineFirst; f <= baselineLast; f++) {
-            progress.checkCancelled();
-            frames.gather(f, pixels, tile);
-            for (int i = 0; i < tile.length; i++) {
-                mean[i] += tile[i];
-            }
-        }
-        int referenceFrames = baselineLast - baselineFirst + 1;
-        for (int i = 0; i < mean.length; i++) {
-            mean[i] /= referenceFrames;
-        }
-        correlation.reference(mean);
-        ThreadLocal<PhaseCorrelation> perThread = ThreadLocal.withInitial(correlation::copy);
-
-        double[] dx = new double[frameCount];
-        double[] dy = new double[frameCount];
-        double[] peaks = new double[frameCount];
-        int[] moved = new int[pixels.length];
-        float[][] tiles = new float[Math.min(BLOCK_FRAMES, frameCount)][pixels.length];
-        PhaseCorrelation.Shift[] shifts = new PhaseCorrelation.Shift[tiles.length];
-        int atLimit = 0;
-        int trackX = 0;
-        int trackY = 0;
+        correlation.reference(meanTile(frames, pixels, baselineFirst, baselineLast, progress));
+        Tracking tracking = new Tracking(frames, window, pixels, correlation);
         for (int start = 0; start < frameCount; start += BLOCK_FRAMES) {
             progress.checkCancelled();
             int count = Math.min(BLOCK_FRAMES, frameCount - start);
-            // frames are read in order on this thread (a frame source need not be thread-safe); the transforms,
-            // nearly all the work, run in parallel
-            for (int i = 0; i < count; i++) {
-                gatherAt(frames, start + i, pixels, moved, trackX, trackY, tiles[i]);
-            }
-            IntStream.range(0, count).parallel().forEach(i -> shifts[i] = perThread.get().measure(tiles[i]));
-            for (int i = 0; i < count; i++) {
-                int f = start + i;
-                PhaseCorrelation.Shift s = shifts[i];
-                int offsetX = trackX;
-                int offsetY = trackY;
-                int nearestX = window.clampOffsetX(Math.round(offsetX + s.dxPx()), width);
-                int nearestY = window.clampOffsetY(Math.round(offsetY + s.dyPx()), height);
-                if (Math.abs(nearestX - offsetX) > RETRACK_PX || Math.abs(nearestY - offsetY) > RETRACK_PX) {
-                    // a jump: measure again with the window over the content, so that little of it has left
-                    offsetX = nearestX;
-                    offsetY = nearestY;
-                    gatherAt(frames, f, pixels, moved, offsetX, offsetY, tile);
-                    s = correlation.measure(tile);
-                }
-                dx[f] = offsetX + s.dxPx();
-                dy[f] = offsetY + s.dyPx();
-                peaks[f] = s.peakHeight();
-                if (s.atLimit()) {
-                    atLimit++;
-                }
-            }
-            int last = start + count - 1;
-            trackX = window.clampOffsetX(Math.round(dx[last]), width);
-            trackY = window.clampOffsetY(Math.round(dy[last]), height);
-            progress.report("Measuring motion", last + 1, frameCount);
+            tracking.block(start, count);
+            progress.report("Measuring motion", start + count, frameCount);
         }
 
-        double[] smoothX = runningMedian(dx, settings.smoothingFrames());
-        double[] smoothY = runningMedian(dy, settings.smoothingFrames());
+        double[] smoothX = runningMedian(tracking.dx, settings.smoothingFrames());
+        double[] smoothY = runningMedian(tracking.dy, settings.smoothingFrames());
         MotionTrace.Reference reference = new MotionTrace.Reference(baselineFirst, baselineLast, window.x, window.y,
                 window.width, window.height, window.stimulusFadedOut);
-        MotionTrace draft = new MotionTrace(smoothX, smoothY, dx, dy, peaks, atLimit, settings.pixelSizeUm(),
-                settings.warningThresholdUm(), reference, List.of());
-        return new MotionTrace(smoothX, smoothY, dx, dy, peaks, atLimit, settings.pixelSizeUm(),
-                settings.warningThresholdUm(), reference, warnings(draft, settings, maxShift));
+        MotionTrace trace = new MotionTrace(smoothX, smoothY, tracking.dx, tracking.dy, tracking.peaks,
+                tracking.atLimit, settings.pixelSizeUm(), settings.warningThresholdUm(), reference, List.of());
+        return trace.withWarnings(warnings(trace, settings, maxShift));
     }
 
     /**
@@ -196,14 +143,22 @@ public final class MotionCorrection {
                 trace.dxPx(), trace.dyPx(), progress);
     }
 
-    /** Reads frame f in the window moved by (offsetX, offsetY) whole pixels from the reference window. */
-    private static void gatherAt(FrameSource frames, int f, int[] pixels, int[] moved, int offsetX, int offsetY,
-            float[] tile) {
-        int offset = offsetY * frames.width() + offsetX;
-        for (int i = 0; i < pixels.length; i++) {
-            moved[i] = pixels[i] + offset;
+    /** The pixel-by-pixel mean of the window over frames first..last. */
+    private static double[] meanTile(FrameSource frames, int[] pixels, int first, int last, Progress progress) {
+        float[] tile = new float[pixels.length];
+        double[] mean = new double[pixels.length];
+        for (int f = first; f <= last; f++) {
+            progress.checkCancelled();
+            frames.gather(f, pixels, tile);
+            for (int i = 0; i < tile.length; i++) {
+                mean[i] += tile[i];
+            }
         }
-        frames.gather(f, moved, tile);
+        int count = last - first + 1;
+        for (int i = 0; i < mean.length; i++) {
+            mean[i] /= count;
+        }
+        return mean;
     }
 
     private static List<String> warnings(MotionTrace trace, MotionSettings settings, int maxShift) {
@@ -263,6 +218,84 @@ public final class MotionCorrection {
             return Double.NaN;
         }
         return n % 2 == 1 ? v[n / 2] : 0.5 * (v[n / 2 - 1] + v[n / 2]);
+    }
+
+    /** The measurement of successive blocks of frames, with the window following the content. */
+    private static final class Tracking {
+        final double[] dx;
+        final double[] dy;
+        final double[] peaks;
+        int atLimit;
+        private final FrameSource frames;
+        private final Window window;
+        private final int[] pixels;
+        private final int[] moved;
+        private final float[] tile;
+        private final float[][] tiles;
+        private final PhaseCorrelation.Shift[] shifts;
+        private final PhaseCorrelation correlation;
+        private final ThreadLocal<PhaseCorrelation> perThread;
+        private int trackX;
+        private int trackY;
+
+        Tracking(FrameSource frames, Window window, int[] pixels, PhaseCorrelation correlation) {
+            int n = frames.frameCount();
+            this.frames = frames;
+            this.window = window;
+            this.pixels = pixels;
+            this.correlation = correlation;
+            this.perThread = ThreadLocal.withInitial(correlation::copy);
+            this.dx = new double[n];
+            this.dy = new double[n];
+            this.peaks = new double[n];
+            this.moved = new int[pixels.length];
+            this.tile = new float[pixels.length];
+            this.tiles = new float[Math.min(BLOCK_FRAMES, n)][pixels.length];
+            this.shifts = new PhaseCorrelation.Shift[tiles.length];
+        }
+
+        /** Measures frames start to start + count - 1, count at most BLOCK_FRAMES. */
+        void block(int start, int count) {
+            // frames are read in order on this thread (a frame source need not be thread-safe); the transforms,
+            // nearly all the work, run in parallel
+            for (int i = 0; i < count; i++) {
+                gather(start + i, trackX, trackY, tiles[i]);
+            }
+            IntStream.range(0, count).parallel().forEach(i -> shifts[i] = perThread.get().measure(tiles[i]));
+            for (int i = 0; i < count; i++) {
+                int f = start + i;
+                PhaseCorrelation.Shift s = shifts[i];
+                int offsetX = trackX;
+                int offsetY = trackY;
+                int nearestX = window.clampOffsetX(Math.round(offsetX + s.dxPx()), frames.width());
+                int nearestY = window.clampOffsetY(Math.round(offsetY + s.dyPx()), frames.height());
+                if (Math.abs(nearestX - offsetX) > RETRACK_PX || Math.abs(nearestY - offsetY) > RETRACK_PX) {
+                    // a jump: measure again with the window over the content, so that little of it has left
+                    offsetX = nearestX;
+                    offsetY = nearestY;
+                    gather(f, offsetX, offsetY, tile);
+                    s = correlation.measure(tile);
+                }
+                dx[f] = offsetX + s.dxPx();
+                dy[f] = offsetY + s.dyPx();
+                peaks[f] = s.peakHeight();
+                if (s.atLimit()) {
+                    atLimit++;
+                }
+            }
+            int last = start + count - 1;
+            trackX = window.clampOffsetX(Math.round(dx[last]), frames.width());
+            trackY = window.clampOffsetY(Math.round(dy[last]), frames.height());
+        }
+
+        /** Reads frame f in the window moved by (offsetX, offsetY) whole pixels from the reference window. */
+        private void gather(int f, int offsetX, int offsetY, float[] into) {
+            int offset = offsetY * frames.width() + offsetX;
+            for (int i = 0; i < pixels.length; i++) {
+                moved[i] = pixels[i] + offset;
+            }
+            frames.gather(f, moved, into);
+        }
     }
 
     /** Where the measurement window lies, its transform size and its weights. */

@@ -77,6 +77,12 @@ public final class MotionTrace {
         this.warnings = List.copyOf(warnings);
     }
 
+    /** The same trace with other warnings. */
+    MotionTrace withWarnings(List<String> newWarnings) {
+        return new MotionTrace(dxPx, dyPx, measuredDxPx, measuredDyPx, peakHeights, framesAtLimit, pixelSizeUm,
+                warningThresholdUm, reference, newWarnings);
+    }
+
     public int frameCount() {
         return dxPx.length;
     }
