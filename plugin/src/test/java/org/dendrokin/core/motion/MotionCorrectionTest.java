@@ -276,6 +276,23 @@ class MotionCorrectionTest {
     }
 
     @Test
+    void placesTheStimulusGivenAlongThePath() {
+        // an L-shaped path: 10 px right, then 20 px down; 0.5 um pixels
+        DendritePath path = DendritePath.of(new double[] {5, 15, 15}, new double[] {5, 5, 25}, false);
+        StimulusRegion r = StimulusRegion.alongPath(path, 8.0, 0.5, 2.0);
+        // REF: by hand: 8 um = 16 px along the path, 6 px past the corner [common practice]
+        assertEquals(15.0, r.xPx(), 1e-9, "x (px)");
+        assertEquals(11.0, r.yPx(), 1e-9, "y (px)");
+        assertEquals(4.0, r.radiusPx(), 1e-12, "radius (px)");
+        // REF: by hand: beyond the end, the last vertex [common practice]
+        assertEquals(25.0, StimulusRegion.alongPath(path, 100, 0.5, 2.0).yPx(), 1e-9, "y (px) past the end");
+        // REF: weights: 0 within the radius, 1 beyond twice the radius, 1/2 half way [common practice]
+        assertEquals(0.0, r.weight(15, 13), 1e-12, "weight inside");
+        assertEquals(0.5, r.weight(15, 17), 1e-12, "weight half way through the taper");
+        assertEquals(1.0, r.weight(15, 20), 1e-12, "weight outside");
+    }
+
+    @Test
     void refusesABaselineOutsideTheMovie() {
         double[] still = new double[5];
         SyntheticMovie movie = new SyntheticMovie(SCENE, still, still, null, false, 0);
