@@ -88,17 +88,254 @@ public final class KymographExtractor {
             progress.report("Extracting kymograph", f + 1, frameCount);
         }
 
-        double[] distancesUm = new double[n];
-        for (int k = 0; k < n; k++) {
-            distancesUm[k] = k * stepUm;
-        }
-        double[] timesS = new double[frameCount];
-        for (int f = 0; f < frameCount; f++) {
-            timesS[f] = f * frameIntervalS;
-        }
-        Kymograph kymograph = new Kymograph(distancesUm, timesS, values, INTENSITY);
+        Kymograph kymograph = new Kymograph(distances(n, stepUm), times(frameCount, frameIntervalS), values,
+                INTENSITY);
         return new Extraction(kymograph, (long) stencil.outsideCount * frameCount,
                 n == 0 ? 0 : stencil.outsideCount / (double) n, samples.xPx(), samples.yPx());
+    }
+
+    /**
+     * Samples a movie along a path that moves with the image: in frame f the path (and with it every band point) is
+     * translated by {@code (dxPx[f], dyPx[f])} pixels before sampling, as {@link #extract(FrameSource, DendritePath,
+     * double, double, double, double, Progress)} samples the unmoved path. A frame's value at a sample equals what
+     * that method gives in that frame for the path translated by the frame's shift (up to rounding), including the
+     * rules for band points near or beyond the image border: a sample with a band point outside the image is NaN in
+     * that frame only, and counted.
+     *
+     * <p>Speed. The table of pixels is built once: for each band point, the 3 x 3 pixels from which any shift with
+     * the same whole-pixel part can interpolate it. In each frame the whole-pixel part of the shift moves the table's
+     * base (one index list, gathered in one call) and the fractional part sets the bilinear weights.
+     *
+     * @param frames         the movie channel; only the pixels the moved band touches are read. Not modified.
+     * @param path           the path as drawn on the reference image, ImageJ pixel coordinates
+     * @param pixelSizeUm    pixel size, um, positive
+     * @param frameIntervalS time between frames, s, positive
+     * @param bandWidthUm    width of the band averaged across the path, um, zero or positive
+     * @param stepUm         spacing of the samples along the path, um, positive
+     * @param dxPx           shift of each frame along x (columns), pixels, finite; one per frame. Not modified.
+     * @param dyPx           shift of each frame along y (rows), pixels, finite; one per frame. Not modified.
+     * @param progress       receives one report a frame; checked for cancellation once a frame
+     * @return the kymograph, the number of NaN samples (outside the image in their frame), the fraction of all
+     *         samples that are NaN, and the sample centres of the unmoved path
+     * @throws IllegalArgumentException for non-positive sizes, an empty movie, or shifts that are not one finite
+     *                                  value per frame
+     * @throws Progress.CancelledException if the user cancelled
+     */
+    public static Extraction extract(FrameSource frames, DendritePath path, double pixelSizeUm,
+            double frameIntervalS, double bandWidthUm, double stepUm, double[] dxPx, double[] dyPx,
+            Progress progress) {
+        Checks.positiveFinite(pixelSizeUm, "pixelSizeUm");
+        Checks.positiveFinite(frameIntervalS, "frameIntervalS");
+        Checks.nonNegativeFinite(bandWidthUm, "path width (um)");
+        Checks.positiveFinite(stepUm, "stepUm");
+        int width = frames.width();
+        int height = frames.height();
+        int frameCount = frames.frameCount();
+        Checks.require(width > 0 && height > 0, "the movie has no pixels");
+        Checks.require(frameCount > 0, "the movie has no frames");
+        Checks.require(dxPx.length == frameCount && dyPx.length == frameCount, "one shift per frame is needed: "
+                + dxPx.length + " and " + dyPx.length + " shifts for " + frameCount + " frames");
+        for (int f = 0; f < frameCount; f++) {
+            Checks.finite(dxPx[f], "the x shift of frame " + f);
+            Checks.finite(dyPx[f], "the y shift of frame " + f);
+        }
+
+        ResampledPath samples = path.resample(stepUm / pixelSizeUm);
+        MovingStencil stencil = MovingStencil.build(samples, bandWidthUm / pixelSizeUm);
+        int n = samples.size();
+        double[] values = new double[frameCount * n];
+        long outside = 0;
+        for (int f = 0; f < frameCount; f++) {
+            progress.checkCancelled();
+            outside += stencil.sample(frames, f, dxPx[f], dyPx[f], values, f * n);
+            progress.report("Extracting kymograph", f + 1, frameCount);
+        }
+        return new Extraction(new Kymograph(distances(n, stepUm), times(frameCount, frameIntervalS), values,
+                INTENSITY), outside, outside / ((double) n * frameCount), samples.xPx(), samples.yPx());
+    }
+
+    private static double clamp(double v, int max) {
+        return Math.max(0, Math.min(max, v));
+    }
+
+    private static double[] distances(int n, double stepUm) {
+        double[] d = new double[n];
+        for (int k = 0; k < n; k++) {
+            d[k] = k * stepUm;
+        }
+        return d;
+    }
+
+    private static double[] times(int frameCount, double frameIntervalS) {
+        double[] t = new double[frameCount];
+        for (int f = 0; f < frameCount; f++) {
+            t[f] = f * frameIntervalS;
+        }
+        return t;
+    }
+
+    /**
+     * The table for a moving path. Band point q sits at (px[q], py[q]) in ImageJ coordinates on the unmoved path;
+     * its block is the 3 x 3 pixels from column {@code floor(px - 1/2)} and row {@code floor(py - 1/2)} (array
+     * indices). Shifted by d = n + phi (n whole, 0 <= phi < 1), the point's bilinear cell starts at block column
+     * n_x + 0 or n_x + 1, so every pixel it interpolates from with a non-zero weight is a block pixel moved by n;
+     * near the border, where the coordinate is clamped, the pixels with non-zero weight are still among them.
+     * The blocks' pixels are kept once each, sorted by row and column, so that moving them all by n keeps them
+     * sorted and they can be read in one {@link FrameSource#gather}.
+     */
+    private static final class MovingStencil {
+        private static final long KEY_STRIDE = 1L << 32;
+        private static final int KEY_COLUMN_OFFSET = 1 << 30;
+
+        private final int pointsPerSample;
+        private final double share;
+        private final double[] px;
+        private final double[] py;
+        private final int[] blockX;
+        private final int[] blockY;
+        private final int[] blockSlot;
+        private final int[] pixelCol;
+        private final int[] pixelRow;
+        private final int[] slot;
+        private final int[] indices;
+        private final float[] gathered;
+
+        private MovingStencil(int pointsPerSample, double[] px, double[] py) {
+            this.pointsPerSample = pointsPerSample;
+            this.share = 1.0 / pointsPerSample;
+            this.px = px;
+            this.py = py;
+            int points = px.length;
+            this.blockX = new int[points];
+            this.blockY = new int[points];
+            for (int q = 0; q < points; q++) {
+                blockX[q] = (int) Math.floor(PixelConvention.toArrayIndex(px[q]));
+                blockY[q] = (int) Math.floor(PixelConvention.toArrayIndex(py[q]));
+            }
+            long[] all = new long[points * 9];
+            for (int q = 0; q < points; q++) {
+                for (int j = 0; j < 3; j++) {
+                    for (int i = 0; i < 3; i++) {
+                        all[q * 9 + j * 3 + i] = key(blockY[q] + j, blockX[q] + i);
+                    }
+                }
+            }
+            long[] distinct = Arrays.stream(all).sorted().distinct().toArray();
+            this.pixelCol = new int[distinct.length];
+            this.pixelRow = new int[distinct.length];
+            for (int p = 0; p < distinct.length; p++) {
+                pixelRow[p] = (int) Math.floorDiv(distinct[p], KEY_STRIDE);
+                pixelCol[p] = (int) Math.floorMod(distinct[p], KEY_STRIDE) - KEY_COLUMN_OFFSET;
+            }
+            this.blockSlot = new int[points * 9];
+            for (int i = 0; i < all.length; i++) {
+                blockSlot[i] = Arrays.binarySearch(distinct, all[i]);
+            }
+            this.slot = new int[distinct.length];
+            this.indices = new int[distinct.length];
+            this.gathered = new float[distinct.length];
+        }
+
+        /** Row-major sort key of a pixel; rows and columns may be negative (off the image). */
+        private static long key(int row, int col) {
+            return row * KEY_STRIDE + col + KEY_COLUMN_OFFSET;
+        }
+
+        static MovingStencil build(ResampledPath samples, double bandWidthPx) {
+            int n = samples.size();
+            int m = Math.max(1, (int) Math.round(bandWidthPx));
+            double[] x = samples.xPx();
+            double[] y = samples.yPx();
+            double[] nx = samples.normalX();
+            double[] ny = samples.normalY();
+            double[] px = new double[n * m];
+            double[] py = new double[n * m];
+            for (int k = 0; k < n; k++) {
+                for (int j = 0; j < m; j++) {
+                    double offset = (j + 0.5) * bandWidthPx / m - bandWidthPx / 2;
+                    px[k * m + j] = x[k] + offset * nx[k];
+                    py[k * m + j] = y[k] + offset * ny[k];
+                }
+            }
+            return new MovingStencil(m, px, py);
+        }
+
+        /**
+         * Samples frame f with the path moved by (dx, dy) into {@code values[at .. at + samples)}.
+         *
+         * @return the number of samples outside the image in this frame (NaN)
+         */
+        int sample(FrameSource frames, int f, double dx, double dy, double[] values, int at) {
+            int width = frames.width();
+            int height = frames.height();
+            int shiftX = (int) Math.floor(dx);
+            int shiftY = (int) Math.floor(dy);
+            int count = 0;
+            for (int p = 0; p < pixelCol.length; p++) {
+                int c = pixelCol[p] + shiftX;
+                int r = pixelRow[p] + shiftY;
+                if (c >= 0 && c < width && r >= 0 && r < height) {
+                    indices[count] = r * width + c;
+                    slot[p] = count++;
+                } else {
+                    slot[p] = -1;
+                }
+            }
+            if (count > 0) {
+                int[] read = count == indices.length ? indices : Arrays.copyOf(indices, count);
+                frames.gather(f, read, gathered);
+            }
+            int samples = px.length / pointsPerSample;
+            int outside = 0;
+            for (int k = 0; k < samples; k++) {
+                double sum = 0;
+                boolean out = false;
+                for (int j = 0; j < pointsPerSample && !out; j++) {
+                    int q = k * pointsPerSample + j;
+                    double x = px[q] + dx;
+                    double y = py[q] + dy;
+                    if (!(x >= 0 && x <= width && y >= 0 && y <= height)) {
+                        out = true;
+                        break;
+                    }
+                    double xa = clamp(PixelConvention.toArrayIndex(x), width - 1);
+                    double ya = clamp(PixelConvention.toArrayIndex(y), height - 1);
+                    int x0 = Math.min((int) Math.floor(xa), Math.max(0, width - 2));
+                    int y0 = Math.min((int) Math.floor(ya), Math.max(0, height - 2));
+                    int x1 = Math.min(x0 + 1, width - 1);
+                    int y1 = Math.min(y0 + 1, height - 1);
+                    double fx = xa - x0;
+                    double fy = ya - y0;
+                    int lx0 = x0 - blockX[q] - shiftX;
+                    int lx1 = x1 - blockX[q] - shiftX;
+                    int ly0 = y0 - blockY[q] - shiftY;
+                    int ly1 = y1 - blockY[q] - shiftY;
+                    sum += term((1 - fx) * (1 - fy) * share, q, lx0, ly0);
+                    sum += term(fx * (1 - fy) * share, q, lx1, ly0);
+                    sum += term((1 - fx) * fy * share, q, lx0, ly1);
+                    sum += term(fx * fy * share, q, lx1, ly1);
+                }
+                if (out) {
+                    values[at + k] = Double.NaN;
+                    outside++;
+                } else {
+                    values[at + k] = sum;
+                }
+            }
+            return outside;
+        }
+
+        /**
+         * Weight times the value of block pixel (lx, ly) of point q. A pixel off the block or off the image can only
+         * carry a zero weight (see the class comment), or one of rounding size; it adds nothing.
+         */
+        private double term(double weight, int q, int lx, int ly) {
+            if (lx < 0 || lx > 2 || ly < 0 || ly > 2) {
+                return 0;
+            }
+            int s = slot[blockSlot[q * 9 + ly * 3 + lx]];
+            return s < 0 ? 0 : weight * gathered[s];
+        }
     }
 
     /**
@@ -168,10 +405,6 @@ public final class KymographExtractor {
             }
             s.weight = Arrays.copyOf(weight, used);
             return s;
-        }
-
-        private static double clamp(double v, int max) {
-            return Math.max(0, Math.min(max, v));
         }
     }
 }
