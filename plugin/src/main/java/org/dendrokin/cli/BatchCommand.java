@@ -13,6 +13,7 @@ import org.dendrokin.io.batch.BatchOptions;
 import org.dendrokin.io.batch.BatchOutcome;
 import org.dendrokin.io.batch.BatchRunner;
 import org.dendrokin.io.batch.BatchStatus;
+import org.dendrokin.io.batch.GlobalFitStudy;
 import org.dendrokin.io.batch.SessionAnalyzer;
 import org.dendrokin.io.batch.SessionAnalyzers;
 import org.dendrokin.io.batch.Shard;
@@ -33,7 +34,10 @@ import picocli.CommandLine.Spec;
                 + "summary.csv and index.html into OUT. Sessions whose inputs have not changed since the last run "
                 + "are not analysed again.",
             "For a SLURM cluster: --plan-slurm N writes a job-array script of N shards; each array task runs "
-                + "--shard i/N; --merge OUT joins their results."})
+                + "--shard i/N; --merge OUT joins their results.",
+            "--global-fit diffusion-decay then fits one D and one k per group (the group key of session.json) to all "
+                + "sessions of the group at once, writes global-fit.json and adds a section to index.html; with "
+                + "--plan-slurm the merge job does it."})
 final class BatchCommand implements Callable<Integer> {
     @Parameters(index = "0", arity = "0..1", paramLabel = "ROOT", description = "Folder holding session folders.")
     Path root;
@@ -84,6 +88,18 @@ final class BatchCommand implements Callable<Integer> {
             description = "Another #SBATCH line, e.g. --slurm-option=--qos=short (repeatable).")
     List<String> slurmOptions = new ArrayList<>();
 
+    @Option(names = "--global-fit", paramLabel = "MODEL",
+            description = "After the sessions, fit shared constants to all sessions of each group at once (MODEL: "
+                    + "diffusion-decay).")
+    String globalFit;
+
+    @Option(names = "--global-bootstrap", paramLabel = "N",
+            description = "Resamples of the sessions for the joint fit's bootstrap intervals (default 200; 0: none).")
+    int globalBootstrap = 200;
+
+    @Option(names = "--global-seed", paramLabel = "S", description = "Seed of those resamples (default 1).")
+    long globalSeed = 1;
+
     @Option(names = "--jar", paramLabel = "FILE",
             description = "The dendrokin-cli.jar the array tasks run (default: this one).")
     Path jar;
@@ -105,12 +121,16 @@ final class BatchCommand implements Callable<Integer> {
         if (err == null) {
             err = spec.commandLine().getErr();
         }
+        GlobalFitStudy.Request global = globalRequest();
         if (merge != null) {
             if (root != null || out != null || planSlurm != null || shard != null) {
                 throw new InputException(null, "--merge OUT takes no ROOT, --out, --shard or --plan-slurm");
             }
-            BatchOutcome o = BatchRunner.merge(merge);
+            BatchOutcome o = BatchRunner.merge(merge, global, Progress.NONE);
             err.println("Merged " + o.total() + " sessions (" + o.failed() + " failed or missing): " + o.index());
+            if (o.globalFit() != null) {
+                err.println("Global fit: " + o.globalFit());
+            }
             return o.allFailed() ? Main.ALL_FAILED : Main.OK;
         }
         if (root == null || out == null) {
@@ -131,15 +151,35 @@ final class BatchCommand implements Callable<Integer> {
             options = options.withMoviesAtOnce(moviesAtOnce);
         }
         if (shard != null) {
+            if (global != null) {
+                throw new InputException(null, "--global-fit is made by the merge of the shards (batch --merge OUT "
+                        + "--global-fit MODEL), not by one shard");
+            }
             options = options.withShard(Shard.parse(shard));
         }
+        options = options.withGlobalFit(global);
         ProgressLine line = new ProgressLine(err);
         BatchOutcome o = BatchRunner.run(options, analyzer, Progress.NONE, line::show);
         line.finish();
         if (o.index() != null) {
             err.println("Report: " + o.index());
         }
+        if (o.globalFit() != null) {
+            err.println("Global fit: " + o.globalFit());
+        }
         return o.allFailed() ? Main.ALL_FAILED : Main.OK;
+    }
+
+    /** The joint fit asked for, or null; refuses a model no joint fit is made for. */
+    private GlobalFitStudy.Request globalRequest() {
+        if (globalFit == null) {
+            return null;
+        }
+        GlobalFitStudy.checkModel(globalFit);
+        if (globalBootstrap < 0) {
+            throw new InputException(null, "--global-bootstrap must be 0 or more");
+        }
+        return new GlobalFitStudy.Request(globalFit, globalBootstrap, globalSeed);
     }
 
     private int plan() {
@@ -154,7 +194,7 @@ final class BatchCommand implements Callable<Integer> {
             throw new InputException(null, "give --jar with the path of dendrokin-cli.jar for the array tasks");
         }
         SlurmPlan.Planned p = SlurmPlan.write(root, out, planSlurm, new SlurmPlan.Resources(slurmCpus, slurmMemMb,
-                slurmTimeMin, slurmPartition, slurmAccount, slurmOptions), jarFile, java);
+                slurmTimeMin, slurmPartition, slurmAccount, slurmOptions), jarFile, java, globalRequest());
         err.println("Wrote " + p.script() + ": " + p.shards() + " array tasks, each " + p.cpus() + " CPUs, "
                 + p.memMb() + " MB, " + p.timeMinutes() + " min. Submit it with sbatch, then run " + p.merge()
                 + " (or batch --merge " + out + ") when all tasks have finished.");

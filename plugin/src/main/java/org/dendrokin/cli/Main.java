@@ -11,14 +11,14 @@ import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 
 /**
- * The command line: {@code analyze}, {@code batch}, {@code simulate} and {@code demo}. Exit status 0 on
- * success, 2 on bad input or usage (one sentence on stderr naming the file and the problem; a stack trace
+ * The command line: {@code analyze}, {@code batch}, {@code global-fit}, {@code simulate} and {@code demo}. Exit
+ * status 0 on success, 2 on bad input or usage (one sentence on stderr naming the file and the problem; a stack trace
  * only with {@code --debug}), 3 when a batch finished but every session failed.
  */
 @Command(name = "dendrokin", mixinStandardHelpOptions = true, versionProvider = Version.Provider.class,
         description = "Spread of signals along dendrites: kymographs, calibration, reaction-diffusion models and fits.",
         subcommands = {AnalyzeCommand.class, BatchCommand.class, SimulateCommand.class, DemoCommand.class,
-            CalibrateCommand.class, CompareCommand.class})
+            CalibrateCommand.class, CompareCommand.class, GlobalFitCommand.class})
 public final class Main implements Runnable {
     public static final int OK = 0;
     public static final int BAD_INPUT = 2;

@@ -52,6 +52,12 @@ public final class GlobalFit {
     static final double CHI2_95 = new ChiSquaredDistribution(null, 1).inverseCumulativeProbability(0.95);
     /** Frames a kymograph keeps, about, in the coarse first stage of a joint fit. */
     private static final int COARSE_FRAMES = 48;
+    /**
+     * Scatter of the resampled refits over the model-based standard error above which the sessions are said to differ
+     * by more than their noise (1 when they share the constant exactly; the bootstrap's own sampling error with 20
+     * sessions is about 15%).
+     */
+    static final double HETEROGENEOUS = 1.5;
     /** Relative offset at which the coarse stage stops (a tenth of its standard errors). */
     private static final double COARSE_TOLERANCE = 0.1;
 
@@ -263,15 +269,18 @@ public final class GlobalFit {
         final List<JointProblem.Block> blocks;
         final JointProblem.Solution solution;
         final double[][] replicates;
+        /** Per shared constant, {@link JointIntervals#scatterRatio} (NaN without a bootstrap). */
+        final double[] scatter;
         final GroupResult result;
 
         Fitted(String name, List<Session> sessions, List<JointProblem.Block> blocks, JointProblem.Solution solution,
-               double[][] replicates, GroupResult result) {
+               double[][] replicates, double[] scatter, GroupResult result) {
             this.name = name;
             this.sessions = sessions;
             this.blocks = blocks;
             this.solution = solution;
             this.replicates = replicates;
+            this.scatter = scatter;
             this.result = result;
         }
     }
@@ -344,14 +353,14 @@ public final class GlobalFit {
         if (!sol.converged()) {
             GroupResult r = new GroupResult(name, false, sol.reason(), List.of(), List.of(), points, sol.objective(), 0,
                     problem.passes() + coarsePasses, warnings);
-            return new Fitted(name, sessions, blocks, null, null, r);
+            return new Fitted(name, sessions, blocks, null, null, null, r);
         }
         BlockArrowSystem.Covariance cov = problem.covariance(sol, none, ones);
         if (cov == null) {
             GroupResult r = new GroupResult(name, false, "the sessions cannot tell the parameters apart (singular "
                     + "sensitivity matrix)", List.of(), List.of(), points, sol.objective(), 0,
                     problem.passes() + coarsePasses, warnings);
-            return new Fitted(name, sessions, blocks, null, null, r);
+            return new Fitted(name, sessions, blocks, null, null, null, r);
         }
         int freeParameters = coords.size() + blocks.stream().mapToInt(b -> b.local.length).sum();
         double tq = new TDistribution(null, Math.max(1, points - freeParameters)).inverseCumulativeProbability(0.975);
@@ -370,12 +379,19 @@ public final class GlobalFit {
                     + "resamples; its interval is rough.", sessions.size()));
         }
         List<ParameterEstimate> shared = new ArrayList<>();
+        double[] scatter = new double[coords.size()];
         for (int c = 0; c < coords.size(); c++) {
             Interval profile = options.profiles() ? JointIntervals.profile(problem, sol, c, none, ones,
                     tq * Math.sqrt(cov.global()[c][c]), options, warnings, counter) : null;
             shared.add(JointIntervals.estimate(coords.get(c), sol.state().gamma[c], cov.global()[c][c], tq, profile,
                     JointIntervals.bootstrap(replicates, c, coords.get(c).spec(), sol.state().gamma[c],
-                            sessions.size()), warnings));
+                            sessions.size())));
+            scatter[c] = JointIntervals.scatterRatio(replicates, c, cov.global()[c][c]);
+            if (scatter[c] > HETEROGENEOUS) {
+                warnings.add(String.format(Locale.ROOT, "The sessions differ in %s more than their noise explains: "
+                        + "resampling them moves it %.1f times as far as the noise of the data does, so its "
+                        + "bootstrap interval is the one to quote.", coords.get(c).name(), scatter[c]));
+            }
         }
         List<SessionEstimate> perSession = new ArrayList<>();
         for (int i = 0; i < blocks.size(); i++) {
@@ -396,7 +412,7 @@ public final class GlobalFit {
         }
         GroupResult r = new GroupResult(name, true, "", shared, perSession, points, sol.objective(), bootOk,
                 problem.passes() + coarsePasses, warnings);
-        return new Fitted(name, sessions, blocks, sol, replicates, r);
+        return new Fitted(name, sessions, blocks, sol, replicates, scatter, r);
     }
 
     /**

@@ -122,11 +122,9 @@ final class GroupDifference {
                 pBoot = 2 * (1 - new TDistribution(null, Math.max(1, dof)).cumulativeProbability(Math.abs(delta) / se));
             }
         }
-        List<String> notes = new ArrayList<>();
         ParameterEstimate difference = JointIntervals.estimate(new JointProblem.Coordinate(constant,
-                coords.get(DIFFERENCE).spec()), apart.state().gamma[DIFFERENCE], variance, tq, profile, bootstrap,
-                notes);
-        if (!notes.isEmpty() && bootstrap != null && difference.ci95() == bootstrap) {
+                coords.get(DIFFERENCE).spec()), apart.state().gamma[DIFFERENCE], variance, tq, profile, bootstrap);
+        if (Math.max(a.scatter[c], b.scatter[c]) > GlobalFit.HETEROGENEOUS) {
             warnings.add(String.format(Locale.ROOT, "The sessions differ more than their noise explains, so the "
                     + "likelihood-ratio p value (which takes %s as exactly shared within each group) is too small; "
                     + "judge the difference by its bootstrap interval.", constant));

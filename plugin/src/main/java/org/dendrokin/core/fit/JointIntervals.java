@@ -3,7 +3,6 @@ package org.dendrokin.core.fit;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
-import java.util.Locale;
 
 import org.dendrokin.core.Progress;
 
@@ -197,6 +196,28 @@ final class JointIntervals {
         return ss / (v.length - 1) * sessions / (sessions - 1.0);
     }
 
+    /**
+     * How much more the refits to resampled sessions scatter than the noise of the data allows: the standard deviation
+     * of the refits over the model-based standard error sqrt((H^-1)_jj), both on the coordinate's scale and without
+     * the small-cluster corrections. Near 1 when the sessions share the constant; well above 1 when they differ by
+     * more than their noise (cell-to-cell variation). NaN without enough refits.
+     */
+    static double scatterRatio(double[][] replicates, int j, double variance) {
+        if (replicates == null) {
+            return Double.NaN;
+        }
+        double[] v = Arrays.stream(replicates).filter(r -> r != null).mapToDouble(r -> r[j]).toArray();
+        if (v.length < 20) {
+            return Double.NaN;
+        }
+        double mean = Arrays.stream(v).average().orElseThrow();
+        double ss = 0;
+        for (double x : v) {
+            ss += (x - mean) * (x - mean);
+        }
+        return Math.sqrt(ss / (v.length - 1) / variance);
+    }
+
     /** t(0.975, dof), the two-sided 95% Student t quantile. */
     static double tQuantile(double dof) {
         return new org.apache.commons.math3.distribution.TDistribution(null, Math.max(1, dof))
@@ -212,7 +233,7 @@ final class JointIntervals {
      * @param tq       Student t quantile for the Wald interval
      */
     static ParameterEstimate estimate(JointProblem.Coordinate c, double u, double variance, double tq, Interval profile,
-                                      Interval bootstrap, List<String> warnings) {
+                                      Interval bootstrap) {
         ParameterSpec spec = c.spec();
         double half = tq * Math.sqrt(variance);
         Interval wald = new Interval(spec.toNatural(u - half), spec.toNatural(u + half), Interval.WALD_T);
@@ -222,12 +243,6 @@ final class JointIntervals {
             boolean bootWider = width(bootstrap, spec) > width(profile, spec);
             reported = bootWider ? bootstrap : profile;
             others.add(bootWider ? profile : bootstrap);
-            double ratio = width(bootstrap, spec) / width(profile, spec);
-            if (ratio > 1.5) {
-                warnings.add(String.format(Locale.ROOT, "The sessions differ more than their noise explains: the "
-                        + "bootstrap interval of %s is %.1f times as wide as the profile interval, and is the one "
-                        + "reported.", c.name(), ratio));
-            }
         } else if (profile != null || bootstrap != null) {
             reported = profile != null ? profile : bootstrap;
         }

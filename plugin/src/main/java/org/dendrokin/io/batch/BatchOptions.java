@@ -14,8 +14,10 @@ import org.dendrokin.core.Checks;
  *                      bounded whatever {@code threads} is; at most {@code threads}
  * @param force         analyse every session again even when an earlier result matches its inputs
  * @param shard         the part of the sessions this run does, or null for all of them
+ * @param globalFit     a joint fit of the sessions after their analyses (not by a shard), or null for none
  */
-public record BatchOptions(Path root, Path out, int threads, int moviesAtOnce, boolean force, Shard shard) {
+public record BatchOptions(Path root, Path out, int threads, int moviesAtOnce, boolean force, Shard shard,
+                           GlobalFitStudy.Request globalFit) {
     public BatchOptions {
         Checks.require(root != null, "a batch needs a root folder");
         Checks.require(out != null, "a batch needs an output folder");
@@ -26,19 +28,23 @@ public record BatchOptions(Path root, Path out, int threads, int moviesAtOnce, b
 
     /** All sessions under {@code root}, {@code threads} at once, movies limited by the heap, no forcing. */
     public static BatchOptions of(Path root, Path out, int threads) {
-        return new BatchOptions(root, out, threads, defaultMoviesAtOnce(threads), false, null);
+        return new BatchOptions(root, out, threads, defaultMoviesAtOnce(threads), false, null, null);
     }
 
     public BatchOptions withForce(boolean f) {
-        return new BatchOptions(root, out, threads, moviesAtOnce, f, shard);
+        return new BatchOptions(root, out, threads, moviesAtOnce, f, shard, globalFit);
     }
 
     public BatchOptions withShard(Shard s) {
-        return new BatchOptions(root, out, threads, moviesAtOnce, force, s);
+        return new BatchOptions(root, out, threads, moviesAtOnce, force, s, globalFit);
     }
 
     public BatchOptions withMoviesAtOnce(int m) {
-        return new BatchOptions(root, out, threads, m, force, shard);
+        return new BatchOptions(root, out, threads, m, force, shard, globalFit);
+    }
+
+    public BatchOptions withGlobalFit(GlobalFitStudy.Request request) {
+        return new BatchOptions(root, out, threads, moviesAtOnce, force, shard, request);
     }
 
     /**

@@ -36,6 +36,14 @@ public final class BatchReport {
 
     /** Writes the summary and the report for the sessions {@code ids} whose results are under {@code out}. */
     public static Files write(Path out, List<String> ids) {
+        return write(out, ids, null);
+    }
+
+    /**
+     * Writes the summary and the report, with the section of a joint fit of the sessions when {@code global} is not
+     * null (its pictures go to {@code plots/} too).
+     */
+    public static Files write(Path out, List<String> ids, GlobalFitStudy.Outcome global) {
         SummaryTable table = SummaryTable.read(out, ids);
         Path summary = out.resolve("summary.csv");
         table.writeCsv(summary);
@@ -53,6 +61,9 @@ public final class BatchReport {
                 .append(" analysed, ").append(entries.size() - ok).append(" failed or missing. Tool version ")
                 .append(esc(SessionRecord.currentToolVersion())).append(". The full table, with every fitted parameter, ")
                 .append("its 95% interval and the input hashes, is in <a href=\"summary.csv\">summary.csv</a>.</p>\n");
+        if (global != null) {
+            html.append(GlobalFitReport.section(out, global));
+        }
         groupSection(html, out, table);
         sessionSection(html, out, table);
         html.append("</body></html>\n");

@@ -142,16 +142,36 @@ public final class BatchRunner {
             awaitQuietly(pool);
             throw e;
         }
-        BatchOutcome outcome;
         if (options.shard() != null) {
             ShardLog.write(out, options.shard(), mine, sessionsDir);
-            outcome = new BatchOutcome(total, analysed.get(), skipped.get(), failed.get(), null, null);
-        } else {
-            BatchReport.Files files = BatchReport.write(out, found.stream().map(SessionFolder::id).toList());
-            outcome = new BatchOutcome(total, analysed.get(), skipped.get(), failed.get(), files.summary(),
-                    files.index());
+            return new BatchOutcome(total, analysed.get(), skipped.get(), failed.get(), null, null, null);
         }
-        return outcome;
+        List<String> ids = found.stream().map(SessionFolder::id).toList();
+        boolean allFailed = total > 0 && failed.get() == total;
+        return report(out, ids, allFailed ? null : options.globalFit(), progress,
+                files -> new BatchOutcome(total, analysed.get(), skipped.get(), failed.get(), files.summary(),
+                        files.index(), null));
+    }
+
+    /**
+     * Writes summary.csv and index.html, after the joint fit of the sessions when one is asked for (its section then
+     * goes into index.html). A joint fit refused for bad input still leaves the summary and the report written.
+     */
+    private static BatchOutcome report(Path out, List<String> ids, GlobalFitStudy.Request global, Progress progress,
+                                       java.util.function.Function<BatchReport.Files, BatchOutcome> outcome) {
+        if (global == null) {
+            return outcome.apply(BatchReport.write(out, ids));
+        }
+        GlobalFitStudy.Outcome fitted;
+        try {
+            fitted = GlobalFitStudy.run(out, ids, global, out, progress);
+        } catch (InputException e) {
+            BatchReport.write(out, ids);
+            throw e;
+        }
+        BatchOutcome o = outcome.apply(BatchReport.write(out, ids, fitted));
+        return new BatchOutcome(o.total(), o.analysed(), o.skipped(), o.failed(), o.summary(), o.index(),
+                fitted.json());
     }
 
     /**
@@ -160,13 +180,17 @@ public final class BatchRunner {
      * {@code OUT/sessions}; a planned session without a result shows as {@code missing}.
      */
     public static BatchOutcome merge(Path out) {
+        return merge(out, null, Progress.NONE);
+    }
+
+    /**
+     * As {@link #merge(Path)}, followed by the joint fit of the sessions when {@code global} is not null.
+     *
+     * @throws InputException if the folder holds no batch results, or the joint fit is refused
+     */
+    public static BatchOutcome merge(Path out, GlobalFitStudy.Request global, Progress progress) {
         Path o = out.toAbsolutePath().normalize();
-        if (!Files.isDirectory(o.resolve("sessions"))) {
-            throw new InputException(out, "this folder holds no batch results (no sessions folder inside)");
-        }
-        ShardPlan plan = ShardPlan.read(o);
-        List<String> ids = plan != null ? plan.allIds() : completedIds(o.resolve("sessions"));
-        BatchReport.Files files = BatchReport.write(o, ids);
+        List<String> ids = sessionIds(o, out);
         int failed = 0;
         int present = 0;
         for (String id : ids) {
@@ -178,7 +202,26 @@ public final class BatchRunner {
                 failed++;
             }
         }
-        return new BatchOutcome(ids.size(), 0, present, failed, files.summary(), files.index());
+        int total = ids.size();
+        int count = failed;
+        int found = present;
+        boolean allFailed = total > 0 && failed == total;
+        return report(o, ids, allFailed ? null : global, progress,
+                files -> new BatchOutcome(total, 0, found, count, files.summary(), files.index(), null));
+    }
+
+    /**
+     * The sessions of a batch's output folder: those of the saved plan or, without a plan, every complete result.
+     *
+     * @param given the folder as the user named it, for the message
+     * @throws InputException if the folder holds no batch results
+     */
+    public static List<String> sessionIds(Path o, Path given) {
+        if (!Files.isDirectory(o.resolve("sessions"))) {
+            throw new InputException(given, "this folder holds no batch results (no sessions folder inside)");
+        }
+        ShardPlan plan = ShardPlan.read(o);
+        return plan != null ? plan.allIds() : completedIds(o.resolve("sessions"));
     }
 
     private static List<String> completedIds(Path sessionsDir) {

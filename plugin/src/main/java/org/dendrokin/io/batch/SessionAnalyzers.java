@@ -7,8 +7,14 @@ public final class SessionAnalyzers {
     private SessionAnalyzers() {
     }
 
-    /** The same analysis as the {@code analyze} command ({@link SessionRunner#analyze}). */
+    /**
+     * The same analysis as the {@code analyze} command ({@link SessionRunner#analyze}), followed by the session's
+     * {@code global-fit-input.json} (its fit settings, for a later joint fit of many sessions).
+     */
     public static SessionAnalyzer standard() {
-        return SessionRunner::analyze;
+        return (sessionDir, outDir, progress) -> {
+            SessionRunner.Result r = SessionRunner.analyze(sessionDir, outDir, progress);
+            GlobalFitInput.write(outDir, r.inputs().config().fit());
+        };
     }
 }

@@ -65,6 +65,15 @@ public final class SlurmPlan {
      * @param javaCommand the java command on the nodes (e.g. {@code java} or a module's full path)
      */
     public static Planned write(Path root, Path out, int shards, Resources requested, Path jar, String javaCommand) {
+        return write(root, out, shards, requested, jar, javaCommand, null);
+    }
+
+    /**
+     * As {@link #write(Path, Path, int, Resources, Path, String)}, with the joint fit of the sessions done by the merge
+     * job when {@code globalFit} is not null.
+     */
+    public static Planned write(Path root, Path out, int shards, Resources requested, Path jar, String javaCommand,
+                                GlobalFitStudy.Request globalFit) {
         Checks.positive(shards, "shards");
         Path r = root.toAbsolutePath().normalize();
         Path o = out.toAbsolutePath().normalize();
@@ -102,11 +111,16 @@ public final class SlurmPlan {
                 .append(" batch ").append(quote(r.toString())).append(" --out ").append(quote(o.toString()))
                 .append(" --threads ").append(p.cpus()).append(" --shard \"${SLURM_ARRAY_TASK_ID}/").append(shards)
                 .append("\"\n");
+        // A joint fit holds every session's kymograph and weights at once: about 6 MB for a 200 x 400 kymograph.
+        int mergeHeapMb = globalFit == null ? 768 : Math.max(768, 256 + 8 * found.size());
+        int mergeCpus = globalFit == null ? 1 : p.cpus();
         StringBuilder m = new StringBuilder();
         m.append("#!/bin/bash\n");
-        m.append("# Joins the shards of ").append(o).append(" into one summary.csv and index.html.\n");
+        m.append("# Joins the shards of ").append(o).append(" into one summary.csv and index.html")
+                .append(globalFit == null ? "" : ", after a joint fit of all sessions").append(".\n");
         m.append("#SBATCH --job-name=dendrokin-merge\n");
-        m.append("#SBATCH --cpus-per-task=1\n#SBATCH --mem=1024M\n#SBATCH --time=00:30:00\n");
+        m.append("#SBATCH --cpus-per-task=").append(mergeCpus).append("\n#SBATCH --mem=").append(mergeHeapMb + 256)
+                .append("M\n#SBATCH --time=00:30:00\n");
         if (requested.partition() != null && !requested.partition().isBlank()) {
             m.append("#SBATCH --partition=").append(requested.partition()).append('\n');
         }
@@ -115,8 +129,13 @@ public final class SlurmPlan {
         }
         m.append("#SBATCH --output=").append(dir.resolve("logs")).append("/merge.log\n");
         m.append("set -euo pipefail\n");
-        m.append("exec ").append(quote(javaCommand)).append(" -Xmx768m -jar ").append(quote(jarText)).append(" batch --merge ")
-                .append(quote(o.toString())).append('\n');
+        m.append("exec ").append(quote(javaCommand)).append(" -Xmx").append(mergeHeapMb).append("m -jar ")
+                .append(quote(jarText)).append(" batch --merge ").append(quote(o.toString()));
+        if (globalFit != null) {
+            m.append(" --global-fit ").append(quote(globalFit.model())).append(" --global-bootstrap ")
+                    .append(globalFit.bootstrapReplicates()).append(" --global-seed ").append(globalFit.seed());
+        }
+        m.append('\n');
         try {
             java.nio.file.Files.createDirectories(dir.resolve("logs"));
         } catch (java.io.IOException e) {
