@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -58,42 +59,81 @@ public final class GlobalFitBenchmark {
         write(out, cases, nx, nt);
         ModelFit.Options perSession = ModelFit.Options.defaults().withProfiles(false);
         GlobalFit.Options joint = GlobalFit.Options.defaults().withProfiles(false).withBootstrap(0, 1);
-        // warm-up: both paths, at least 2 s
+        List<GlobalFit.Session> all = sessions(cases);
+        // warm-up: every path, at least 2 s
         long warm = System.nanoTime();
         while (System.nanoTime() - warm < 2_000_000_000L) {
             separate(cases.subList(0, Math.min(10, n)), perSession);
-            GlobalFit.fitGroup("all", sessions(cases.subList(0, Math.min(10, n))), joint, Progress.NONE);
+            GlobalFit.fitGroup("all", all.subList(0, Math.min(10, n)), joint, Progress.NONE);
+            alone(all.subList(0, Math.min(5, n)), joint);
         }
-        double bestSeparate = Double.POSITIVE_INFINITY;
-        double bestJoint = Double.POSITIVE_INFINITY;
+        double[] best = {Double.POSITIVE_INFINITY, Double.POSITIVE_INFINITY, Double.POSITIVE_INFINITY};
+        double[] cpu = {Double.POSITIVE_INFINITY, Double.POSITIVE_INFINITY, Double.POSITIVE_INFINITY};
         List<FitResult> fits = null;
         GlobalFit.GroupResult g = null;
+        long alonePasses = 0;
         for (int r = 0; r < repeats; r++) {
-            long t = System.nanoTime();
+            long[] t = start();
             fits = separate(cases, perSession);
-            bestSeparate = Math.min(bestSeparate, (System.nanoTime() - t) / 1e9);
-            t = System.nanoTime();
-            g = GlobalFit.fitGroup("all", sessions(cases), joint, Progress.NONE);
-            bestJoint = Math.min(bestJoint, (System.nanoTime() - t) / 1e9);
+            record(t, best, cpu, 0);
+            t = start();
+            g = GlobalFit.fitGroup("all", all, joint, Progress.NONE);
+            record(t, best, cpu, 1);
+            t = start();
+            alonePasses = alone(all, joint);
+            record(t, best, cpu, 2);
         }
         long evaluations = fits.stream().mapToLong(FitResult::evaluations).sum();
         double meanD = fits.stream().filter(FitResult::converged).mapToDouble(f -> f.values()[0]).average().orElse(
                 Double.NaN);
         ParameterEstimate jd = g.estimate("D").orElseThrow();
         ParameterEstimate jk = g.estimate("k").orElseThrow();
-        System.out.println("sessions,positions,frames,separate_s,separate_evaluations,joint_s,joint_passes,ratio,"
-                + "mean_separate_D,joint_D,joint_k,joint_D_wald_lo,joint_D_wald_hi");
-        System.out.println(String.format(Locale.ROOT, "%d,%d,%d,%.4f,%d,%.4f,%d,%.3f,%.6f,%.8f,%.8f,%.6f,%.6f", n, nx,
-                nt,
-                bestSeparate, evaluations, bestJoint, g.passes(), bestJoint / bestSeparate, meanD, jd.value(),
-                jk.value(), jd.ci95().lower(), jd.ci95().upper()));
-        long t = System.nanoTime();
-        GlobalFit.GroupResult full = GlobalFit.fitGroup("all", sessions(cases), GlobalFit.Options.defaults(),
-                Progress.NONE);
-        double fullS = (System.nanoTime() - t) / 1e9;
+        System.out.println("what,sessions,positions,frames,wall_s,cpu_s,evaluations,ratio_wall,ratio_cpu,D,k");
+        System.out.println(String.format(Locale.ROOT, "separate per-session fits,%d,%d,%d,%.4f,%.4f,%d,1,1,%.6f,",
+                n, nx, nt, best[0], cpu[0], evaluations, meanD));
+        System.out.println(String.format(Locale.ROOT, "global fit,%d,%d,%d,%.4f,%.4f,%d,%.3f,%.3f,%.8f,%.8f", n, nx, nt,
+                best[1], cpu[1], g.passes(), best[1] / best[0], cpu[1] / cpu[0], jd.value(), jk.value()));
+        System.out.println(String.format(Locale.ROOT, "global fitter on each session alone,%d,%d,%d,%.4f,%.4f,%d,%.3f,"
+                + "%.3f,,", n, nx, nt, best[2], cpu[2], alonePasses, best[2] / best[0], cpu[2] / cpu[0]));
+        System.out.println(String.format(Locale.ROOT, "joint D %.6f, Wald-t [%.6f, %.6f]; mean of separate D %.6f; "
+                + "truth %s", jd.value(), jd.ci95().lower(), jd.ci95().upper(), meanD, D));
+        long[] t = start();
+        GlobalFit.GroupResult full = GlobalFit.fitGroup("all", all, GlobalFit.Options.defaults(), Progress.NONE);
+        double[] w = new double[1];
+        double[] c = new double[1];
+        Arrays.fill(w, Double.POSITIVE_INFINITY);
+        Arrays.fill(c, Double.POSITIVE_INFINITY);
+        record(t, w, c, 0);
         ParameterEstimate fd = full.estimate("D").orElseThrow();
-        System.out.println(String.format(Locale.ROOT, "joint fit with profiles and 200 resamples: %.3f s, %d passes; "
-                + "D %.6f %s", fullS, full.passes(), fd.value(), fd.otherIntervals()));
+        System.out.println(String.format(Locale.ROOT, "global fit with profile intervals and 200 resamples: wall %.3f s,"
+                + " cpu %.3f s, %d passes; D %.6f %s %s", w[0], c[0], full.passes(), fd.value(), fd.ci95(),
+                fd.otherIntervals()));
+        t = start();
+        separate(cases, ModelFit.Options.defaults());
+        record(t, w, c, 0);
+        System.out.println(String.format(Locale.ROOT, "separate fits with profile intervals: wall %.3f s, cpu %.3f s",
+                w[0], c[0]));
+    }
+
+    private static final com.sun.management.OperatingSystemMXBean OS =
+            (com.sun.management.OperatingSystemMXBean) java.lang.management.ManagementFactory.getOperatingSystemMXBean();
+
+    private static long[] start() {
+        return new long[] {System.nanoTime(), OS.getProcessCpuTime()};
+    }
+
+    private static void record(long[] t, double[] bestWall, double[] bestCpu, int i) {
+        bestWall[i] = Math.min(bestWall[i], (System.nanoTime() - t[0]) / 1e9);
+        bestCpu[i] = Math.min(bestCpu[i], (OS.getProcessCpuTime() - t[1]) / 1e9);
+    }
+
+    /** The global fitter on each session as a group of its own; the passes it made. */
+    static long alone(List<GlobalFit.Session> sessions, GlobalFit.Options options) {
+        long passes = 0;
+        for (GlobalFit.Session s : sessions) {
+            passes += GlobalFit.fitGroup(s.id(), List.of(s), options, Progress.NONE).passes();
+        }
+        return passes;
     }
 
     static List<FitResult> separate(List<Case> cases, ModelFit.Options options) {

@@ -58,8 +58,11 @@ public final class GlobalFit {
      * sessions is about 15%).
      */
     static final double HETEROGENEOUS = 1.5;
-    /** Relative offset at which the coarse stage stops (a tenth of its standard errors). */
-    private static final double COARSE_TOLERANCE = 0.1;
+    /**
+     * Relative offset at which the coarse stage stops: a third of its standard errors, well inside the two or three
+     * standard errors by which the minimum on a seventh of the frames lies from the full one.
+     */
+    private static final double COARSE_TOLERANCE = 0.3;
 
     private GlobalFit() {
     }

@@ -20,7 +20,8 @@ import org.dendrokin.core.units.Unit;
  * sum w (y - mean)^2, computed once per data set. So each frame costs only the samples the pulse reaches, seven
  * running sums each (w e^2, w e q, w e, w q^2, w q, w y e, w y q), and chi^2 is assembled per frame as
  * sum w (y - mean)^2 + W (mean - b)^2 - 2 a sum w e (y - b) + a^2 sum w e^2 (a = amplitude factor of the frame),
- * which keeps the large baseline term free of cancellation.
+ * which keeps the large baseline term free of cancellation. On evenly spaced columns (x_c = x_0 + c h) the distance
+ * x_c - mu is stepped by h instead of recomputed, which agrees with DiffusionDecayPulse to rounding.
  */
 final class HeldStimulusPulse implements FitModel {
     private static final int BLOCK = 16;
@@ -158,23 +159,29 @@ final class HeldStimulusPulse implements FitModel {
         double[] mean = new double[nt];
         double[] spread = new double[nt];
         for (int f = 0; f < nt; f++) {
+            // one pass about a shift K taken from the frame itself: sum w (y - mean)^2 = S2 - S1^2 / W with
+            // S1 = sum w (y - K), S2 = sum w (y - K)^2, which cancels little because K lies among the values
+            // (the shifted-data algorithm; Chan, Golub and LeVeque 1983, Am Stat 37:242)
+            double shift = Double.NaN;
             double sw = 0;
-            double swy = 0;
+            double s1 = 0;
+            double s2 = 0;
             for (int c = 0; c < nx; c++) {
                 int g = f * nx + c;
-                sw += data.weight(g);
-                swy += data.weight(g) * data.observed(g);
-            }
-            double m = sw > 0 ? swy / sw : 0;
-            double ss = 0;
-            for (int c = 0; c < nx; c++) {
-                int g = f * nx + c;
-                double r = data.observed(g) - m;
-                ss += data.weight(g) * r * r;
+                double wg = data.weight(g);
+                if (wg > 0) {
+                    if (Double.isNaN(shift)) {
+                        shift = data.observed(g);
+                    }
+                    double r = data.observed(g) - shift;
+                    sw += wg;
+                    s1 += wg * r;
+                    s2 += wg * r * r;
+                }
             }
             w[f] = sw;
-            mean[f] = m;
-            spread[f] = ss;
+            mean[f] = sw > 0 ? shift + s1 / sw : 0;
+            spread[f] = sw > 0 ? Math.max(0, s2 - s1 * s1 / sw) : 0;
         }
         t = new FrameTotals(data, w, mean, spread);
         totals = t;
@@ -191,6 +198,8 @@ final class HeldStimulusPulse implements FitModel {
         int nx = xUm.length;
         double[] part = new double[5 * 5 + 5 + 1];
         double[] sums = new double[7];
+        double[] u = new double[4];
+        double[] r = new double[4];
         for (int f = from; f < to; f++) {
             double tau = tS[f] - t0;
             double wf = whole.w()[f];
@@ -221,24 +230,42 @@ final class HeldStimulusPulse implements FitModel {
             double t2e = ue - val * see;
             double t2q = uq - val * seq;
             double chi = chiBase - 2 * val * ue + val * val * see;
-            double[][] m = {
-                {-tau * val / v, tau * val / (v * v), 0},
-                {-tau * val, 0, 0},
-                {shape, 0, 0},
-                {val / s0 - s0 * val / v, s0 * val / (v * v), 0},
-                {0, 0, 1}};
-            double[][] s = {{see, seq, se}, {seq, sqq, sq}, {se, sq, wf}};
-            double[] tv = {t2e, t2q, t1};
-            for (int a = 0; a < 5; a++) {
-                double ms0 = m[a][0] * s[0][0] + m[a][1] * s[1][0] + m[a][2] * s[2][0];
-                double ms1 = m[a][0] * s[0][1] + m[a][1] * s[1][1] + m[a][2] * s[2][1];
-                double ms2 = m[a][0] * s[0][2] + m[a][1] * s[1][2] + m[a][2] * s[2][2];
-                for (int b = 0; b < 5; b++) {
-                    part[a * 5 + b] += ms0 * m[b][0] + ms1 * m[b][1] + ms2 * m[b][2];
+            // M's rows D, k, amplitude and width have (e, q) parts only, the baseline's row is (0, 0, 1): with
+            // u = M[., e] and r = M[., q] over those four, A += see u u^T + seq (u r^T + r u^T) + sqq r r^T,
+            // A[., b] += se u + sq r, A[b, b] += W, g += t_e u + t_q r, g[b] += t_1
+            double inv = 1 / v;
+            u[D] = -tau * val * inv;
+            r[D] = tau * val * inv * inv;
+            u[K] = -tau * val;
+            r[K] = 0;
+            u[AMP] = shape;
+            r[AMP] = 0;
+            u[WIDTH] = val / s0 - s0 * val * inv;
+            r[WIDTH] = s0 * val * inv * inv;
+            for (int a = 0; a < 4; a++) {
+                double ua = u[a];
+                double ra = r[a];
+                double sa = see * ua + seq * ra;
+                double qa = seq * ua + sqq * ra;
+                for (int b = 0; b <= a; b++) {
+                    part[a * 5 + b] += sa * u[b] + qa * r[b];
                 }
-                part[25 + a] += m[a][0] * tv[0] + m[a][1] * tv[1] + m[a][2] * tv[2];
+                part[a * 5 + BASE] += se * ua + sq * ra;
+                part[25 + a] += t2e * ua + t2q * ra;
             }
+            part[BASE * 5 + BASE] += wf;
+            part[25 + BASE] += t1;
             part[30] += chi;
+        }
+        // the loops above filled the lower triangle of the first four rows and the baseline column: mirror them
+        for (int a = 0; a < 5; a++) {
+            for (int b = a + 1; b < 5; b++) {
+                if (b == BASE) {
+                    part[BASE * 5 + a] = part[a * 5 + BASE];
+                } else {
+                    part[a * 5 + b] = part[b * 5 + a];
+                }
+            }
         }
         return part;
     }
@@ -294,49 +321,77 @@ final class HeldStimulusPulse implements FitModel {
     }
 
     /**
-     * One source's sums over the columns within reach: its Gaussian by DiffusionDecayPulse's recurrence into scratch
-     * rows first, then one plain loop of the seven sums over those columns (two simple loops run faster than one
-     * that carries the recurrence and the sums together).
+     * One source's sums over the columns within reach, the Gaussian by the recurrence of DiffusionDecayPulse
+     * (g_{c+1} = g_c rho_c, rho_{c+1} = rho_c exp(-h^2 / V), restarted from exact exponentials every BLOCK samples)
+     * carried in the same loop as the sums. Uneven columns take one exponential each.
      */
     private void addOpen(int row, double mu, double v, double cut, FitData data, double[] sums) {
         int nx = xUm.length;
-        double[][] work = scratch.get();
-        double[] e = work[0];
-        double[] q = work[1];
-        int first;
-        int last;
-        if (Double.isNaN(stepUm)) {
-            first = 0;
-            last = nx - 1;
+        double inv2v = 1 / (2 * v);
+        double see = 0, seq = 0, se = 0, sqq = 0, sq = 0, te = 0, tq = 0;
+        double h = stepUm;
+        if (Double.isNaN(h)) {
+            for (int c = 0; c < nx; c++) {
+                double dx = xUm[c] - mu;
+                double qq = dx * dx;
+                if (qq < cut) {
+                    double g = Math.exp(-qq * inv2v);
+                    double w = data.weight(row + c);
+                    double wy = w * data.observed(row + c);
+                    double qg = qq * g;
+                    double we = w * g;
+                    double wq = w * qg;
+                    see = Math.fma(we, g, see);
+                    seq = Math.fma(we, qg, seq);
+                    se += we;
+                    sqq = Math.fma(wq, qg, sqq);
+                    sq += wq;
+                    te = Math.fma(wy, g, te);
+                    tq = Math.fma(wy, qg, tq);
+                }
+            }
         } else {
+            // the columns strictly within reach, as DiffusionDecayPulse's cut q < 80 V selects them
             double reach = Math.sqrt(cut);
-            double lo = Math.ceil((mu - reach - xUm[0]) / stepUm);
-            double hi = Math.floor((mu + reach - xUm[0]) / stepUm);
+            double lo = Math.ceil((mu - reach - xUm[0]) / h);
+            double hi = Math.floor((mu + reach - xUm[0]) / h);
             if (hi < 0 || lo > nx - 1) {
                 return;
             }
-            first = (int) Math.max(0, lo);
-            last = (int) Math.min(nx - 1, hi);
-        }
-        java.util.Arrays.fill(e, first, last + 1, 0);
-        java.util.Arrays.fill(q, first, last + 1, 0);
-        addSource(mu, v, cut, e, q);
-        double see = 0, seq = 0, se = 0, sqq = 0, sq = 0, te = 0, tq = 0;
-        for (int c = first; c <= last; c++) {
-            double ec = e[c];
-            double qc = q[c];
-            double w = data.weight(row + c);
-            double wy = w * data.observed(row + c);
-            double we = w * ec;
-            double wq = w * qc;
-            // fused multiply-adds: fewer operations per sample, and each sum rounded once per term
-            see = Math.fma(we, ec, see);
-            seq = Math.fma(we, qc, seq);
-            se += we;
-            sqq = Math.fma(wq, qc, sqq);
-            sq += wq;
-            te = Math.fma(wy, ec, te);
-            tq = Math.fma(wy, qc, tq);
+            int first = (int) Math.max(0, lo);
+            int last = (int) Math.min(nx - 1, hi);
+            while (first <= last && sq(xUm[first] - mu) >= cut) {
+                first++;
+            }
+            while (last >= first && sq(xUm[last] - mu) >= cut) {
+                last--;
+            }
+            double stepRatio = Math.exp(-h * h / v);
+            // fused multiply-adds: fewer operations per sample, and each term rounded once
+            for (int start = first; start <= last; start += BLOCK) {
+                int end = Math.min(last, start + BLOCK - 1);
+                double dx = xUm[start] - mu;
+                double g = Math.exp(-dx * dx * inv2v);
+                double ratio = Math.exp(-(2 * dx * h + h * h) * inv2v);
+                for (int c = start; c <= end; c++) {
+                    double qq = dx * dx;
+                    double w = data.weight(row + c);
+                    double wy = w * data.observed(row + c);
+                    double qg = qq * g;
+                    double we = w * g;
+                    double wq = w * qg;
+                    see = Math.fma(we, g, see);
+                    seq = Math.fma(we, qg, seq);
+                    se += we;
+                    sqq = Math.fma(wq, qg, sqq);
+                    sq += wq;
+                    te = Math.fma(wy, g, te);
+                    tq = Math.fma(wy, qg, tq);
+                    g *= ratio;
+                    ratio *= stepRatio;
+                    dx += h;
+                }
+            }
         }
         sums[0] += see;
         sums[1] += seq;
@@ -345,6 +400,10 @@ final class HeldStimulusPulse implements FitModel {
         sums[4] += sq;
         sums[5] += te;
         sums[6] += tq;
+    }
+
+    private static double sq(double x) {
+        return x * x;
     }
 
     /** Adds a source's g to e and (x - mu)^2 g to q at the columns within reach (DiffusionDecayPulse's recurrence). */
