@@ -8,6 +8,7 @@ import java.util.stream.Stream;
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
+import org.dendrokin.core.analysis.ResolvedStimulus;
 import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.calib.Calibration;
@@ -20,6 +21,7 @@ import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.fit.Misfit;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.core.spread.SpreadAnalysis;
@@ -105,6 +107,13 @@ public final class ResultsJson {
         root.add("bleach_correction", bleach);
         root.add("baseline_noise_sd_dF_F0", finiteOrNull(a.preprocessing().deltaF().typicalNoiseSd()));
         root.add("calibration", calibration(in.calibration(), a.calibrated()));
+        root.add("channels", channels(in, a));
+        root.add("motion", motion(a.motion()));
+        JsonArray stimuli = new JsonArray();
+        for (AnalysisResult.StimulusOutcome o : a.stimuli()) {
+            stimuli.add(stimulusOutcome(o));
+        }
+        root.add("stimuli", stimuli);
         JsonArray w = new JsonArray();
         Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text).forEach(w::add);
         root.add("warnings", w);
@@ -212,6 +221,63 @@ public final class ResultsJson {
             stim.addProperty("detection", s.detection().describe());
         }
         return stim;
+    }
+
+    /** Which channel and focal planes were analysed, and any normalisation by a structural channel. */
+    private static JsonObject channels(SessionInputs in, AnalysisResult a) {
+        SessionConfig.Acquisition acq = in.config().acquisition();
+        JsonObject o = new JsonObject();
+        o.addProperty("in_movie", in.channelCount());
+        int signal = acq.channel() > 0 ? acq.channel()
+                : in.calibration().channels() != null ? in.calibration().channels().numerator() : 1;
+        o.addProperty("signal", signal);
+        o.add("structural", acq.structuralChannel() > 0 ? new JsonPrimitive(acq.structuralChannel()) : JsonNull.INSTANCE);
+        o.addProperty("normalisation", a.normalisation().key());
+        return o;
+    }
+
+    /** What was done about motion, and the measured shifts in summary (frame by frame in motion.csv). */
+    private static JsonObject motion(AnalysisResult.Motion m) {
+        JsonObject o = new JsonObject();
+        o.addProperty("mode", m.mode().key());
+        MotionTrace t = m.trace();
+        o.addProperty("measured", t != null);
+        o.addProperty("corrected", m.corrected());
+        if (t != null) {
+            o.addProperty("reference", t.reference().describe());
+            o.add("max_shift_um", number(t.maxShiftUm()));
+            o.add("rms_shift_um", number(t.rmsShiftUm()));
+            o.add("warning_threshold_um", number(t.warningThresholdUm()));
+            o.addProperty("exceeds_threshold", t.exceedsThreshold());
+            o.add("median_peak_height", number(t.medianPeakHeight()));
+            o.addProperty("frames_at_search_limit", t.framesAtLimit());
+            o.addProperty("file", SessionOutputs.MOTION_CSV);
+        }
+        return o;
+    }
+
+    /** One stimulus with the spread measured over its own window. */
+    private static JsonObject stimulusOutcome(AnalysisResult.StimulusOutcome o) {
+        ResolvedStimulus s = o.stimulus();
+        JsonObject j = new JsonObject();
+        j.add("time_s", number(s.timeS()));
+        j.add("position_um", number(s.positionUm()));
+        j.add("off_path_um", number(s.offPathUm()));
+        j.addProperty("pulses", s.pulses());
+        j.add("last_pulse_s", number(s.lastPulseS()));
+        JsonArray frames = new JsonArray();
+        frames.add(o.firstFrame());
+        frames.add(o.endFrame() - 1);
+        j.add("frames", frames);
+        SpreadAnalysis.Result r = o.spread();
+        JsonObject sp = new JsonObject();
+        sp.add("front_speed", estimate(r == null ? null : r.frontSpeed()));
+        sp.add("peak_decay_length", estimate(r == null ? null : r.peakDecayLength()));
+        sp.add("decay_time", estimate(r == null ? null : r.decayTime()));
+        sp.add("apparent_D", estimate(r == null ? null : r.apparentD()));
+        sp.add("front", front(r));
+        j.add("spread", sp);
+        return j;
     }
 
     /**
