@@ -25,18 +25,21 @@ final class DeltaMethod {
     static ParameterEstimate estimate(DerivedQuantity q, double[] u, Function<double[], double[]> natural,
                                       double[][] cov, double tq, String method) {
         double value = q.value(natural.apply(u));
-        double[] grad = gradient(q, u, natural);
-        double se = Math.sqrt(quadraticForm(grad, cov));
-        Interval ci;
-        double seNatural;
-        if (q.positive() && value > 0) {
-            ci = new Interval(value * Math.exp(-tq * se), value * Math.exp(tq * se), method);
-            seNatural = value * se;
-        } else {
-            ci = new Interval(value - tq * se, value + tq * se, method);
-            seNatural = se;
-        }
+        double se = Math.sqrt(quadraticForm(gradient(q, u, natural), cov));
+        Interval ci = interval(q, value, se, tq, method, "");
+        double seNatural = q.positive() && value > 0 ? value * se : se;
         return new ParameterEstimate(q.name(), q.unit(), value, seNatural, ci, List.of(), false, true);
+    }
+
+    /**
+     * The interval value +- tq se (value exp(+- tq se) for a positive quantity, se then being the standard error
+     * of ln q).
+     */
+    static Interval interval(DerivedQuantity q, double value, double se, double tq, String method, String note) {
+        if (q.positive() && value > 0) {
+            return new Interval(value * Math.exp(-tq * se), value * Math.exp(tq * se), method, note);
+        }
+        return new Interval(value - tq * se, value + tq * se, method, note);
     }
 
     /** d q / d u by central differences (of ln q for a positive quantity). */

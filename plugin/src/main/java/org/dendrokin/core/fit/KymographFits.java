@@ -115,12 +115,21 @@ public final class KymographFits {
      * @param noiseSd        noise standard deviation per position used for the weights, signal units
      * @param spread         the model-free measures used for the starting values
      * @param warnings       plain sentences about the data and the comparison (each fit has its own too)
+     * @param noiseModel     the noise variance behind the weights (baseline noise, and its growth with the signal)
      */
     public record Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
-                          double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings) {
+                          double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings,
+                          VarianceModel noiseModel) {
         public Outcome {
             fits = List.copyOf(fits);
             warnings = List.copyOf(warnings);
+        }
+
+        /** An outcome whose weights came from the baseline noise alone. */
+        public Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
+                       double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings) {
+            this(fits, bestModel, criterion, weights, noiseSd, spread, warnings,
+                    noiseSd == null ? null : VarianceModel.baselineOnly(noiseSd));
         }
 
         /** The fit of a model by name. */
@@ -175,7 +184,8 @@ public final class KymographFits {
             warnings.add(String.format(Locale.ROOT, "%d of %d samples are missing (NaN) and were left out of the "
                     + "fits.", k.nanCount(), (long) k.positionCount() * k.frameCount()));
         }
-        FitData data = FitData.of(k, sigma);
+        VarianceModel noiseModel = VarianceModel.estimate(k, sigma, b0, firstAfter);
+        FitData data = noiseModel.fitData(k);
         StartGuess guess = StartGuess.from(k, zeroed, spread, t0, x0, firstAfter, b0);
         List<FitResult> fits = new ArrayList<>();
         FitResult dd = null;
@@ -218,7 +228,7 @@ public final class KymographFits {
         if (best == null) {
             warnings.add("No model fit converged, so no model is reported as best and no fitted constants are given.");
         }
-        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings);
+        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings, noiseModel);
     }
 
     private static FitResult fitDiffusionDecay(Kymograph k, FitData data, Setup setup, StartGuess g,

@@ -19,7 +19,12 @@ import org.dendrokin.core.Progress;
  * <li>{@link ProfileLikelihood} (optional, the model's headline parameters): where the profiled chi^2 rises by
  *     s^2 t^2; reported when made;</li>
  * <li>{@link ParametricBootstrap} (optional): percentiles of refits to data simulated from the fit;</li>
- * <li>{@link DeltaMethod} for the model's derived quantities.</li>
+ * <li>{@link DeltaMethod} for the model's derived quantities;</li>
+ * <li>{@link Sandwich} (on by default, for data with a grid shape such as a kymograph): when the residuals are
+ *     correlated between neighbouring samples or more variable than the weights say, the robust interval
+ *     ({@link Interval#ROBUST_PROFILE}, {@link Interval#ROBUST_WALD_T}, {@link Interval#ROBUST_DELTA}) is reported
+ *     and the model-based one kept beside it; otherwise the model-based interval is reported with a note saying that
+ *     no structure was found.</li>
  * </ul>
  *
  * <p>Large problems of a model with one-pass {@link FitModel#normalEquations} are handed to the optimiser in the
@@ -52,33 +57,45 @@ public final class ModelFit {
      * @param profiles            make profile-likelihood intervals for the headline parameters
      * @param bootstrapReplicates number of parametric-bootstrap refits (0: none)
      * @param seed                seed of the bootstrap's random numbers
+     * @param robust              on data with a grid shape, test the residuals for structure and, where they have
+     *                            it, report the robust ({@link Sandwich}) interval instead of the model-based one
      */
-    public record Options(int maxEvaluations, double tolerance, boolean profiles, int bootstrapReplicates, long seed) {
+    public record Options(int maxEvaluations, double tolerance, boolean profiles, int bootstrapReplicates, long seed,
+                          boolean robust) {
         public Options {
             Checks.positive(maxEvaluations, "maxEvaluations");
             Checks.positiveFinite(tolerance, "tolerance");
             Checks.require(bootstrapReplicates >= 0, "bootstrapReplicates must be zero or positive");
         }
 
-        /** 1000 evaluations a start, tolerance 1e-10, profiles on, no bootstrap. */
+        /** Options with robust intervals. */
+        public Options(int maxEvaluations, double tolerance, boolean profiles, int bootstrapReplicates, long seed) {
+            this(maxEvaluations, tolerance, profiles, bootstrapReplicates, seed, true);
+        }
+
+        /** 1000 evaluations a start, tolerance 1e-10, profiles on, no bootstrap, robust intervals on. */
         public static Options defaults() {
-            return new Options(1000, 1e-10, true, 0, 1L);
+            return new Options(1000, 1e-10, true, 0, 1L, true);
         }
 
         public Options withProfiles(boolean on) {
-            return new Options(maxEvaluations, tolerance, on, bootstrapReplicates, seed);
+            return new Options(maxEvaluations, tolerance, on, bootstrapReplicates, seed, robust);
         }
 
         public Options withBootstrap(int replicates, long newSeed) {
-            return new Options(maxEvaluations, tolerance, profiles, replicates, newSeed);
+            return new Options(maxEvaluations, tolerance, profiles, replicates, newSeed, robust);
         }
 
         public Options withTolerance(double newTolerance) {
-            return new Options(maxEvaluations, newTolerance, profiles, bootstrapReplicates, seed);
+            return new Options(maxEvaluations, newTolerance, profiles, bootstrapReplicates, seed, robust);
         }
 
         public Options withMaxEvaluations(int n) {
-            return new Options(n, tolerance, profiles, bootstrapReplicates, seed);
+            return new Options(n, tolerance, profiles, bootstrapReplicates, seed, robust);
+        }
+
+        public Options withRobust(boolean on) {
+            return new Options(maxEvaluations, tolerance, profiles, bootstrapReplicates, seed, on);
         }
     }
 
@@ -206,9 +223,10 @@ public final class ModelFit {
         double aicc = InformationCriteria.aicc(chi2, n, p);
         double bic = InformationCriteria.bic(chi2, n, p);
 
+        double[][] weightedJacobian = normal == null && !minimiser.compressed()
+                ? minimiser.weightedJacobian(u, new boolean[p], data) : null;
         double[][] cov = normal != null ? WaldT.covarianceOfNormal(normal, s2)
-                : minimiser.compressed() ? null : WaldT.covariance(minimiser.weightedJacobian(u, new boolean[p], data),
-                        s2);
+                : weightedJacobian != null ? WaldT.covariance(weightedJacobian, s2) : null;
         boolean[] atBound = minimiser.atBound(u);
         if (cov == null) {
             String names = String.join(", ", specs.stream().map(ParameterSpec::name).toList());
@@ -243,30 +261,172 @@ public final class ModelFit {
             boot = ParametricBootstrap.intervals(minimiser, data, best, fitted, Math.sqrt(s2),
                     options.bootstrapReplicates(), options.seed(), warnings, progress, done, total);
         }
+        List<DerivedQuantity> quantities = model.derivedQuantities();
+        Sandwich.Assessment[] robust = assessRobust(u, theta, fitted, weightedJacobian, cov, s2, n, quantities);
         Interval[] reported = new Interval[p];
+        double[] se = new double[p];
+        List<List<Interval>> others = new ArrayList<>();
         for (int j = 0; j < p; j++) {
-            reported[j] = profile[j] != null ? profile[j] : wald[j];
+            Interval modelBased = profile[j] != null ? profile[j] : wald[j];
+            Sandwich.Assessment a = robust[j];
+            List<Interval> other = new ArrayList<>();
+            se[j] = specs.get(j).derivative(u[j]) * Math.sqrt(cov[j][j]);
+            if (a != null && a.applies(tq)) {
+                reported[j] = widened(modelBased, j, u[j], a.widening(tq), a.appliedNote());
+                se[j] *= Math.sqrt(a.ratio());
+                other.add(modelBased);
+            } else {
+                reported[j] = a == null ? modelBased : withNote(modelBased, a.keptNote(tq));
+            }
+            if (profile[j] != null) {
+                other.add(wald[j]);
+            }
+            if (boot[j] != null) {
+                other.add(boot[j]);
+            }
+            others.add(other);
         }
         Set<String> poor = Identifiability.assess(model, theta, reported, corr, atBound, warnings);
         List<ParameterEstimate> est = new ArrayList<>();
         for (int j = 0; j < p; j++) {
             ParameterSpec s = specs.get(j);
-            double se = s.derivative(u[j]) * Math.sqrt(cov[j][j]);
-            List<Interval> others = new ArrayList<>();
-            if (profile[j] != null) {
-                others.add(wald[j]);
-            }
-            if (boot[j] != null) {
-                others.add(boot[j]);
-            }
-            est.add(new ParameterEstimate(s.name(), s.unit(), theta[j], se, reported[j], others, atBound[j],
-                    !poor.contains(s.name())));
+            est.add(new ParameterEstimate(s.name(), s.unit(), theta[j], se[j], reported[j], others.get(j),
+                    atBound[j], !poor.contains(s.name())));
         }
         List<ParameterEstimate> derived = new ArrayList<>();
-        for (DerivedQuantity q : model.derivedQuantities()) {
-            derived.add(DeltaMethod.estimate(q, u, minimiser::natural, cov, tq, Interval.DELTA));
+        for (int k = 0; k < quantities.size(); k++) {
+            derived.add(derivedEstimate(quantities.get(k), u, cov, tq, robust[p + k]));
         }
         return new FitResult(model.name(), true, "", est, derived, n, chi2, rmse, aic, aicc, bic, corr, fitted,
                 warnings, minimiser.evaluations());
+    }
+
+    /**
+     * A derived quantity by the delta method, from the robust covariance when the residuals call for it (the
+     * model-based interval is then kept beside it).
+     */
+    private ParameterEstimate derivedEstimate(DerivedQuantity q, double[] u, double[][] cov, double tq,
+                                              Sandwich.Assessment a) {
+        ParameterEstimate delta = DeltaMethod.estimate(q, u, minimiser::natural, cov, tq, Interval.DELTA);
+        if (a == null) {
+            return delta;
+        }
+        if (!a.applies(tq)) {
+            return new ParameterEstimate(q.name(), q.unit(), delta.value(), delta.standardError(),
+                    withNote(delta.ci95(), a.keptNote(tq)), List.of(), false, true);
+        }
+        double robustSe = Math.sqrt(a.robustVariance());
+        Interval ci = DeltaMethod.interval(q, delta.value(), robustSe, a.quantile(), Interval.ROBUST_DELTA,
+                a.appliedNote());
+        double seNatural = q.positive() && delta.value() > 0 ? delta.value() * robustSe : robustSe;
+        return new ParameterEstimate(q.name(), q.unit(), delta.value(), seNatural, ci, List.of(delta.ci95()), false,
+                true);
+    }
+
+    // ---- robust intervals ------------------------------------------------------------------------------------
+
+    /**
+     * The robust assessment of every parameter (unit gradients) and derived quantity (its gradient on the optimiser's
+     * scale), or all null when robust intervals are off, the data have no grid shape, or the fit is exact.
+     */
+    private Sandwich.Assessment[] assessRobust(double[] u, double[] theta, double[] fitted,
+                                               double[][] weightedJacobian, double[][] cov, double s2, int n,
+                                               List<DerivedQuantity> quantities) {
+        double[][] targets = new double[p + quantities.size()][];
+        if (!options.robust() || data.columns() == 0 || !(s2 > 0)) {
+            return new Sandwich.Assessment[targets.length];
+        }
+        for (int j = 0; j < p; j++) {
+            targets[j] = new double[p];
+            targets[j][j] = 1;
+        }
+        for (int k = 0; k < quantities.size(); k++) {
+            targets[p + k] = DeltaMethod.gradient(quantities.get(k), u, minimiser::natural);
+        }
+        return Sandwich.assess(frames(u, theta, fitted, weightedJacobian), data.rows(), data.columns(),
+                scaled(cov, 1 / s2), s2, n, targets);
+    }
+
+    /**
+     * The weighted residuals and Jacobian rows frame by frame: from the weighted Jacobian of the full problem when
+     * there is one, else from the model a frame at a time when it can evaluate ranges, else from a weighted
+     * Jacobian evaluated here.
+     */
+    private Sandwich.Frames frames(double[] u, double[] theta, double[] fitted, double[][] weightedJacobian) {
+        int columns = data.columns();
+        double[] chain = new double[p];
+        for (int j = 0; j < p; j++) {
+            chain[j] = specs.get(j).derivative(u[j]);
+        }
+        if (weightedJacobian == null && model.hasRangeEvaluation()) {
+            double[] values = new double[columns];
+            double[] jac = new double[columns * p];
+            return (f, e, jw) -> {
+                model.evaluateRange(theta, f * columns, (f + 1) * columns, values, jac);
+                for (int c = 0; c < columns; c++) {
+                    int g = f * columns + c;
+                    double w = Math.sqrt(data.weight(g));
+                    e[c] = w == 0 ? 0 : (data.observed(g) - values[c]) * w;
+                    for (int j = 0; j < p; j++) {
+                        jw[c * p + j] = jac[c * p + j] * chain[j] * w;
+                    }
+                }
+            };
+        }
+        double[][] rows = weightedJacobian != null ? weightedJacobian
+                : minimiser.weightedJacobian(u, new boolean[p], data);
+        int[] usedAt = new int[data.size()];
+        java.util.Arrays.fill(usedAt, -1);
+        for (int i = 0; i < data.usedCount(); i++) {
+            usedAt[data.usedIndex(i)] = i;
+        }
+        return (f, e, jw) -> {
+            java.util.Arrays.fill(jw, 0);
+            for (int c = 0; c < columns; c++) {
+                int g = f * columns + c;
+                int i = usedAt[g];
+                if (i < 0) {
+                    e[c] = 0;
+                    continue;
+                }
+                e[c] = (data.value(g) - fitted[g]) / data.sigma(g);
+                System.arraycopy(rows[i], 0, jw, c * p, p);
+            }
+        };
+    }
+
+    /** c times a matrix (not modified). */
+    private static double[][] scaled(double[][] m, double c) {
+        double[][] out = new double[m.length][];
+        for (int a = 0; a < m.length; a++) {
+            out[a] = m[a].clone();
+            for (int b = 0; b < m[a].length; b++) {
+                out[a][b] *= c;
+            }
+        }
+        return out;
+    }
+
+    /**
+     * The robust interval of parameter j: the model-based interval's distances from the estimate on the optimiser's
+     * scale times the widening factor (an end the data leave open stays open).
+     */
+    private Interval widened(Interval modelBased, int j, double uj, double factor, String note) {
+        ParameterSpec s = specs.get(j);
+        double[] range = s.naturalRange();
+        double lower = modelBased.lower();
+        double upper = modelBased.upper();
+        if (lower > range[0] && Double.isFinite(lower)) {
+            lower = s.toNatural(uj - factor * (uj - s.toInternal(lower)));
+        }
+        if (upper < range[1] && Double.isFinite(upper)) {
+            upper = s.toNatural(uj + factor * (s.toInternal(upper) - uj));
+        }
+        String method = modelBased.method().equals(Interval.PROFILE) ? Interval.ROBUST_PROFILE : Interval.ROBUST_WALD_T;
+        return new Interval(lower, upper, method, note);
+    }
+
+    private static Interval withNote(Interval i, String note) {
+        return new Interval(i.lower(), i.upper(), i.method(), note);
     }
 }

@@ -7,6 +7,7 @@ import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.fit.ParameterEstimate;
+import org.dendrokin.core.fit.VarianceModel;
 
 import com.google.gson.JsonArray;
 import com.google.gson.JsonElement;
@@ -17,7 +18,8 @@ import com.google.gson.JsonPrimitive;
 /**
  * Fit results as the JSON objects of results.json's {@code fits} list:
  * {@code {"model", "converged", "aic", "aicc", "bic", "rmse", "akaike_weight", "parameters": {NAME: {"value",
- * "unit", "ci95": [lo, hi], "ci_method", ...}}, "derived": {...}, "warnings": [...]}}. A fit that did not
+ * "unit", "ci95": [lo, hi], "ci_method", "ci_note", "other_intervals", ...}}, "derived": {...}, "warnings": [...],
+ * "noise_model": {...}}. A fit that did not
  * converge has {@code "converged": false} and a {@code "reason"}, and no parameters (its numbers are not
  * estimates). Non-finite numbers, and interval ends the data leave open, are written as null.
  */
@@ -35,6 +37,9 @@ public final class FitJson {
             JsonObject o = fit(f);
             o.add("akaike_weight", number(f.converged() ? weights.getOrDefault(f.model(), Double.NaN) : Double.NaN));
             o.addProperty("weight_criterion", outcome.criterion());
+            if (outcome.noiseModel() != null) {
+                o.add("noise_model", noiseModel(outcome.noiseModel()));
+            }
             return o;
         }).toList();
     }
@@ -72,6 +77,9 @@ public final class FitJson {
             p.addProperty("unit", e.unit().symbol());
             p.add("ci95", interval(e.ci95()));
             p.add("ci_method", e.ci95() == null ? JsonNull.INSTANCE : new JsonPrimitive(e.ci95().method()));
+            if (e.ci95() != null && !e.ci95().note().isEmpty()) {
+                p.addProperty("ci_note", e.ci95().note());
+            }
             p.add("standard_error", number(e.standardError()));
             p.addProperty("identifiable", e.identifiable());
             if (e.atBound()) {
@@ -83,12 +91,25 @@ public final class FitJson {
                     JsonObject io = new JsonObject();
                     io.add("ci95", interval(i));
                     io.addProperty("ci_method", i.method());
+                    if (!i.note().isEmpty()) {
+                        io.addProperty("ci_note", i.note());
+                    }
                     others.add(io);
                 }
                 p.add("other_intervals", others);
             }
             o.add(e.name(), p);
         }
+        return o;
+    }
+
+    /** The weights' noise model: the signal-dependent gain g with its standard error, and a sentence. */
+    private static JsonObject noiseModel(VarianceModel m) {
+        JsonObject o = new JsonObject();
+        o.addProperty("signal_dependent", m.signalDependent());
+        o.add("signal_gain", number(m.gain()));
+        o.add("signal_gain_se", number(m.gainStandardError()));
+        o.addProperty("description", m.describe());
         return o;
     }
 
