@@ -348,7 +348,7 @@ public final class ModelFit {
     }
 
     /**
-     * The weighted residuals and Jacobian rows frame by frame: from the weighted Jacobian of the full problem when
+     * The weighted residuals and Jacobian rows frame by frame (safe to read from several threads): from the weighted Jacobian of the full problem when
      * there is one, else from the model a frame at a time when it can evaluate ranges, else from a weighted
      * Jacobian evaluated here.
      */
@@ -359,9 +359,12 @@ public final class ModelFit {
             chain[j] = specs.get(j).derivative(u[j]);
         }
         if (weightedJacobian == null && model.hasRangeEvaluation()) {
-            double[] values = new double[columns];
-            double[] jac = new double[columns * p];
+            // frames are read from several threads: one pair of work arrays each
+            ThreadLocal<double[][]> work = ThreadLocal.withInitial(() -> new double[][] {new double[columns],
+                new double[columns * p]});
             return (f, e, jw) -> {
+                double[] values = work.get()[0];
+                double[] jac = work.get()[1];
                 model.evaluateRange(theta, f * columns, (f + 1) * columns, values, jac);
                 for (int c = 0; c < columns; c++) {
                     int g = f * columns + c;

@@ -49,6 +49,9 @@ final class Sandwich {
     static final double COVERAGE_BANDWIDTH = 1.3;
     /** Largest |rho| used in the bandwidth formula (it diverges at 1). */
     static final double MAX_RHO = 0.97;
+    /** Grid points per block of frames of the first pass, and the most blocks (fixed: results do not depend on cores). */
+    private static final int POINTS_PER_BLOCK = 8192;
+    private static final int MAX_BLOCKS = 64;
 
     private Sandwich() {
     }
@@ -56,6 +59,8 @@ final class Sandwich {
     /** The weighted residuals and weighted Jacobian rows of one frame (row of the grid). */
     interface Frames {
         /**
+         * Called from several threads at once, each with its own arrays.
+         *
          * @param frame the frame (grid row)
          * @param e     receives (y - f) / sigma at each position, 0 for a point left out of the fit. Modified.
          * @param jw    receives d(f / sigma) / du_j at position c in [c * p + j], zeros for a point left out.
@@ -68,7 +73,7 @@ final class Sandwich {
      * The robust variance of one quantity and what it rests on.
      *
      * @param modelVariance  s^2 a^T A^-1 a, the model-based variance on the optimiser's scale
-     * @param robustVariance the kernel (sandwich) variance V
+     * @param robustVariance the kernel (sandwich) variance V (NaN, not computed, when no structure was found)
      * @param dof            nu, the degrees of freedom of V
      * @param windowColumns  Wx, the kernel's width in positions
      * @param windowRows     Wt, the kernel's width in frames
@@ -80,7 +85,7 @@ final class Sandwich {
                       double zColumns, double zRows, double zSpread) {
         /** True if any of the three tests finds structure. */
         boolean structured() {
-            return Math.abs(zColumns) > STRUCTURE_Z || Math.abs(zRows) > STRUCTURE_Z || zSpread > STRUCTURE_Z;
+            return Sandwich.structured(zColumns, zRows, zSpread);
         }
 
         /** V / model variance. */
@@ -154,55 +159,32 @@ final class Sandwich {
             }
             modelVariance[k] *= s2;
         }
-        double[] e = new double[columns];
-        double[] jw = new double[columns * p];
-        double[][] cur = new double[q][columns];
-        double[][] prev = new double[q][columns];
-        // first pass: lag-1 products, spread, and where the influence lies
-        double[] sumV2 = new double[q];
-        double[] sumV4 = new double[q];
-        double[] sumZ2 = new double[q];
-        double[] sumZ4 = new double[q];
-        double[] lagX = new double[q];
-        double[] lagX2 = new double[q];
-        double[] lagT = new double[q];
-        double[] lagT2 = new double[q];
-        double[][] massX = new double[q][columns];
-        double[][] massT = new double[q][rows];
-        for (int f = 0; f < rows; f++) {
-            frames.frame(f, e, jw);
-            for (int k = 0; k < q; k++) {
-                double[] v = cur[k];
-                double[] w = prev[k];
-                double[] mx = massX[k];
-                double mt = 0;
-                for (int c = 0; c < columns; c++) {
-                    double z = zOf(jw, c, h[k], p);
-                    double vc = e[c] * z;
-                    v[c] = vc;
-                    double z2 = z * z;
-                    double v2 = vc * vc;
-                    sumZ2[k] += z2;
-                    sumZ4[k] += z2 * z2;
-                    sumV2[k] += v2;
-                    sumV4[k] += v2 * v2;
-                    mx[c] += v2;
-                    mt += v2;
-                    if (c > 0) {
-                        lagX[k] += vc * v[c - 1];
-                        lagX2[k] += v2 * v[c - 1] * v[c - 1];
-                    }
-                    if (f > 0) {
-                        lagT[k] += vc * w[c];
-                        lagT2[k] += v2 * w[c] * w[c];
-                    }
-                }
-                massT[k][f] = mt;
-            }
-            double[][] swap = prev;
-            prev = cur;
-            cur = swap;
+        // first pass: lag-1 products, spread, and where the influence lies; blocks of frames in parallel, each
+        // block starting from the frame before it for the products in time, added in block order
+        int framesPerBlock = Math.max(Math.max(1, POINTS_PER_BLOCK / Math.max(1, columns)),
+                (rows + MAX_BLOCKS - 1) / MAX_BLOCKS);
+        int blocks = (rows + framesPerBlock - 1) / framesPerBlock;
+        FirstPass[] parts = new FirstPass[blocks];
+        java.util.stream.IntStream range = java.util.stream.IntStream.range(0, blocks);
+        if (blocks > 1) {
+            range = range.parallel();
         }
+        range.forEach(b -> parts[b] = new FirstPass(frames, h, p, columns, rows, b * framesPerBlock,
+                Math.min(rows, (b + 1) * framesPerBlock)));
+        FirstPass all = parts[0];
+        for (int b = 1; b < blocks; b++) {
+            all.add(parts[b]);
+        }
+        double[] sumV2 = all.sumV2;
+        double[] sumV4 = all.sumV4;
+        double[] sumZ2 = all.sumZ2;
+        double[] sumZ4 = all.sumZ4;
+        double[] lagX = all.lagX;
+        double[] lagX2 = all.lagX2;
+        double[] lagT = all.lagT;
+        double[] lagT2 = all.lagT2;
+        double[][] massX = all.massX;
+        double[][] massT = all.massT;
         boolean[] active = new boolean[q];
         for (int k = 0; k < q; k++) {
             active[k] = sumV2[k] > 0 && modelVariance[k] > 0;
@@ -224,10 +206,17 @@ final class Sandwich {
             wx[k] = window(lagX[k] / sumV2[k], effectiveCount(massX[k]));
             wt[k] = window(lagT[k] / sumV2[k], effectiveCount(massT[k]));
         }
-        // second pass: the window sums
-        double[] hac = windowSums(frames, rows, columns, h, wx, wt, active, e, jw, p);
+        // second pass, for the quantities whose residuals have structure: the window sums
+        boolean[] needed = new boolean[q];
         for (int k = 0; k < q; k++) {
-            if (!active[k]) {
+            needed[k] = active[k] && structured(zx[k], zt[k], zs[k]);
+            if (active[k] && !needed[k]) {
+                out[k] = new Assessment(modelVariance[k], Double.NaN, Double.NaN, wx[k], wt[k], zx[k], zt[k], zs[k]);
+            }
+        }
+        double[] hac = windowSums(frames, rows, columns, h, wx, wt, needed, p);
+        for (int k = 0; k < q; k++) {
+            if (!needed[k]) {
                 continue;
             }
             double bx = wx[k] / effectiveCount(massX[k]);
@@ -239,6 +228,115 @@ final class Sandwich {
             out[k] = new Assessment(modelVariance[k], robust, dof, wx[k], wt[k], zx[k], zt[k], zs[k]);
         }
         return out;
+    }
+
+    /** True if a lag-1 statistic or the spread statistic is beyond {@link #STRUCTURE_Z}. */
+    static boolean structured(double zColumns, double zRows, double zSpread) {
+        return Math.abs(zColumns) > STRUCTURE_Z || Math.abs(zRows) > STRUCTURE_Z || zSpread > STRUCTURE_Z;
+    }
+
+    /** The first pass's sums over frames [from, to), per quantity. */
+    private static final class FirstPass {
+        final double[] sumV2;
+        final double[] sumV4;
+        final double[] sumZ2;
+        final double[] sumZ4;
+        final double[] lagX;
+        final double[] lagX2;
+        final double[] lagT;
+        final double[] lagT2;
+        final double[][] massX;
+        /** Sum of v^2 per frame, over all frames; each block fills its own. */
+        final double[][] massT;
+
+        FirstPass(Frames frames, double[][] h, int p, int columns, int rows, int from, int to) {
+            int q = h.length;
+            sumV2 = new double[q];
+            sumV4 = new double[q];
+            sumZ2 = new double[q];
+            sumZ4 = new double[q];
+            lagX = new double[q];
+            lagX2 = new double[q];
+            lagT = new double[q];
+            lagT2 = new double[q];
+            massX = new double[q][columns];
+            massT = new double[q][rows];
+            double[] e = new double[columns];
+            double[] jw = new double[columns * p];
+            double[][] cur = new double[q][columns];
+            double[][] prev = new double[q][columns];
+            if (from > 0) {
+                influences(frames, from - 1, e, jw, h, prev, p);
+            }
+            for (int f = from; f < to; f++) {
+                frames.frame(f, e, jw);
+                for (int k = 0; k < q; k++) {
+                    double[] v = cur[k];
+                    double[] w = prev[k];
+                    double[] hk = h[k];
+                    double[] mx = massX[k];
+                    double s2 = 0;
+                    double s4 = 0;
+                    double z2s = 0;
+                    double z4s = 0;
+                    double lx = 0;
+                    double lx2 = 0;
+                    double lt = 0;
+                    double lt2 = 0;
+                    double before = 0;
+                    for (int c = 0; c < columns; c++) {
+                        double z = zOf(jw, c, hk, p);
+                        double vc = e[c] * z;
+                        v[c] = vc;
+                        double z2 = z * z;
+                        double v2 = vc * vc;
+                        z2s += z2;
+                        z4s += z2 * z2;
+                        s2 += v2;
+                        s4 += v2 * v2;
+                        mx[c] += v2;
+                        lx += vc * before;
+                        lx2 += v2 * before * before;
+                        before = vc;
+                        double wc = w[c];
+                        lt += vc * wc;
+                        lt2 += v2 * wc * wc;
+                    }
+                    sumV2[k] += s2;
+                    sumV4[k] += s4;
+                    sumZ2[k] += z2s;
+                    sumZ4[k] += z4s;
+                    lagX[k] += lx;
+                    lagX2[k] += lx2;
+                    lagT[k] += lt;
+                    lagT2[k] += lt2;
+                    massT[k][f] = s2;
+                }
+                double[][] swap = prev;
+                prev = cur;
+                cur = swap;
+            }
+        }
+
+        /** Adds another block's sums (its frames are disjoint from this one's). */
+        void add(FirstPass o) {
+            for (int k = 0; k < sumV2.length; k++) {
+                sumV2[k] += o.sumV2[k];
+                sumV4[k] += o.sumV4[k];
+                sumZ2[k] += o.sumZ2[k];
+                sumZ4[k] += o.sumZ4[k];
+                lagX[k] += o.lagX[k];
+                lagX2[k] += o.lagX2[k];
+                lagT[k] += o.lagT[k];
+                lagT2[k] += o.lagT2[k];
+                for (int c = 0; c < massX[k].length; c++) {
+                    massX[k][c] += o.massX[k][c];
+                }
+                for (int f = 0; f < massT[k].length; f++) {
+                    massT[k][f] += o.massT[k][f];
+                }
+            }
+        }
     }
 
     /** z = h^T J~ of position c. */
@@ -265,8 +363,18 @@ final class Sandwich {
 
     /** For each quantity, the Bartlett double sum of its influences (a second pass over the frames). */
     private static double[] windowSums(Frames frames, int rows, int columns, double[][] h, int[] wx, int[] wt,
-                                       boolean[] active, double[] e, double[] jw, int p) {
+                                       boolean[] active, int p) {
         int q = h.length;
+        double[] total = new double[q];
+        boolean any = false;
+        for (boolean a : active) {
+            any |= a;
+        }
+        if (!any) {
+            return total;
+        }
+        double[] e = new double[columns];
+        double[] jw = new double[columns * p];
         double[][] v = new double[q][columns];
         KernelSum[] sums = new KernelSum[q];
         for (int k = 0; k < q; k++) {
@@ -280,7 +388,6 @@ final class Sandwich {
                 }
             }
         }
-        double[] total = new double[q];
         for (int k = 0; k < q; k++) {
             total[k] = sums[k] == null ? 0 : sums[k].total();
         }
