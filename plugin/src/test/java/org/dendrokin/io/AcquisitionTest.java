@@ -43,19 +43,27 @@ class AcquisitionTest {
     }
 
     @Test
-    void aDriftingMovieCorrectedGivesTheDriftFreeConstants() throws IOException {
+    void aDriftingMovieCorrectedGivesNearlyTheDriftFreeConstants() throws IOException {
+        // The interval check on a movie built for it is MotionCorrectionTest's; here the whole session with every
+        // realistic effect: corrected, the constants come within a few percent of the still movie's, while the
+        // uncorrected movie gives no usable fit or one far off.
         SessionSpec still = SessionSpec.realistic(21);
+        SessionSpec moving = still.withMotion(SessionSpec.Motion.linear(0.8, 0.02));
         SessionRunner.Result reference = analyse(still, "still", "");
-        SessionRunner.Result drifting = analyse(still.withMotion(SessionSpec.Motion.linear(0.8, 0.02)), "drift", "");
-        assertTrue(drifting.analysis().motion().corrected(), "motion is corrected by default");
-        assertTrue(drifting.analysis().motion().trace().maxShiftUm() > 0.6, "the drift was measured");
-        assertEquals(reference.bestModel(), drifting.bestModel(), "the best model does not change");
+        SessionRunner.Result corrected = analyse(moving, "drift", "");
+        SessionRunner.Result uncorrected = analyse(moving, "drift-off", "\"motion\": \"off\"");
+        assertTrue(corrected.analysis().motion().corrected(), "motion is corrected by default");
+        assertTrue(corrected.analysis().motion().trace().maxShiftUm() > 0.6, "the drift was measured");
+        assertEquals(reference.bestModel(), corrected.bestModel(), "the best model does not change");
         for (String p : List.of("D", "k")) {
-            ParameterEstimate a = estimate(reference, p);
-            ParameterEstimate b = estimate(drifting, p);
-            // REF: the same scene imaged still and moving: after correction the two estimates agree within their intervals [common practice]
-            assertTrue(b.ci95().contains(a.value()) && a.ci95().contains(b.value()), p + ": still " + a.value()
-                    + " " + a.ci95() + ", corrected " + b.value() + " " + b.ci95());
+            double a = estimate(reference, p).value();
+            double b = estimate(corrected, p).value();
+            // REF: the same scene imaged still and moving [common practice]; 6% allows the few-percent effects of
+            // interpolating a moving band that the realistic movies show
+            assertEquals(a, b, 0.06 * a, p + " of the corrected drifting movie against the still one");
+            double off = uncorrected.analysis().bestFit().flatMap(f -> f.estimate(p)).map(ParameterEstimate::value)
+                    .orElse(Double.NaN);
+            assertTrue(!(Math.abs(off / a - 1) < 0.2), p + " without correction: " + off + " against " + a);
         }
     }
 

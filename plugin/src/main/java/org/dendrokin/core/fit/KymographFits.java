@@ -118,11 +118,12 @@ public final class KymographFits {
      * @param noiseSd        noise standard deviation per position used for the weights, signal units
      * @param spread         the model-free measures used for the starting values
      * @param warnings       plain sentences about the data and the comparison (each fit has its own too)
+     * @param noiseModel     the noise variance behind the weights (baseline noise, and its growth with the signal)
      * @param misfits        the residual structure of each converged fit, by model name
      */
     public record Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
                           double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings,
-                          Map<String, Misfit.Result> misfits) {
+                          VarianceModel noiseModel, Map<String, Misfit.Result> misfits) {
         public Outcome {
             fits = List.copyOf(fits);
             warnings = List.copyOf(warnings);
@@ -137,6 +138,13 @@ public final class KymographFits {
         /** True when a fit's residuals show that its model does not describe the data. */
         public boolean isMisfit(String model) {
             return misfit(model).map(m -> m.verdict() == Misfit.Verdict.MISFIT).orElse(false);
+        }
+
+        /** An outcome whose weights came from the baseline noise alone, without residual checks. */
+        public Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
+                       double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings) {
+            this(fits, bestModel, criterion, weights, noiseSd, spread, warnings,
+                    noiseSd == null ? null : VarianceModel.baselineOnly(noiseSd), Map.of());
         }
 
         /** The fit of a model by name. */
@@ -202,7 +210,8 @@ public final class KymographFits {
             warnings.add(String.format(Locale.ROOT, "%d of %d samples are missing (NaN) and were left out of the "
                     + "fits.", k.nanCount(), (long) k.positionCount() * k.frameCount()));
         }
-        FitData data = FitData.of(k, sigma);
+        VarianceModel noiseModel = VarianceModel.estimate(k, sigma, b0, firstAfter);
+        FitData data = noiseModel.fitData(k);
         StartGuess guess = StartGuess.from(k, zeroed, spread, t0, x0, firstAfter, b0);
         List<FitResult> fits = new ArrayList<>();
         FitResult dd = null;
@@ -261,7 +270,7 @@ public final class KymographFits {
                     + ": " + pattern.meaning() + "), so no model is reported as best and no fitted constant should be "
                     + "quoted. Look at the residual pictures.");
         }
-        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings, misfits);
+        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings, noiseModel, misfits);
     }
 
     private static FitResult fitDiffusionDecay(Kymograph k, FitData data, Setup setup, StartGuess g,

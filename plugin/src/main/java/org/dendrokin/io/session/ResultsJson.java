@@ -19,6 +19,7 @@ import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.fit.Misfit;
+import org.dendrokin.core.fit.VarianceModel;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.motion.MotionTrace;
@@ -346,6 +347,9 @@ public final class ResultsJson {
             JsonObject o = fit(f);
             o.add("akaike_weight", number(f.converged() ? weights.getOrDefault(f.model(), Double.NaN) : Double.NaN));
             o.addProperty("weight_criterion", outcome.criterion());
+            if (outcome.noiseModel() != null) {
+                o.add("noise_model", noiseModel(outcome.noiseModel()));
+            }
             outcome.misfit(f.model()).ifPresent(m -> o.add("misfit", misfit(m, f.model())));
             return o;
         }).toList();
@@ -377,6 +381,16 @@ public final class ResultsJson {
         return o;
     }
 
+    /** The weights' noise model: the signal-dependent gain g with its standard error, and a sentence. */
+    private static JsonObject noiseModel(VarianceModel m) {
+        JsonObject o = new JsonObject();
+        o.addProperty("signal_dependent", m.signalDependent());
+        o.add("signal_gain", number(m.gain()));
+        o.add("signal_gain_se", number(m.gainStandardError()));
+        o.addProperty("description", m.describe());
+        return o;
+    }
+
     /** The lack-of-fit figure with its threshold and verdict. */
     private static JsonObject misfit(Misfit.Result m, String model) {
         JsonObject o = new JsonObject();
@@ -404,6 +418,9 @@ public final class ResultsJson {
             p.addProperty("unit", e.unit().symbol());
             p.add("ci95", interval(e.ci95()));
             p.add("ci_method", e.ci95() == null ? JsonNull.INSTANCE : new JsonPrimitive(e.ci95().method()));
+            if (e.ci95() != null && !e.ci95().note().isEmpty()) {
+                p.addProperty("ci_note", e.ci95().note());
+            }
             p.add("standard_error", number(e.standardError()));
             p.addProperty("identifiable", e.identifiable());
             if (e.atBound()) {
@@ -415,6 +432,9 @@ public final class ResultsJson {
                     JsonObject io = new JsonObject();
                     io.add("ci95", interval(i));
                     io.addProperty("ci_method", i.method());
+                    if (!i.note().isEmpty()) {
+                        io.addProperty("ci_note", i.note());
+                    }
                     others.add(io);
                 }
                 p.add("other_intervals", others);
