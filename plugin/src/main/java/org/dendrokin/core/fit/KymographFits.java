@@ -49,10 +49,13 @@ public final class KymographFits {
      * @param options             fitter options
      * @param stimulusWidthUm     width (Gaussian SD, um) of the unit pulse that starts the engine models, or NaN
      *                            to take it from the half-maximum width of the first frame after the stimulus
+     * @param residualBleachingFromS the middle of the baseline frames (s) when the diffusion-decay fit also fits the
+     *                            bleaching the correction left over ({@link ResidualBleaching}), NaN otherwise
      */
     public record Setup(double stimulusTimeS, double stimulusPositionUm, boolean fitStimulusTime,
                         boolean fitStimulusPosition, int[] baselineFrames, boolean sealedEnds, List<String> models,
-                        String criterion, ModelFit.Options options, double stimulusWidthUm) {
+                        String criterion, ModelFit.Options options, double stimulusWidthUm,
+                        double residualBleachingFromS) {
         public Setup {
             Checks.finite(stimulusTimeS, "stimulus time (s)");
             Checks.finite(stimulusPositionUm, "stimulus position (um)");
@@ -69,42 +72,54 @@ public final class KymographFits {
         /** The defaults: stimulus fixed where given, baseline before it, open ends, both default models, AICc. */
         public static Setup of(double stimulusTimeS, double stimulusPositionUm) {
             return new Setup(stimulusTimeS, stimulusPositionUm, false, false, null, false, DEFAULT_MODELS, "aicc",
-                    ModelFit.Options.defaults(), Double.NaN);
+                    ModelFit.Options.defaults(), Double.NaN, Double.NaN);
         }
 
         public Setup withModels(List<String> names) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, names, criterion, options, stimulusWidthUm);
+                    sealedEnds, names, criterion, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withOptions(ModelFit.Options newOptions) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, criterion, newOptions, stimulusWidthUm);
+                    sealedEnds, models, criterion, newOptions, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withSealedEnds(boolean sealed) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealed, models, criterion, options, stimulusWidthUm);
+                    sealed, models, criterion, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withFreeStimulus(boolean time, boolean position) {
             return new Setup(stimulusTimeS, stimulusPositionUm, time, position, baselineFrames, sealedEnds, models,
-                    criterion, options, stimulusWidthUm);
+                    criterion, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withCriterion(String name) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, name, options, stimulusWidthUm);
+                    sealedEnds, models, name, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withBaselineFrames(int first, int last) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition,
-                    new int[] {first, last}, sealedEnds, models, criterion, options, stimulusWidthUm);
+                    new int[] {first, last}, sealedEnds, models, criterion, options, stimulusWidthUm,
+                    residualBleachingFromS);
+        }
+
+        /**
+         * Fits the residual bleaching with the diffusion-decay model ({@link ResidualBleaching}); for a dF/F0
+         * kymograph whose bleaching was corrected.
+         *
+         * @param baselineMiddleS the middle of the baseline frames, s, where F0 was taken; NaN to switch it off
+         */
+        public Setup withResidualBleaching(double baselineMiddleS) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealedEnds, models, criterion, options, stimulusWidthUm, baselineMiddleS);
         }
 
         public Setup withStimulusWidth(double widthUm) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, criterion, options, widthUm);
+                    sealedEnds, models, criterion, options, widthUm, residualBleachingFromS);
         }
     }
 
@@ -291,6 +306,12 @@ public final class KymographFits {
             double v1 = g.widthUm * g.widthUm;
             double amp = g.peak * Math.exp(kk * g.tau1) * Math.sqrt(v1 + 2 * d * g.tau1) / g.widthUm;
             starts.add(model.pack(d, kk, amp, g.peakPositionUm, g.widthUm, g.baseline, setup.stimulusTimeS()));
+        }
+        if (Double.isFinite(setup.residualBleachingFromS())) {
+            ResidualBleaching bleaching = new ResidualBleaching(model, k.timesS(), k.positionCount(),
+                    setup.residualBleachingFromS());
+            return ModelFit.fit(bleaching, data, starts.stream().map(ResidualBleaching::start).toList(),
+                    setup.options(), progress);
         }
         return ModelFit.fit(model, data, starts, setup.options(), progress);
     }

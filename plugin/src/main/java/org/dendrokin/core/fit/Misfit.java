@@ -160,6 +160,7 @@ public final class Misfit {
                 e[i] = f >= firstFrame ? (k.value(f, p) - fitted[i]) / sigma[p] : Double.NaN;
             }
         }
+        double rawStripe = stripeShare(e, nx, nt, firstFrame);
         removeGains(e, fitted, nx, nt, firstFrame);
         double sum2 = 0;
         double lagT = 0;
@@ -167,8 +168,6 @@ public final class Misfit {
         double lagX = 0;
         double normX = 0;
         long n = 0;
-        double[] columnSum = new double[nx];
-        int[] columnCount = new int[nx];
         double dx = k.distanceStepUm();
         double blob = 0;
         for (int f = firstFrame; f < nt; f++) {
@@ -179,8 +178,6 @@ public final class Misfit {
                 }
                 sum2 += v * v;
                 n++;
-                columnSum[p] += v;
-                columnCount[p]++;
                 if (f + 1 < nt && Double.isFinite(e[(f + 1) * nx + p])) {
                     lagT += v * e[(f + 1) * nx + p];
                     normT += v * v;
@@ -200,13 +197,7 @@ public final class Misfit {
         }
         double rT = normT > 0 ? lagT / normT : Double.NaN;
         double rX = normX > 0 ? lagX / normX : Double.NaN;
-        double stripe = 0;
-        for (int p = 0; p < nx; p++) {
-            if (columnCount[p] > 0) {
-                stripe += columnSum[p] * columnSum[p] / columnCount[p];
-            }
-        }
-        double stripeShare = stripe / sum2;
+        double stripeShare = rawStripe;
         double blobShare = blob / sum2;
         double frontShare = frontShare(k, fitted, e, firstFrame, sum2);
         Verdict verdict = !(rT >= STRUCTURE) ? Verdict.NOISE_LIKE : rT < MISFIT ? Verdict.STRUCTURED : Verdict.MISFIT;
@@ -216,6 +207,32 @@ public final class Misfit {
                     : frontShare > FRONT_SHARE ? Pattern.FRONT_BAND : Pattern.GENERAL;
         }
         return new Result(rT, rX, sum2 / n, stripeShare, blobShare, frontShare, verdict, pattern);
+    }
+
+    /**
+     * Share of the residual sum of squares (frames from {@code firstFrame} on) in the positions' mean residuals: a
+     * position that stays off for the whole movie. Measured before any gain is removed, since a spine or a drift
+     * that adds light to a position also changes its response.
+     */
+    private static double stripeShare(double[] e, int nx, int nt, int firstFrame) {
+        double total = 0;
+        double stripe = 0;
+        for (int p = 0; p < nx; p++) {
+            double sum = 0;
+            int n = 0;
+            for (int f = firstFrame; f < nt; f++) {
+                double v = e[f * nx + p];
+                if (Double.isFinite(v)) {
+                    sum += v;
+                    total += v * v;
+                    n++;
+                }
+            }
+            if (n > 0) {
+                stripe += sum * sum / n;
+            }
+        }
+        return total > 0 ? stripe / total : Double.NaN;
     }
 
     /**
