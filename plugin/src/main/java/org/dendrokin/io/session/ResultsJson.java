@@ -291,11 +291,7 @@ public final class ResultsJson {
         JsonObject o = new JsonObject();
         o.addProperty("method", cal.method());
         o.addProperty("description", cal.description());
-        o.addProperty("signal_in", switch (cal.input()) {
-            case INTENSITY -> "background-subtracted intensity";
-            case RATIO -> "ratio of background-subtracted channels";
-            case DF_F0 -> "dF/F0";
-        });
+        o.addProperty("signal_in", cal.input().phrase());
         o.addProperty("unit", cal.outputUnit().symbol());
         JsonObject constants = new JsonObject();
         for (Map.Entry<String, Double> e : cal.constants().entrySet()) {
