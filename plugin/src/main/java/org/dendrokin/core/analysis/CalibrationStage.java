@@ -141,6 +141,25 @@ public final class CalibrationStage {
     }
 
     /**
+     * The lifetime signal of a session that samples its path once a pixel, or null when the calibration reads no
+     * lifetime movie: {@link #lifetime(LifetimeRequest, Function, double)} with the pixels per sample of a band
+     * {@code bandWidthUm} wide.
+     *
+     * @param request     the calibration; its {@link CalibrationRequest#lifetime()} may be null
+     * @param extractor   the session's band average (see {@link #lifetime(LifetimeRequest, Function, double)})
+     * @param bandWidthUm width of the band averaged across the path, um
+     * @param pixelSizeUm pixel size, um, which is also the step along the path
+     */
+    public static Lifetime lifetime(CalibrationRequest request, Function<FrameSource, Kymograph> extractor,
+                                    double bandWidthUm, double pixelSizeUm) {
+        if (request.lifetime() == null) {
+            return null;
+        }
+        return lifetime(request.lifetime(), extractor, PhotonWeighting.pixelsPerSample(bandWidthUm, pixelSizeUm,
+                pixelSizeUm));
+    }
+
+    /**
      * The ratio over its baseline, R/R0, with R0 the median of R over the baseline frames at each position (the
      * finite values among them). A position whose R0 is missing or not positive is NaN in every frame.
      *

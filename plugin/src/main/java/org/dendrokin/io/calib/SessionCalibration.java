@@ -24,6 +24,16 @@ public final class SessionCalibration {
     }
 
     /**
+     * The calibration as the analysis takes it, with the lifetime method's movies.
+     *
+     * @param lifetime the movies opened by {@link SessionLifetime#open}, or null for every other method
+     */
+    public static CalibrationRequest request(CalibrationSetup setup, SessionLifetime lifetime) {
+        CalibrationRequest r = request(setup);
+        return lifetime == null ? r : r.withLifetime(lifetime.request());
+    }
+
+    /**
      * Checks, before any work, that the movie can feed the method: the ratio and ratio-change methods need the
      * numerator and denominator channels. The sentence names the method and the channel key at fault.
      *

@@ -305,6 +305,16 @@ public final class ResultsJson {
             ch.addProperty("denominator_channel", setup.channels().denominator());
             o.add("channels", ch);
         }
+        if (setup.lifetime() != null) {
+            CalibrationSetup.LifetimeInput in = setup.lifetime();
+            JsonObject lt = new JsonObject();
+            lt.add("movie", in.movie() == null ? JsonNull.INSTANCE : new JsonPrimitive(in.movie()));
+            lt.addProperty("lifetime_channel", in.lifetimeChannel());
+            lt.add("photons", in.photons() == null ? JsonNull.INSTANCE : new JsonPrimitive(in.photons()));
+            lt.add("photon_channel", in.weighted() ? new JsonPrimitive(in.photonChannelOrFirst()) : JsonNull.INSTANCE);
+            lt.addProperty("photon_weighted", in.weighted());
+            o.add("lifetime", lt);
+        }
         if (applied.summary() != null) {
             CalibrationSummary s = applied.summary();
             SaturationLimits l = s.limits();
@@ -323,6 +333,8 @@ public final class ResultsJson {
             o.add("counts", counts);
             o.addProperty("fraction_flagged", s.fractionFlagged());
             o.addProperty("fraction_nan", s.fractionNan());
+            o.addProperty("uncertainty_propagated", applied.propagated());
+        } else if (applied.sdMicromolar() != null) {
             o.addProperty("uncertainty_propagated", applied.propagated());
         }
         JsonArray w = new JsonArray();

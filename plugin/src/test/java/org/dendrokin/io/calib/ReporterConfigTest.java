@@ -147,8 +147,12 @@ class ReporterConfigTest {
         assertTrue(json.get("signal_in").getAsString().contains("lifetime (ns)"), json.toString());
         assertEquals(2.6, json.getAsJsonObject("constants").get("tau_free_ns").getAsDouble(), 0);
         assertFalse(json.has("thresholds"), "no saturation thresholds for a fraction");
-        assertTrue(ReportHtml.calibrationSentence(s, a).startsWith("Fraction of bound sensor"),
-                ReportHtml.calibrationSentence(s, a));
+        assertTrue(json.get("uncertainty_propagated").getAsBoolean(), "photon-limited SD propagated");
+        assertEquals("counts.tif", json.getAsJsonObject("lifetime").get("photons").getAsString());
+        assertTrue(json.getAsJsonObject("lifetime").get("photon_weighted").getAsBoolean());
+        String sentence = ReportHtml.calibrationSentence(s, a);
+        assertTrue(sentence.startsWith("Fraction of bound sensor") && sentence.contains("concentration_sd.csv"),
+                sentence);
         assertEquals("fraction bound", a.signal().signalUnit());
     }
 }
