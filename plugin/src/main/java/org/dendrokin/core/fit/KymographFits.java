@@ -229,6 +229,9 @@ public final class KymographFits {
                 dd = r;
             } else {
                 r = fitEngine(name, k, data, setup, guess, dd, progress);
+                if (ModelCatalogue.scalar(name).travellingWave()) {
+                    r = withFronts(r, k, sigma, setup, guess, spread, progress);
+                }
             }
             fits.add(r);
         }
@@ -367,6 +370,68 @@ public final class KymographFits {
         }
         List<String> all = new ArrayList<>(r.warnings());
         all.addAll(notes);
+        return new FitResult(r.model(), r.converged(), r.reason(), r.parameters(), r.derived(), r.pointsUsed(),
+                r.chiSquare(), r.rmse(), r.aic(), r.aicc(), r.bic(), r.correlation(), r.fitted(), all,
+                r.evaluations());
+    }
+
+    /**
+     * A travelling-wave fit with the speed and width of its fronts fitted directly ({@link FrontFit}). A formed
+     * front fixes its speed c and width w but not D, k and a separately; when the engine fit cannot tell them
+     * apart (singular sensitivities, or a threshold at its bound), the model is still reported, with c and w (and
+     * the speed of each front) from the direct fit and D, k, a marked as not determined, rather than as a fit that
+     * failed. Where the engine fit determines everything, the direct fit adds the speed of each front.
+     */
+    private static FitResult withFronts(FitResult engine, Kymograph k, double[] sigma, Setup setup, StartGuess g,
+                                        SpreadAnalysis.Result spread, Progress progress) {
+        FrontFit.Result fronts = FrontFit.fit(k, sigma, setup.stimulusTimeS(), setup.stimulusPositionUm(),
+                spread == null ? null : spread.front(), 1.1774 * g.widthUm, g.plateau, g.baseline, g.unit,
+                setup.options(), progress);
+        if (!fronts.shared().converged()) {
+            if (engine.converged()) {
+                return engine;
+            }
+            return appendWarnings(engine, List.of("The fronts' speed and width could not be fitted directly either ("
+                    + fronts.shared().reason() + ")."));
+        }
+        List<ParameterEstimate> direct = FrontFit.derived(fronts);
+        List<String> warnings = new ArrayList<>(engine.warnings());
+        if (!fronts.comparison().isEmpty()) {
+            warnings.add(fronts.comparison());
+        }
+        boolean determined = engine.converged() && engine.parameters().stream()
+                .filter(p -> List.of("D", "k", "a").contains(p.name()))
+                .allMatch(p -> p.identifiable() && !p.atBound());
+        List<ParameterEstimate> derived = new ArrayList<>();
+        if (determined) {
+            derived.addAll(engine.derived());
+            direct.stream().filter(e -> e.name().endsWith("_left") || e.name().endsWith("_right"))
+                    .forEach(derived::add);
+            return new FitResult(engine.model(), true, "", engine.parameters(), derived, engine.pointsUsed(),
+                    engine.chiSquare(), engine.rmse(), engine.aic(), engine.aicc(), engine.bic(),
+                    engine.correlation(), engine.fitted(), warnings, engine.evaluations());
+        }
+        List<ParameterEstimate> parameters = new ArrayList<>();
+        for (ParameterEstimate p : engine.parameters()) {
+            boolean shape = List.of("D", "k", "a").contains(p.name());
+            parameters.add(shape ? new ParameterEstimate(p.name(), p.unit(), p.value(), Double.NaN, null, List.of(),
+                    p.atBound(), false) : p);
+        }
+        derived.addAll(direct);
+        warnings.add(String.format(Locale.ROOT, "D, k and a are not separately determined by these data: a front that "
+                + "has formed fixes only its speed c = sqrt(k D / 2)(1 - 2a) and its width w = sqrt(2 D / k). The front "
+                + "speed and width (and each front's speed) are fitted directly to the fronts' shape from %.3g s on, "
+                + "after they formed; D, k and a are shown but are not estimates.", fronts.fromS()));
+        boolean hasLikelihood = Double.isFinite(engine.chiSquare()) && engine.fitted() != null;
+        return new FitResult(engine.model(), true, "", parameters, derived, engine.pointsUsed(), engine.chiSquare(),
+                engine.rmse(), hasLikelihood ? engine.aic() : Double.NaN, hasLikelihood ? engine.aicc() : Double.NaN,
+                hasLikelihood ? engine.bic() : Double.NaN, null, hasLikelihood ? engine.fitted() : null, warnings,
+                engine.evaluations() + fronts.shared().evaluations());
+    }
+
+    private static FitResult appendWarnings(FitResult r, List<String> more) {
+        List<String> all = new ArrayList<>(r.warnings());
+        all.addAll(more);
         return new FitResult(r.model(), r.converged(), r.reason(), r.parameters(), r.derived(), r.pointsUsed(),
                 r.chiSquare(), r.rmse(), r.aic(), r.aicc(), r.bic(), r.correlation(), r.fitted(), all,
                 r.evaluations());
