@@ -83,8 +83,11 @@ public final class SessionAnalysis {
         float[] reference = meanFrame(frames, pre.baselineFirst(), pre.baselineLast());
         pre.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.PREPROCESSING, w)));
 
+        CalibrationStage.Lifetime lifetime = CalibrationStage.lifetime(request.calibration(),
+                channel -> motion.extract(channel, progress).kymograph(), request.pathWidthUm(), px);
         CalibrationStage.Calibrated calibrated = CalibrationStage.apply(request.calibration(),
-                pre.bleach().corrected(), pre.deltaF().kymograph(), ratio, pre.baselineFirst(), pre.baselineLast());
+                pre.bleach().corrected(), pre.deltaF().kymograph(), ratio, lifetime, pre.baselineFirst(),
+                pre.baselineLast());
         if (request.normalisation() != Normalisation.NONE) {
             calibrated = StructuralNormalisation.apply(request, motion, extraction, pre, background, warnings,
                     progress);

@@ -549,12 +549,6 @@ public final class KymographFits {
 
     /** The Unit for a kymograph's signal unit string. */
     public static Unit unitOf(String signalUnit) {
-        if (Unit.MICROMOLAR.symbol().equals(signalUnit)) {
-            return Unit.MICROMOLAR;
-        }
-        if (Unit.DF_F0.symbol().equals(signalUnit)) {
-            return Unit.DF_F0;
-        }
-        return Unit.DIMENSIONLESS;
+        return Unit.ofSymbol(signalUnit);
     }
 }
