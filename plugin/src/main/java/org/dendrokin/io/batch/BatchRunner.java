@@ -164,7 +164,7 @@ public final class BatchRunner {
         }
         GlobalFitStudy.Outcome fitted;
         try {
-            fitted = GlobalFitStudy.run(out, ids, global, out, progress);
+            fitted = GlobalFitStudy.run(out, ids, global, out, true, progress);
         } catch (InputException e) {
             BatchReport.write(out, ids);
             throw e;

@@ -33,7 +33,11 @@ import org.dendrokin.io.text.Numbers;
  *
  * <p>All sessions fitted together must share one signal unit: a D fitted to dF/F0 is not the D of the same cells
  * calibrated to concentration (the indicator's response is not linear), so pooling them would mix two quantities.
- * A study whose usable sessions are in several units is refused with one sentence, before anything is written.
+ * Asked for over a results folder ({@link #runToFolder}), a study whose usable sessions are in several units is
+ * refused with one sentence, before anything is written: the user chose the sessions. At the end of a batch
+ * ({@link #run} with {@code batch} true) the sessions in the unit most of them share are fitted and the others are
+ * left out, each with its reason, so that one calibrated session does not cost the whole study its joint fit; a
+ * tie between units is still refused.
  */
 public final class GlobalFitStudy {
     /** The file written into the output folder. */
@@ -125,15 +129,21 @@ public final class GlobalFitStudy {
      * @param ids        the sessions to consider
      * @param request    model and resampling
      * @param out        where global-fit.json goes (created if missing)
+     * @param batch      true at the end of a batch: sessions outside the unit most usable sessions share are left
+     *                   out with their reason instead of the study being refused
      * @param progress   progress and cancellation
      * @throws InputException if the model is not supported, no session can take part, or the usable sessions are
-     *                        in different signal units
+     *                        in different signal units (in a batch: two or more units tie for the most sessions)
      */
-    public static Outcome run(Path resultsDir, List<String> ids, Request request, Path out, Progress progress) {
+    public static Outcome run(Path resultsDir, List<String> ids, Request request, Path out, boolean batch,
+                              Progress progress) {
         checkModel(request.model());
         List<SessionInput> inputs = new ArrayList<>();
         for (String id : ids) {
             inputs.add(read(resultsDir, id));
+        }
+        if (batch) {
+            inputs = oneUnit(resultsDir, inputs);
         }
         List<SessionInput> usable = inputs.stream().filter(SessionInput::used).toList();
         if (usable.isEmpty()) {
@@ -177,9 +187,39 @@ public final class GlobalFitStudy {
         } catch (java.io.IOException e) {
             throw new InputException(out, "cannot be created (" + e.getMessage() + ")", e);
         }
-        Outcome o = run(resultsDir, ids, request, out, progress);
+        Outcome o = run(resultsDir, ids, request, out, false, progress);
         GlobalFitReport.page(out, o);
         return o;
+    }
+
+    /**
+     * The sessions with those whose unit is not the one most usable sessions share left out, each with its reason;
+     * unchanged when the usable sessions share one unit.
+     *
+     * @throws InputException if two or more units tie for the most sessions
+     */
+    private static List<SessionInput> oneUnit(Path resultsDir, List<SessionInput> inputs) {
+        Map<String, Long> units = inputs.stream().filter(SessionInput::used).collect(Collectors.groupingBy(
+                SessionInput::unit, TreeMap::new, Collectors.counting()));
+        if (units.size() < 2) {
+            return inputs;
+        }
+        long most = units.values().stream().mapToLong(Long::longValue).max().orElseThrow();
+        List<String> top = units.entrySet().stream().filter(e -> e.getValue() == most).map(Map.Entry::getKey)
+                .toList();
+        if (top.size() > 1) {
+            throw new InputException(resultsDir, "its sessions are in different signal units, as many in "
+                    + String.join(" as in ", top) + " (" + most + " each), so none can be chosen for the joint fit, "
+                    + "which pools sessions of one unit only: calibrate all of them or none");
+        }
+        String unit = top.get(0);
+        List<SessionInput> kept = new ArrayList<>();
+        for (SessionInput s : inputs) {
+            kept.add(!s.used() || s.unit().equals(unit) ? s : left(s.id(), s.group(), s.unit(), s.ownD(), s.ownK(),
+                    "its signal unit (" + (s.unit().isEmpty() ? "unknown" : s.unit()) + ") is not that of the other "
+                    + most + " sessions (" + unit + "), and a joint fit pools sessions of one unit only."));
+        }
+        return kept;
     }
 
     /** A few lines for the terminal: each group's shared constants, each comparison, what was left out. */

@@ -119,25 +119,46 @@ class GlobalFitBatchTest {
     }
 
     @Test
-    void aStudyMixingSignalUnitsIsRefusedWithOneSentence(@TempDir Path tmp) throws IOException {
+    void aSessionInAnotherUnitIsLeftOutOfTheBatchsJointFitAndRefusedByTheCommand(@TempDir Path tmp)
+            throws IOException {
         Path root = tmp.resolve("study");
         study(root);
         GlobalFitFixtures.session(root, "drug/calibrated", "drug", D_DRUG, "uM", "ok", 299);
         Path out = tmp.resolve("out");
-        InputException e = assertThrows(InputException.class,
-                () -> run(root, out, GlobalFitStudy.Request.of("diffusion-decay")));
-        assertTrue(e.getMessage().contains("different signal units (8 in dF/F0, 1 in uM)"), e.getMessage());
-        assertTrue(Files.isRegularFile(out.resolve("summary.csv")) && Files.isRegularFile(out.resolve("index.html")),
-                "the batch's own summary and report are still written");
-        assertFalse(Files.exists(out.resolve("global-fit.json")), "no joint fit");
+        JsonObject json = read(run(root, out, GlobalFitStudy.Request.of("diffusion-decay")).globalFit());
+        assertEquals("dF/F0", json.get("signal_unit").getAsString());
+        assertEquals(4, group(json, "drug").get("sessions_used").getAsInt());
+        JsonArray excluded = json.getAsJsonArray("excluded");
+        assertEquals(1, excluded.size(), excluded.toString());
+        JsonObject left = excluded.get(0).getAsJsonObject();
+        assertEquals("drug/calibrated", left.get("session").getAsString());
+        String reason = left.get("reason").getAsString();
+        assertTrue(reason.contains("uM") && reason.contains("dF/F0") && reason.contains("one unit"), reason);
 
+        // over the same results, the global-fit command leaves the choice to the user: one sentence, exit 2
         ByteArrayOutputStream err = new ByteArrayOutputStream();
         int status = Main.run(new String[] {"global-fit", out.toString(), "--model", "diffusion-decay", "--out",
             tmp.resolve("g").toString()}, quiet(), new PrintStream(err, true, StandardCharsets.UTF_8));
         String text = err.toString(StandardCharsets.UTF_8).trim();
         assertEquals(Main.BAD_INPUT, status, text);
         assertEquals(1, text.lines().count(), "one sentence: " + text);
-        assertTrue(text.contains("different signal units") && text.contains(out.getFileName().toString()), text);
+        assertTrue(text.contains("different signal units (8 in dF/F0, 1 in uM)")
+                && text.contains(out.getFileName().toString()), text);
+        assertFalse(Files.exists(tmp.resolve("g").resolve("global-fit.json")), "no joint fit");
+    }
+
+    @Test
+    void aBatchWhoseUnitsTieIsRefusedWithOneSentence(@TempDir Path tmp) {
+        Path root = tmp.resolve("study");
+        GlobalFitFixtures.session(root, "g/relative", "g", D_CONTROL, "dF/F0", "ok", 401);
+        GlobalFitFixtures.session(root, "g/calibrated", "g", D_CONTROL, "uM", "ok", 402);
+        Path out = tmp.resolve("out");
+        InputException e = assertThrows(InputException.class,
+                () -> run(root, out, GlobalFitStudy.Request.of("diffusion-decay")));
+        assertTrue(e.getMessage().contains("as many in dF/F0 as in uM (1 each)"), e.getMessage());
+        assertTrue(Files.isRegularFile(out.resolve("summary.csv")) && Files.isRegularFile(out.resolve("index.html")),
+                "the batch's own summary and report are still written");
+        assertFalse(Files.exists(out.resolve("global-fit.json")), "no joint fit");
     }
 
     @Test
