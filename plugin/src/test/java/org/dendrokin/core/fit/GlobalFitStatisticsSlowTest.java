@@ -23,7 +23,7 @@ class GlobalFitStatisticsSlowTest {
 
     @Test
     void sharedEstimatesAreCloserToTheTruthThanTheMeanOfPerSessionFits() {
-        int studies = 30;
+        int studies = 100;
         double[] joint = new double[2];
         double[] mean = new double[2];
         GlobalFit.Options options = GlobalFit.Options.defaults().withProfiles(false).withBootstrap(0, 1);
@@ -55,7 +55,7 @@ class GlobalFitStatisticsSlowTest {
 
     @Test
     void intervalsHoldTheTruth() {
-        int studies = 120;
+        int studies = 800;
         int[][] held = new int[2][3];     // per constant: profile, bootstrap, reported
         for (int s = 0; s < studies; s++) {
             List<SeededStudy.Made> made = SeededStudy.sessions(20, D, K, 3, 30, "s", 5000 + s);
@@ -86,12 +86,12 @@ class GlobalFitStatisticsSlowTest {
     @Test
     void aThirtyPercentDifferenceInDIsDetectedAndNoDifferenceRarelyIs() {
         GlobalFit.Options options = GlobalFit.Options.defaults().withProfiles(false).withBootstrap(200, 5);
-        int studies = 100;
+        int studies = 300;
         int detected = 0;
         for (int s = 0; s < studies; s++) {
             detected += compare(1.3, 7000 + s, options).differs() ? 1 : 0;
         }
-        int nullStudies = 300;
+        int nullStudies = 2000;
         int flagged = 0;
         int ratioTestAlone = 0;
         for (int s = 0; s < nullStudies; s++) {
