@@ -4,7 +4,6 @@ import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -86,23 +85,27 @@ public final class GlobalFitBenchmark {
         long evaluations = fits.stream().mapToLong(FitResult::evaluations).sum();
         double meanD = fits.stream().filter(FitResult::converged).mapToDouble(f -> f.values()[0]).average().orElse(
                 Double.NaN);
+        double meanK = fits.stream().filter(FitResult::converged).mapToDouble(f -> f.values()[1]).average().orElse(
+                Double.NaN);
         ParameterEstimate jd = g.estimate("D").orElseThrow();
         ParameterEstimate jk = g.estimate("k").orElseThrow();
-        System.out.println("what,sessions,positions,frames,wall_s,cpu_s,evaluations,ratio_wall,ratio_cpu,D,k");
-        System.out.println(String.format(Locale.ROOT, "separate per-session fits,%d,%d,%d,%.4f,%.4f,%d,1,1,%.6f,",
-                n, nx, nt, best[0], cpu[0], evaluations, meanD));
-        System.out.println(String.format(Locale.ROOT, "global fit,%d,%d,%d,%.4f,%.4f,%d,%.3f,%.3f,%.8f,%.8f", n, nx, nt,
-                best[1], cpu[1], g.passes(), best[1] / best[0], cpu[1] / cpu[0], jd.value(), jk.value()));
-        System.out.println(String.format(Locale.ROOT, "global fitter on each session alone,%d,%d,%d,%.4f,%.4f,%d,%.3f,"
-                + "%.3f,,", n, nx, nt, best[2], cpu[2], alonePasses, best[2] / best[0], cpu[2] / cpu[0]));
-        System.out.println(String.format(Locale.ROOT, "joint D %.6f, Wald-t [%.6f, %.6f]; mean of separate D %.6f; "
-                + "truth %s", jd.value(), jd.ci95().lower(), jd.ci95().upper(), meanD, D));
+        List<String> table = List.of("what,sessions,positions,frames,wall_s,cpu_s,evaluations,ratio_wall,ratio_cpu,D,k",
+                String.format(Locale.ROOT, "separate per-session fits,%d,%d,%d,%.4f,%.4f,%d,1,1,%.8f,%.8f", n, nx, nt,
+                        best[0], cpu[0], evaluations, meanD, meanK),
+                String.format(Locale.ROOT, "global fit,%d,%d,%d,%.4f,%.4f,%d,%.3f,%.3f,%.8f,%.8f", n, nx, nt, best[1],
+                        cpu[1], g.passes(), best[1] / best[0], cpu[1] / cpu[0], jd.value(), jk.value()),
+                String.format(Locale.ROOT, "global fitter on each session alone,%d,%d,%d,%.4f,%.4f,%d,%.3f,%.3f,,",
+                        n, nx, nt, best[2], cpu[2], alonePasses, best[2] / best[0], cpu[2] / cpu[0]));
+        table.forEach(System.out::println);
+        // the Java figures beside the data, for the SciPy script to print its own next to them
+        AtomicFiles.writeString(out.resolve("java.csv"), String.join("\n", table) + "\n");
+        System.out.println(String.format(Locale.ROOT, "joint D %.6f (Wald-t [%.6f, %.6f]), k %.6f; mean of separate "
+                + "fits D %.6f, k %.6f; truth D %s, k %s", jd.value(), jd.ci95().lower(), jd.ci95().upper(), jk.value(),
+                meanD, meanK, D, K));
         long[] t = start();
         GlobalFit.GroupResult full = GlobalFit.fitGroup("all", all, GlobalFit.Options.defaults(), Progress.NONE);
-        double[] w = new double[1];
-        double[] c = new double[1];
-        Arrays.fill(w, Double.POSITIVE_INFINITY);
-        Arrays.fill(c, Double.POSITIVE_INFINITY);
+        double[] w = {Double.POSITIVE_INFINITY};
+        double[] c = {Double.POSITIVE_INFINITY};
         record(t, w, c, 0);
         ParameterEstimate fd = full.estimate("D").orElseThrow();
         System.out.println(String.format(Locale.ROOT, "global fit with profile intervals and 200 resamples: wall %.3f s,"
@@ -110,6 +113,8 @@ public final class GlobalFitBenchmark {
                 fd.otherIntervals()));
         t = start();
         separate(cases, ModelFit.Options.defaults());
+        w[0] = Double.POSITIVE_INFINITY;
+        c[0] = Double.POSITIVE_INFINITY;
         record(t, w, c, 0);
         System.out.println(String.format(Locale.ROOT, "separate fits with profile intervals: wall %.3f s, cpu %.3f s",
                 w[0], c[0]));
