@@ -2,7 +2,6 @@ package org.dendrokin.core.fit;
 
 import java.util.Arrays;
 
-import org.dendrokin.core.Checks;
 import org.dendrokin.core.kymo.Kymograph;
 
 /**
@@ -38,22 +37,36 @@ public final class FitData {
      * @param columns points per row, dividing the number of points; 0 for data without a grid shape
      */
     public FitData(double[] values, double[] sigmas, int columns) {
-        Checks.require(values.length == sigmas.length,
-                "there are " + values.length + " values but " + sigmas.length + " noise levels");
-        Checks.require(columns >= 0 && (columns == 0 || values.length % columns == 0),
-                columns + " points per row do not divide the " + values.length + " grid points");
+        this(values.clone(), sigmas.clone(), columns, true);
+    }
+
+    /** Takes the arrays as they are: the caller made them for this object alone (owned is only a marker). */
+    private FitData(double[] values, double[] sigmas, int columns, boolean owned) {
+        if (values.length != sigmas.length) {
+            throw new IllegalArgumentException("there are " + values.length + " values but " + sigmas.length
+                    + " noise levels");
+        }
+        if (columns < 0 || (columns != 0 && values.length % columns != 0)) {
+            // messages built only when needed: fits of many sessions build many FitData
+            throw new IllegalArgumentException(columns + " points per row do not divide the " + values.length
+                    + " grid points");
+        }
         this.columns = columns;
-        this.values = values.clone();
-        this.sigmas = sigmas.clone();
-        this.used = java.util.stream.IntStream.range(0, values.length)
-                .filter(i -> Double.isFinite(values[i]) && sigmas[i] > 0 && Double.isFinite(sigmas[i]))
-                .toArray();
+        this.values = values;
+        this.sigmas = sigmas;
         this.weights = new double[values.length];
         this.observed = new double[values.length];
-        for (int g : used) {
-            weights[g] = 1 / (sigmas[g] * sigmas[g]);
-            observed[g] = values[g];
+        // one plain loop: a stream's growing buffer cost as much as the rest of a global fit's setup
+        int[] all = new int[values.length];
+        int count = 0;
+        for (int g = 0; g < values.length; g++) {
+            if (Double.isFinite(values[g]) && sigmas[g] > 0 && Double.isFinite(sigmas[g])) {
+                all[count++] = g;
+                weights[g] = 1 / (sigmas[g] * sigmas[g]);
+                observed[g] = values[g];
+            }
         }
+        this.used = count == all.length ? all : Arrays.copyOf(all, count);
     }
 
     /** Unweighted data: every sigma is 1. */
@@ -66,13 +79,16 @@ public final class FitData {
     /** A kymograph (row-major) with one noise level per position, repeated over frames. */
     public static FitData of(Kymograph k, double[] sigmaPerPosition) {
         int nx = k.positionCount();
-        Checks.require(sigmaPerPosition.length == nx,
-                "need one noise level per position (" + nx + "), got " + sigmaPerPosition.length);
+        if (sigmaPerPosition.length != nx) {
+            throw new IllegalArgumentException("need one noise level per position (" + nx + "), got "
+                    + sigmaPerPosition.length);
+        }
         double[] s = new double[nx * k.frameCount()];
         for (int f = 0; f < k.frameCount(); f++) {
             System.arraycopy(sigmaPerPosition, 0, s, f * nx, nx);
         }
-        return new FitData(k.values(), s, nx);
+        // both arrays are fresh copies (Kymograph.values() copies), so they need no second copy
+        return new FitData(k.values(), s, nx, true);
     }
 
     /**
@@ -82,7 +98,7 @@ public final class FitData {
      * @param sigmaPerSample noise SD of each sample, signal units, row-major like {@link Kymograph#values()}
      */
     public static FitData ofSamples(Kymograph k, double[] sigmaPerSample) {
-        return new FitData(k.values(), sigmaPerSample, k.positionCount());
+        return new FitData(k.values(), sigmaPerSample.clone(), k.positionCount(), true);
     }
 
     /** Number of grid points, used or not. */
