@@ -222,6 +222,14 @@ public final class GlobalFitStudy {
         return kept;
     }
 
+    /** A p value for people: three digits, "&lt; 0.0001" below that, "none" when it could not be computed. */
+    private static String probability(double p) {
+        if (!Double.isFinite(p)) {
+            return "none";
+        }
+        return p < 1e-4 ? "< 0.0001" : String.format(Locale.ROOT, "%.3g", p);
+    }
+
     /** A few lines for the terminal: each group's shared constants, each comparison, what was left out. */
     public static String summary(Outcome o) {
         StringBuilder s = new StringBuilder();
@@ -249,7 +257,8 @@ public final class GlobalFitStudy {
                     .append(Numbers.forPeople(c.difference().ci95().lower())).append(", ")
                     .append(Numbers.forPeople(c.difference().ci95().upper())).append("] ")
                     .append(c.difference().unit().symbol()).append(String.format(Locale.ROOT,
-                            ", likelihood ratio %.3g, p %.3g: %s%n", c.statistic(), c.pValue(),
+                            ", likelihood ratio %.3g (p %s), bootstrap p %s: %s%n", c.statistic(),
+                            probability(c.pValue()), probability(c.pValueBootstrap()),
                             c.differs() ? "they differ" : "no difference shown"));
         }
         long left = o.sessions().stream().filter(x -> !x.used()).count();
