@@ -13,6 +13,7 @@ import java.nio.file.Path;
 
 import org.dendrokin.cli.Main;
 import org.dendrokin.core.Progress;
+import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.synth.SessionGenerator;
 import org.dendrokin.synth.SessionSpec;
@@ -41,7 +42,7 @@ class LineTimingSessionTest {
         return SessionSpec.clean(5).withImaging(imaging)
                 .withDendrite(new SessionSpec.Dendrite(3, 0, 90, 0.6, 0, 5))
                 .withSignal(new SessionSpec.NagumoFront(D, K, A, 1.0, 2.0))
-                .withSession(new SessionSpec.SessionFile(java.util.List.of("diffusion-decay"), true, true, false));
+                .withSession(new SessionSpec.SessionFile(java.util.List.of(), true, true, false));
     }
 
     private SessionRunner.Result analyse(String name, String extraKeys) throws IOException {
@@ -54,8 +55,10 @@ class LineTimingSessionTest {
 
     @Test
     void aFrontImagedByASlowRasterComesBackAtItsSpeedOnlyWithTheLinePeriod() throws IOException {
-        Estimate frameTimed = analyse("frames", "").analysis().spread().frontSpeed();
-        Estimate lineTimed = analyse("lines", ", \"line_period_s\": 0.001").analysis().spread().frontSpeed();
+        SessionRunner.Result frames = analyse("frames", "");
+        SessionRunner.Result lines = analyse("lines", ", \"line_period_s\": 0.001");
+        Estimate frameTimed = frames.analysis().spread().frontSpeed();
+        Estimate lineTimed = lines.analysis().spread().frontSpeed();
         assertNotNull(lineTimed, "a front is measured with the line period");
         // REF: McKean's exact travelling wave of the Nagumo equation, c = sqrt(2 D k)(1/2 - a) (McKean 1970) [published]
         assertEquals(SPEED, lineTimed.value(), 0.05 * SPEED, "front speed with the line period (um/s)");
@@ -64,6 +67,16 @@ class LineTimingSessionTest {
         assertNotNull(frameTimed, "a front is measured without the line period too");
         double off = frameTimed.value();
         assertTrue(Math.abs(off / SPEED - 1) > 0.1, "front speed without the line period: " + off);
+        // The nagumo fit (fitted because the arrival times show a front) reads its model at the samples' own times.
+        FitResult nagumo = lines.analysis().fits().fit("nagumo").orElseThrow();
+        assertTrue(nagumo.converged(), nagumo.reason());
+        // REF: McKean (1970): c = sqrt(2 D k)(1/2 - a), width w = sqrt(2 D / k) = 4 um [published]
+        assertEquals(SPEED, nagumo.estimate("front_speed").orElseThrow().value(), 0.02 * SPEED, "model front speed");
+        assertEquals(Math.sqrt(2 * D / K), nagumo.estimate("front_width").orElseThrow().value(),
+                0.05 * Math.sqrt(2 * D / K), "model front width (um)");
+        double frameWidth = frames.analysis().fits().fit("nagumo").orElseThrow().estimate("front_width").orElseThrow()
+                .value();
+        assertTrue(frameWidth > 1.1 * Math.sqrt(2 * D / K), "front width without the line period: " + frameWidth);
     }
 
     @Test

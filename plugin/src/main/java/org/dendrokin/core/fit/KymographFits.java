@@ -369,10 +369,13 @@ public final class KymographFits {
         for (int i = 0; i < positions.length; i++) {
             positions[i] -= xFirst;
         }
+        // a raster scan: the model is read at each sample's own time
+        boolean lineTimed = k.hasSampleDelays() && k.frameCount() >= 2;
         EngineFitModel model;
         try {
             Domain domain = new Domain(lengthUm, h, Boundary.NO_FLUX);
-            model = new EngineFitModel(name, domain, k.timesS(), positions,
+            model = new EngineFitModel(name, domain, lineTimed
+                    ? LineTimedModel.extendedTimes(k.timesS(), EngineFitModel.LINE_STEPS) : k.timesS(), positions,
                     List.of(Stimulus.pulse(Math.max(0, t0), Math.min(Math.max(x0 - xFirst, 0), lengthUm),
                             Math.max(width, h), 1.0)), dt, g.unit);
         } catch (IllegalArgumentException e) {
@@ -383,17 +386,14 @@ public final class KymographFits {
         // Each evaluation is a full simulation: fewer evaluations per start, and profiles only on small kymographs
         // (elsewhere the Student t intervals are reported and say so in ci_method).
         ModelFit.Options options = setup.options().withMaxEvaluations(Math.min(setup.options().maxEvaluations(), 200));
-        if (model.size() > ENGINE_PROFILE_LIMIT) {
+        if ((long) k.positionCount() * k.frameCount() > ENGINE_PROFILE_LIMIT) {
             options = options.withProfiles(false);
         }
-        FitResult r = model.fitInStages(data, starts, options, progress);
+        FitResult r = model.fitInStages(data, starts, options, progress, lineTimed ? k.sampleDelaysS() : null);
         if (!setup.sealedEnds()) {
             notes.add("The " + name + " model was simulated with sealed ends at the ends of the path.");
         }
-        if (k.hasSampleDelays()) {
-            notes.add("The " + name + " model was compared with the data at the frame times; the scan-line delays "
-                    + "were applied to the diffusion-decay fit and the spread measures only.");
-        }
+
         if (notes.isEmpty()) {
             return r;
         }

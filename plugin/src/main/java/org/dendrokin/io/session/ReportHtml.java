@@ -79,7 +79,7 @@ public final class ReportHtml {
         if (movie.linePeriodS() > 0) {
             row(h, "Scan lines", number(movie.linePeriodS()) + " s per line (session.json): a sample on image row y "
                     + "was taken y x " + number(movie.linePeriodS()) + " s after its frame's time; the arrival times "
-                    + "and the diffusion-decay fit use those times, the travelling-wave fits the frame times");
+                    + "and every model fit use those times");
         }
         row(h, "Path", esc(in.relative(in.pathFile())) + ", " + number(movie.pathLengthUm())
                 + " um long; averaged over a band " + number(movie.pathWidthUm()) + " um wide; "
