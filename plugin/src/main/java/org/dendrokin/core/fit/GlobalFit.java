@@ -91,9 +91,19 @@ public final class GlobalFit {
             start = Map.copyOf(start);
         }
 
-        /** The diffusion-decay model on a kymograph's grid (this session's, or a thinned copy of it). */
+        /**
+         * The diffusion-decay model on a kymograph's grid (this session's, or a thinned copy of it). A raster-scanned
+         * kymograph (with sample delays) gets the model read at each sample's own time, as its own fit does
+         * ({@link LineTimedModel}); the fast held-stimulus sums assume one time per frame.
+         */
         FitModel model(Kymograph k) {
             double[] walls = sealedEnds ? new double[] {k.distanceUm(0), k.distanceUm(k.positionCount() - 1)} : null;
+            if (k.hasSampleDelays() && k.frameCount() >= 2) {
+                DiffusionDecayPulse inner = new DiffusionDecayPulse(k.distancesUm(),
+                        LineTimedModel.extendedTimes(k.timesS()), freeStimulus ? Double.NaN : stimulusTimeS,
+                        freeStimulus ? Double.NaN : stimulusPositionUm, walls, KymographFits.unitOf(k.signalUnit()));
+                return new LineTimedModel(inner, k.timesS(), k.sampleDelaysS());
+            }
             if (!freeStimulus) {
                 return new HeldStimulusPulse(k.distancesUm(), k.timesS(), stimulusTimeS, stimulusPositionUm, walls,
                         KymographFits.unitOf(k.signalUnit()));
@@ -453,7 +463,9 @@ public final class GlobalFit {
             t[i] = k.timeS(keep.get(i));
             System.arraycopy(k.row(keep.get(i)), 0, v, i * nx, nx);
         }
-        return new Kymograph(k.distancesUm(), t, v, k.signalUnit());
+        // the delays stay below the (longer) interval of the kept frames
+        return new Kymograph(k.distancesUm(), t, v, k.signalUnit()).withSampleDelays(k.hasSampleDelays()
+                ? k.sampleDelaysS() : null);
     }
 
     /** A session's block with D linked to global coordinate dIndex (plus offset) and k to kIndex. */

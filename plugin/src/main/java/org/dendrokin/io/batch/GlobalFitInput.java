@@ -4,6 +4,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 
 import com.google.gson.GsonBuilder;
+import com.google.gson.JsonArray;
 import com.google.gson.JsonElement;
 import com.google.gson.JsonObject;
 
@@ -19,8 +20,11 @@ import org.dendrokin.io.session.FitSettings;
  * starting values) and kymograph.csv, so a folder of finished results, from one machine or a cluster's shards, is
  * enough for the joint fit.
  * <pre>
- *   {"format": 1, "fit_settings": {"free_stimulus": false, "sealed_ends": false}}
+ *   {"format": 1, "fit_settings": {"free_stimulus": false, "sealed_ends": false},
+ *    "sample_delays_s": [0.0, 0.0021, ...]}
  * </pre>
+ * {@code sample_delays_s} (a raster scan's delay of each kymograph position after its frame's time, s) is there
+ * only when the session's fits read the model at each sample's own time; kymograph.csv holds frame times only.
  */
 final class GlobalFitInput {
     static final String FILE = "global-fit-input.json";
@@ -31,20 +35,33 @@ final class GlobalFitInput {
      * @param freeStimulus the session's fits fitted the stimulus time and position
      * @param sealedEnds   the session's path ends were sealed dendrite ends
      * @param recorded     false when the file was missing (results of an older version): the defaults were assumed
+     * @param delaysS      each position's scan-line delay, s, or null when the session has none
      */
-    record Settings(boolean freeStimulus, boolean sealedEnds, boolean recorded) {
+    record Settings(boolean freeStimulus, boolean sealedEnds, boolean recorded, double[] delaysS) {
     }
 
     private GlobalFitInput() {
     }
 
-    static void write(Path outDir, FitSettings fit) {
+    /**
+     * Writes the file into a session's result folder.
+     *
+     * @param delaysS the analysed kymograph's scan-line delay per position, s, or null when it has none
+     */
+    static void write(Path outDir, FitSettings fit, double[] delaysS) {
         JsonObject settings = new JsonObject();
         settings.addProperty("free_stimulus", fit.freeStimulus());
         settings.addProperty("sealed_ends", fit.sealedEnds());
         JsonObject o = new JsonObject();
         o.addProperty("format", 1);
         o.add("fit_settings", settings);
+        if (delaysS != null) {
+            JsonArray delays = new JsonArray();
+            for (double d : delaysS) {
+                delays.add(d);
+            }
+            o.add("sample_delays_s", delays);
+        }
         AtomicFiles.writeString(outDir.resolve(FILE), new GsonBuilder().setPrettyPrinting().create().toJson(o) + "\n");
     }
 
@@ -52,7 +69,7 @@ final class GlobalFitInput {
     static Settings read(Path resultDir) {
         Path f = resultDir.resolve(FILE);
         if (!Files.isRegularFile(f)) {
-            return new Settings(FitSettings.DEFAULT.freeStimulus(), FitSettings.DEFAULT.sealedEnds(), false);
+            return new Settings(FitSettings.DEFAULT.freeStimulus(), FitSettings.DEFAULT.sealedEnds(), false, null);
         }
         JsonObject o = JsonFiles.readObject(f, "the session's global-fit input");
         JsonElement s = o.get("fit_settings");
@@ -60,7 +77,25 @@ final class GlobalFitInput {
             throw new InputException(f, "key \"fit_settings\" is missing or not an object");
         }
         return new Settings(flag(f, s.getAsJsonObject(), "free_stimulus"), flag(f, s.getAsJsonObject(), "sealed_ends"),
-                true);
+                true, delays(f, o.get("sample_delays_s")));
+    }
+
+    private static double[] delays(Path f, JsonElement e) {
+        if (e == null || e.isJsonNull()) {
+            return null;
+        }
+        if (!e.isJsonArray()) {
+            throw new InputException(f, "key \"sample_delays_s\" must be a list of delays in seconds");
+        }
+        double[] d = new double[e.getAsJsonArray().size()];
+        for (int i = 0; i < d.length; i++) {
+            JsonElement x = e.getAsJsonArray().get(i);
+            if (!x.isJsonPrimitive() || !x.getAsJsonPrimitive().isNumber() || !(x.getAsDouble() >= 0)) {
+                throw new InputException(f, "key \"sample_delays_s\" must hold delays of 0 s or more");
+            }
+            d[i] = x.getAsDouble();
+        }
+        return d;
     }
 
     private static boolean flag(Path f, JsonObject o, String key) {

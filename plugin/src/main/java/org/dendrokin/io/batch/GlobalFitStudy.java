@@ -343,6 +343,17 @@ public final class GlobalFitStudy {
         } catch (InputException e) {
             return left(id, group, unit, ownD, ownK, e.getMessage());
         }
+        if (settings.delaysS() != null) {
+            // a raster scan: read at each sample's own time in the joint fit too, as in the session's own fits
+            double[] d = settings.delaysS();
+            double step = kymograph.frameCount() < 2 ? Double.POSITIVE_INFINITY : kymograph.timeStepS();
+            boolean fits = d.length == kymograph.positionCount() && java.util.Arrays.stream(d).allMatch(x -> x < step);
+            if (!fits) {
+                return left(id, group, unit, ownD, ownK, "its " + GlobalFitInput.FILE + " gives scan-line delays that "
+                        + "do not fit its kymograph (one per position, each shorter than the frame interval).");
+            }
+            kymograph = kymograph.withSampleDelays(d);
+        }
         JsonElement b = results.get("baseline_frames");
         int[] baseline = null;
         if (b != null && b.isJsonArray() && b.getAsJsonArray().size() == 2) {

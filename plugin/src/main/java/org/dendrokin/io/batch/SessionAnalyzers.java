@@ -14,7 +14,9 @@ public final class SessionAnalyzers {
     public static SessionAnalyzer standard() {
         return (sessionDir, outDir, progress) -> {
             SessionRunner.Result r = SessionRunner.analyze(sessionDir, outDir, progress);
-            GlobalFitInput.write(outDir, r.inputs().config().fit());
+            org.dendrokin.core.kymo.Kymograph signal = r.analysis().signal();
+            GlobalFitInput.write(outDir, r.inputs().config().fit(), signal.hasSampleDelays() ? signal.sampleDelaysS()
+                    : null);
         };
     }
 }

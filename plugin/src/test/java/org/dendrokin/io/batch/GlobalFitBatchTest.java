@@ -22,7 +22,10 @@ import com.google.gson.JsonParser;
 
 import org.dendrokin.cli.Main;
 import org.dendrokin.core.Progress;
+import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.KymographCsv;
+import org.dendrokin.io.session.FitSettings;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -181,6 +184,34 @@ class GlobalFitBatchTest {
         assertTrue(Files.readString(g.resolve("global-fit.html")).contains("plots/global-D.png"));
         assertTrue(Files.isRegularFile(g.resolve("plots/global-D.png")));
         assertFalse(Files.exists(out.resolve("global-fit.json")), "the results folder is only read");
+    }
+
+    @Test
+    void scanLineDelaysRecordedBesideAResultAreReadBackAndCheckedAgainstItsKymograph(@TempDir Path tmp)
+            throws IOException {
+        Path root = tmp.resolve("study");
+        study(root);
+        Path out = tmp.resolve("out");
+        run(root, out, null);
+        Path scanned = out.resolve("sessions").resolve("control__c1");
+        Kymograph k = KymographCsv.read(scanned.resolve("kymograph.csv"), "dF/F0");
+        double[] delays = new double[k.positionCount()];
+        for (int p = 0; p < delays.length; p++) {
+            delays[p] = k.timeStepS() * p / delays.length;
+        }
+        GlobalFitInput.write(scanned, FitSettings.DEFAULT, delays);
+        GlobalFitInput.write(out.resolve("sessions").resolve("drug__d1"), FitSettings.DEFAULT, new double[] {0.01});
+        Path g = tmp.resolve("joint");
+        assertEquals(Main.OK, Main.run(new String[] {"global-fit", out.toString(), "--model", "diffusion-decay",
+            "--out", g.toString(), "--bootstrap", "0"}, quiet(), quiet()));
+        assertEquals(delays.length, GlobalFitInput.read(scanned).delaysS().length, "read back");
+        JsonObject json = read(g.resolve("global-fit.json"));
+        assertEquals(4, group(json, "control").get("sessions_used").getAsInt(), "the scanned session takes part");
+        JsonArray excluded = json.getAsJsonArray("excluded");
+        assertEquals(1, excluded.size(), excluded.toString());
+        assertEquals("drug/d1", excluded.get(0).getAsJsonObject().get("session").getAsString());
+        assertTrue(excluded.get(0).getAsJsonObject().get("reason").getAsString().contains("scan-line delays"),
+                excluded.toString());
     }
 
     @Test

@@ -116,7 +116,7 @@ final class GlobalFitFixtures {
             results.add("warnings", new JsonArray());
             AtomicFiles.writeString(out.resolve("results.json"), new GsonBuilder().setPrettyPrinting()
                     .serializeNulls().create().toJson(results) + "\n");
-            GlobalFitInput.write(out, FitSettings.DEFAULT);
+            GlobalFitInput.write(out, FitSettings.DEFAULT, null);
         };
     }
 
