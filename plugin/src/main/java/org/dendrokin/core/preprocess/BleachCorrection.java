@@ -28,6 +28,12 @@ import org.dendrokin.core.units.Unit;
 public final class BleachCorrection {
     private static final int MARGIN = 2;
     private static final int SMOOTH_HALF = 7;
+    /** Residual RMS of the bleaching fit, in frame-to-frame noise, above which its shape is called wrong. */
+    static final double SHAPE_RATIO = 3.0;
+    /** Lag-1 correlation of those residuals above which they are called systematic. */
+    static final double SHAPE_CORRELATION = 0.5;
+    /** Largest residual, as a fraction of the normalised trace (1 at baseline), that matters. */
+    static final double SHAPE_SIZE = 0.01;
 
     private BleachCorrection() {
     }
@@ -141,6 +147,10 @@ public final class BleachCorrection {
             return new Result(intensity, false, null, times, trace, fitted, quiet, warnings);
         }
         double tau = 1 / fit.rate();
+        String shape = shapeMisfit(times, trace, fitted);
+        if (shape != null) {
+            warnings.add(shape);
+        }
         Estimate estimate = new Estimate(tau, Unit.SECOND.symbol(), 1 / ci[1], 1 / ci[0],
                 "Student t on the fitted rate (Jacobian covariance), inverted");
         double duration = times[nt - 1] - times[0];
@@ -157,5 +167,59 @@ public final class BleachCorrection {
         }
         return new Result(intensity.withValues(values, intensity.signalUnit()), true, estimate, times, trace, fitted,
                 quiet, warnings);
+    }
+
+    /**
+     * A sentence when the bleaching does not follow the fitted single exponential, else null. The residuals of the
+     * fit to the quiet trace are compared with the trace's own frame-to-frame noise (1.4826 times the median
+     * absolute deviation of consecutive differences, over sqrt 2, which a smooth trend leaves out): a residual RMS
+     * above {@value #SHAPE_RATIO} times that noise, a lag-1 correlation of the residuals above
+     * {@value #SHAPE_CORRELATION} and a largest residual above {@value #SHAPE_SIZE} of the trace mean systematic
+     * misfit, as two bleaching phases of different speed leave it [common practice: a runs-style check of a fit's
+     * residuals]. The correction then leaves a drift in dF/F0 that the decay rate absorbs.
+     */
+    static String shapeMisfit(double[] times, double[] trace, double[] fitted) {
+        List<Double> r = new ArrayList<>();
+        List<Double> diffs = new ArrayList<>();
+        double previous = Double.NaN;
+        for (int f = 0; f < trace.length; f++) {
+            if (Double.isFinite(trace[f]) && Double.isFinite(fitted[f])) {
+                double res = trace[f] - fitted[f];
+                if (Double.isFinite(previous)) {
+                    diffs.add(trace[f] - previous);
+                }
+                r.add(res);
+                previous = trace[f];
+            } else {
+                previous = Double.NaN;
+            }
+        }
+        if (r.size() < 20 || diffs.size() < 10) {
+            return null;
+        }
+        double[] d = diffs.stream().mapToDouble(Double::doubleValue).toArray();
+        double noise = Robust.madSd(d) / Math.sqrt(2);
+        double ss = 0;
+        double lag = 0;
+        double largest = 0;
+        for (int i = 0; i < r.size(); i++) {
+            ss += r.get(i) * r.get(i);
+            largest = Math.max(largest, Math.abs(r.get(i)));
+            if (i > 0) {
+                lag += r.get(i) * r.get(i - 1);
+            }
+        }
+        double rms = Math.sqrt(ss / r.size());
+        double correlation = ss > 0 ? lag / ss : 0;
+        if (rms > SHAPE_RATIO * noise && correlation > SHAPE_CORRELATION && largest > SHAPE_SIZE) {
+            return String.format(Locale.ROOT, "The bleaching does not follow one exponential: the fitted curve misses "
+                    + "the mean intensity away from the response by up to %.2g%% in a systematic way (residuals "
+                    + "correlated from frame to frame, r = %.2f; %.1f times the frame-to-frame noise), as when the dye "
+                    + "bleaches in a fast and a slow phase. The correction leaves a drift in the signal that the fitted "
+                    + "decay rate k and the decay time absorb: do not trust them for this movie (a shorter movie, "
+                    + "less laser power, or a stable baseline period helps).", 100 * largest, correlation,
+                    rms / noise);
+        }
+        return null;
     }
 }
