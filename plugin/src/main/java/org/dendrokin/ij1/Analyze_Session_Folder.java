@@ -49,7 +49,7 @@ public class Analyze_Session_Folder implements PlugIn {
             Kymograph k = result.analysis().signal();
             ImagePlus image = KymographImage.toImage(k, result.session());
             Display.showKymograph(image);
-            Tables.show(table(result), "Dendrokin session " + result.session());
+            Tables.show(table(result), "Dendrokin session " + result.session(), image.getWindow());
             progress.finish(COMMAND + ": results in " + outDir);
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
