@@ -23,6 +23,7 @@ import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.calib.CalibrationConfig;
 import org.dendrokin.io.calib.CalibrationSetup;
 import org.dendrokin.io.calib.SessionCalibration;
+import org.dendrokin.io.calib.SessionLifetime;
 import org.dendrokin.io.movie.Movie;
 import org.dendrokin.io.path.PathFiles;
 import org.dendrokin.io.session.FitSettings;
@@ -151,16 +152,21 @@ public final class SessionRunner {
                                 + "projection was analysed (set \"z\" to choose a plane or the other projection).",
                                 movie.zSlices(), acq.zProjection().equals("max") ? "maximum" : "mean")));
             }
+            SessionLifetime lifetime = calibration.lifetime() == null ? null
+                    : SessionLifetime.open(calibration, sessionFile, movie);
+            if (lifetime != null) {
+                lifetime.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.MOVIE, w)));
+            }
             inputs = new SessionInputs(sessionDir, sessionName(sessionDir), config, movieFile, pathFile,
                     movie.bitDepth(), movie.channelCount(), calibration, warnings);
             AnalysisRequest request = new AnalysisRequest(frames,
                     channels == null ? null : planes(movie, channels.denominator() - 1, acq),
                     acq.structuralChannel() > 0 ? planes(movie, acq.structuralChannel() - 1, acq) : null, path,
                     movie.pixelSizeUm(), movie.frameIntervalS(), config.pathWidthUm(),
-                    background(config, sessionDir, frames), SessionCalibration.request(calibration),
+                    background(config, sessionDir, frames), SessionCalibration.request(calibration, lifetime),
                     config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
                     acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()));
-            try {
+            try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {
                 Path file = e.subject() == AnalysisInputException.Subject.PATH ? pathFile : sessionFile;

@@ -84,20 +84,33 @@ public record AnalysisResult(Movie movie, Extraction extraction, Background back
     }
 
     /**
-     * The background subtracted.
+     * The background subtracted: {@code perFrame[f] + alongPath[p]} at frame f and position p.
      *
      * @param perFrame    grey value of each frame
+     * @param alongPath   grey value added at each position along the path, or null when the background is the same
+     *                    all along
      * @param value       a representative value (the given one, the estimate, or the median over frames)
      * @param description one or two sentences for the report
      */
-    public record Background(double[] perFrame, double value, String description) {
+    public record Background(double[] perFrame, double[] alongPath, double value, String description) {
         public Background {
             perFrame = perFrame.clone();
+            alongPath = alongPath == null ? null : alongPath.clone();
+        }
+
+        /** One level for every position. */
+        public Background(double[] perFrame, double value, String description) {
+            this(perFrame, null, value, description);
         }
 
         @Override
         public double[] perFrame() {
             return perFrame.clone();
+        }
+
+        @Override
+        public double[] alongPath() {
+            return alongPath == null ? null : alongPath.clone();
         }
     }
 

@@ -18,6 +18,7 @@ import org.dendrokin.core.preprocess.BaselineChange;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.core.units.Unit;
 
 /**
  * One analysis from a movie channel and a path to typed results, in this order: the kymograph along the path;
@@ -27,6 +28,12 @@ import org.dendrokin.core.spread.SpreadAnalysis;
  * ({@link Headline}). Nothing here reads or writes a file: the caller opens the movie and writes the outputs.
  */
 public final class SessionAnalysis {
+    /** Gap between the band's edge and the pixels the background beside the path is read from, um (spines). */
+    static final double BESIDE_GAP_UM = 2.5;
+    /** Depth of the strip beside the path the background is read from, um. */
+    static final double BESIDE_DEPTH_UM = 2.0;
+    /** Half-length along the path over which the background beside it is pooled, um. */
+    static final double BESIDE_WINDOW_UM = 2.5;
     /** Frames averaged for the reference image of the path picture. */
     private static final int REFERENCE_FRAMES = 10;
 
@@ -69,15 +76,18 @@ public final class SessionAnalysis {
                 finiteOrNull(primary.positionUm()), request.baselineFrames(), request.bleachCorrection());
         Preprocessing.Result pre;
         try {
-            pre = Preprocessing.run(extraction.kymograph(), background.perFrame(), options);
+            pre = Preprocessing.run(extraction.kymograph(), background.perFrame(), background.alongPath(), options);
         } catch (IllegalArgumentException e) {
             throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, e.getMessage(), e);
         }
         float[] reference = meanFrame(frames, pre.baselineFirst(), pre.baselineLast());
         pre.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.PREPROCESSING, w)));
 
+        CalibrationStage.Lifetime lifetime = CalibrationStage.lifetime(request.calibration(),
+                channel -> motion.extract(channel, progress).kymograph(), request.pathWidthUm(), px);
         CalibrationStage.Calibrated calibrated = CalibrationStage.apply(request.calibration(),
-                pre.bleach().corrected(), pre.deltaF().kymograph(), ratio, pre.baselineFirst(), pre.baselineLast());
+                pre.bleach().corrected(), pre.deltaF().kymograph(), ratio, lifetime, pre.baselineFirst(),
+                pre.baselineLast());
         if (request.normalisation() != Normalisation.NONE) {
             calibrated = StructuralNormalisation.apply(request, motion, extraction, pre, background, warnings,
                     progress);
@@ -210,6 +220,11 @@ public final class SessionAnalysis {
         if (pre.baselineLast() >= pre.baselineFirst()) {
             setup = setup.withBaselineFrames(pre.baselineFirst(), pre.baselineLast());
         }
+        if (pre.bleach().applied() && signal.signalUnit().equals(Unit.DF_F0.symbol())) {
+            // the bleaching correction's own error would otherwise end up in the decay rate
+            setup = setup.withResidualBleaching(0.5 * (signal.timeS(pre.baselineFirst())
+                    + signal.timeS(pre.baselineLast())));
+        }
         KymographFits.Outcome outcome = KymographFits.fit(signal, setup, spread, progress);
         outcome.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.FIT, w)));
         outcome.best().ifPresent(best -> best.warnings().forEach(
@@ -233,11 +248,36 @@ public final class SessionAnalysis {
         int frames = request.signal().frameCount();
         Kymograph denRaw = motion.extract(denominator, progress).kymograph();
         CalibrationRequest cal = request.calibration();
-        double[] numBg = cal.numeratorBackground() == null ? numeratorBackground.perFrame()
-                : constant(cal.numeratorBackground(), frames);
-        double[] denBg = cal.denominatorBackground() != null ? constant(cal.denominatorBackground(), frames)
-                : background(request.background(), denominator, numerator, request, progress).perFrame();
-        return CalibrationStage.ratio(numerator.kymograph(), numBg, denRaw, denBg);
+        Kymograph num = numerator.kymograph();
+        double[] numBg;
+        if (cal.numeratorBackground() == null) {
+            numBg = numeratorBackground.perFrame();
+            num = minusAlongPath(num, numeratorBackground.alongPath());
+        } else {
+            numBg = constant(cal.numeratorBackground(), frames);
+        }
+        double[] denBg;
+        if (cal.denominatorBackground() != null) {
+            denBg = constant(cal.denominatorBackground(), frames);
+        } else {
+            AnalysisResult.Background b = background(request.background(), denominator, numerator, request, progress);
+            denBg = b.perFrame();
+            denRaw = minusAlongPath(denRaw, b.alongPath());
+        }
+        return CalibrationStage.ratio(num, numBg, denRaw, denBg);
+    }
+
+    /** The kymograph minus a background that varies along the path (unchanged for null). */
+    static Kymograph minusAlongPath(Kymograph k, double[] alongPath) {
+        if (alongPath == null) {
+            return k;
+        }
+        int nx = k.positionCount();
+        double[] v = k.values();
+        for (int i = 0; i < v.length; i++) {
+            v[i] -= alongPath[i % nx];
+        }
+        return k.withValues(v, k.signalUnit());
     }
 
     /** The background of one channel: the given value, the region's mean frame by frame, or the estimate. */
@@ -266,7 +306,21 @@ public final class SessionAnalysis {
             throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, est.description()
                     + " Set key \"background\" to {\"value\": ...} or {\"roi\": \"file.roi\"}");
         }
-        return new AnalysisResult.Background(constant(est.value(), n), est.value(), est.description());
+        double inner = (request.pathWidthUm() / 2 + BESIDE_GAP_UM) / request.pixelSizeUm();
+        double outer = inner + BESIDE_DEPTH_UM / request.pixelSizeUm();
+        int halfWindow = (int) Math.round(BESIDE_WINDOW_UM / request.pixelSizeUm());
+        double[] beside = BackgroundEstimator.besidePath(frames, extraction.xPx(), extraction.yPx(), inner, outer,
+                halfWindow, picks, progress);
+        if (beside.length == 0 || !Double.isFinite(beside[0])) {
+            return new AnalysisResult.Background(constant(est.value(), n), est.value(), est.description());
+        }
+        double median = Robust.median(beside);
+        return new AnalysisResult.Background(new double[n], beside, median, String.format(Locale.ROOT, "Estimated "
+                + "from the data beside the path, position by position: the %.0fth percentile of the pixels %.3g to "
+                + "%.3g um from the path within %.3g um along it, averaged over %d frames (the value shown is the "
+                + "median along the path; far from the path the %s).", BackgroundEstimator.PERCENTILE,
+                request.pathWidthUm() / 2 + BESIDE_GAP_UM, request.pathWidthUm() / 2 + BESIDE_GAP_UM
+                        + BESIDE_DEPTH_UM, BESIDE_WINDOW_UM, picks.length, decapitalise(est.description())));
     }
 
     /** The mean of the region's pixels in every frame, reading only the rows the region covers. */
@@ -307,6 +361,10 @@ public final class SessionAnalysis {
             }
         }
         return sum;
+    }
+
+    private static String decapitalise(String s) {
+        return s.isEmpty() ? s : Character.toLowerCase(s.charAt(0)) + s.substring(1);
     }
 
     static double[] constant(double value, int frames) {

@@ -25,10 +25,11 @@ final class StructuralNormalisation {
         Extraction structural = motion.extract(request.structural(), progress);
         BackgroundRequest how = request.background() instanceof BackgroundRequest.Fixed
                 ? new BackgroundRequest.Estimated() : request.background();
-        double[] rBackground = SessionAnalysis.background(how, request.structural(), signal, request, progress)
-                .perFrame();
+        AnalysisResult.Background b = SessionAnalysis.background(how, request.structural(), signal, request,
+                progress);
+        double[] rBackground = b.perFrame();
         Kymograph g = pre.bleach().corrected();
-        Kymograph r = structural.kymograph();
+        Kymograph r = SessionAnalysis.minusAlongPath(structural.kymograph(), b.alongPath());
         int nx = g.positionCount();
         int nt = g.frameCount();
         double[] gv = g.values();

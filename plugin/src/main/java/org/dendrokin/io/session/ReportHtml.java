@@ -231,6 +231,9 @@ public final class ReportHtml {
             b.append(applied.propagated()
                     ? " The calibration's own uncertainty was propagated to a per-sample SD (concentration_sd.csv)."
                     : " No uncertainty of the calibration constants was given, so none was propagated.");
+        } else if (applied.propagated()) {
+            b.append(" A per-sample SD, from the signal's own precision and the uncertainty of the method's constants, "
+                    + "was propagated (concentration_sd.csv).");
         }
         return b.toString();
     }

@@ -291,11 +291,7 @@ public final class ResultsJson {
         JsonObject o = new JsonObject();
         o.addProperty("method", cal.method());
         o.addProperty("description", cal.description());
-        o.addProperty("signal_in", switch (cal.input()) {
-            case INTENSITY -> "background-subtracted intensity";
-            case RATIO -> "ratio of background-subtracted channels";
-            case DF_F0 -> "dF/F0";
-        });
+        o.addProperty("signal_in", cal.input().phrase());
         o.addProperty("unit", cal.outputUnit().symbol());
         JsonObject constants = new JsonObject();
         for (Map.Entry<String, Double> e : cal.constants().entrySet()) {
@@ -308,6 +304,16 @@ public final class ResultsJson {
             ch.addProperty("numerator_channel", setup.channels().numerator());
             ch.addProperty("denominator_channel", setup.channels().denominator());
             o.add("channels", ch);
+        }
+        if (setup.lifetime() != null) {
+            CalibrationSetup.LifetimeInput in = setup.lifetime();
+            JsonObject lt = new JsonObject();
+            lt.add("movie", in.movie() == null ? JsonNull.INSTANCE : new JsonPrimitive(in.movie()));
+            lt.addProperty("lifetime_channel", in.lifetimeChannel());
+            lt.add("photons", in.photons() == null ? JsonNull.INSTANCE : new JsonPrimitive(in.photons()));
+            lt.add("photon_channel", in.weighted() ? new JsonPrimitive(in.photonChannelOrFirst()) : JsonNull.INSTANCE);
+            lt.addProperty("photon_weighted", in.weighted());
+            o.add("lifetime", lt);
         }
         if (applied.summary() != null) {
             CalibrationSummary s = applied.summary();
@@ -327,6 +333,8 @@ public final class ResultsJson {
             o.add("counts", counts);
             o.addProperty("fraction_flagged", s.fractionFlagged());
             o.addProperty("fraction_nan", s.fractionNan());
+            o.addProperty("uncertainty_propagated", applied.propagated());
+        } else if (applied.sdMicromolar() != null) {
             o.addProperty("uncertainty_propagated", applied.propagated());
         }
         JsonArray w = new JsonArray();

@@ -78,7 +78,8 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
 
     /** The calibration methods of the contract. */
     public static final List<String> CALIBRATION_METHODS =
-            List.of("none", "single-wavelength", "dynamic-range", "ratio", "hill", "standards", "file");
+            List.of("none", "single-wavelength", "dynamic-range", "ratio", "hill", "standards", "file", "ratio-change",
+                    "lifetime");
 
     private static final Set<String> KEYS = Set.of("movie", "path", "path_roi_name", "path_width_um", "pixel_size_um",
             "frame_interval_s", "stimulus", "stimuli", "train_gap_s", "baseline_frames", "background", "calibration",
