@@ -80,7 +80,7 @@ final class AnalyzeCommand implements Callable<Integer> {
         Double x = null;
         Double y = null;
         if (stimulusXy != null) {
-            double[] xy = pair(stimulusXy);
+            double[] xy = SessionOverrides.spot(stimulusXy);
             if (xy == null) {
                 throw new InputException(null, "--stimulus-xy must be two numbers X,Y in image pixels, such as "
                         + "120.5,40, not \"" + stimulusXy + "\"");
@@ -89,20 +89,5 @@ final class AnalyzeCommand implements Callable<Integer> {
             y = xy[1];
         }
         return new SessionOverrides(n, null, m, x, y, SessionOverrides.Origin.COMMAND_LINE);
-    }
-
-    /** Two finite numbers separated by a comma, or null. */
-    static double[] pair(String text) {
-        String[] parts = text.split(",", -1);
-        if (parts.length != 2) {
-            return null;
-        }
-        try {
-            double a = Double.parseDouble(parts[0].trim());
-            double b = Double.parseDouble(parts[1].trim());
-            return Double.isFinite(a) && Double.isFinite(b) ? new double[] {a, b} : null;
-        } catch (NumberFormatException e) {
-            return null;
-        }
     }
 }

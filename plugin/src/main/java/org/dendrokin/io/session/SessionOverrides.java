@@ -156,6 +156,21 @@ public record SessionOverrides(Integer channel, Integer structuralChannel, Motio
         return "Set in " + origin.phrase + " for this run, over session.json: " + String.join("; ", parts) + ".";
     }
 
+    /** A stimulation spot written as two finite numbers {@code x,y} (pixels), or null if the text is not one. */
+    public static double[] spot(String text) {
+        String[] parts = text.split(",", -1);
+        if (parts.length != 2) {
+            return null;
+        }
+        try {
+            double x = Double.parseDouble(parts[0].trim());
+            double y = Double.parseDouble(parts[1].trim());
+            return Double.isFinite(x) && Double.isFinite(y) ? new double[] {x, y} : null;
+        } catch (NumberFormatException e) {
+            return null;
+        }
+    }
+
     private static String plain(double v) {
         return v == Math.rint(v) && Math.abs(v) < 1e9 ? Long.toString((long) v) : Double.toString(v);
     }
