@@ -75,6 +75,9 @@ public class Analyze_Session_Folder implements PlugIn {
             Path sessionDir = Path.of(session);
             Path outDir = output.isEmpty() ? defaultOutput(sessionDir) : Path.of(output);
             SessionRunner.Result result = SessionRunner.analyze(sessionDir, outDir, overrides, progress);
+            if (!overrides.isEmpty()) {
+                IJ.log(COMMAND + " (" + result.session() + "): " + overrides.sentence());
+            }
             result.warnings().forEach(w -> IJ.log(COMMAND + " (" + result.session() + "): " + w));
             Kymograph k = result.analysis().signal();
             ImagePlus image = KymographImage.toImage(k, result.session());

@@ -111,8 +111,8 @@ final class KymographLegend extends Canvas implements ImageListener {
         FontMetrics fm = getFontMetrics(font);
         // sized for the longer wording, so the strip keeps its height when the display range changes
         int notes = wrap(notes(true), fm, width - 4).size();
-        // axis: ticks, numbers, title; colour bar: bar, numbers, title; then the notes
-        return new Dimension(width, TICK + 2 * line + 4 + BAR + 2 * line + notes * line + 4);
+        // axis: ticks, numbers, title; colour bar: bar, ticks, numbers, title; then the notes
+        return new Dimension(width, TICK + 2 * line + 4 + BAR + TICK + 2 * line + notes * line + 4);
     }
 
     @Override
@@ -193,13 +193,15 @@ final class KymographLegend extends Canvas implements ImageListener {
             g.drawLine(sx, top + BAR, sx, top + BAR + TICK);
             String label = ticks.label(v);
             int w = fm.stringWidth(label);
-            g.drawString(label, Math.max(0, Math.min(getWidth() - w, sx - w / 2)), top + BAR + line - fm.getDescent());
+            // below the tick, as on the distance axis, so that the tick does not run into the number
+            g.drawString(label, Math.max(0, Math.min(getWidth() - w, sx - w / 2)),
+                    top + BAR + TICK + line - fm.getDescent());
         }
         String unit = image.getCalibration().getValueUnit();
         String title = "colour: " + (unit == null || unit.isEmpty() || unit.equals("Gray Value") ? "value" : unit)
                 + ", bar from " + number(min) + " to " + number(max);
-        g.drawString(title, 2, top + BAR + 2 * line - fm.getDescent());
-        return top + BAR + 2 * line;
+        g.drawString(title, 2, top + BAR + TICK + 2 * line - fm.getDescent());
+        return top + BAR + TICK + 2 * line;
     }
 
     /**
