@@ -42,6 +42,10 @@ import ij.process.ImageProcessor;
 final class KymographLegend extends Canvas implements ImageListener {
     private static final long serialVersionUID = 1L;
     private static final int MIN_WIDTH = 260;
+    /** Room in a title bar beside the title: icon and the three buttons (about 90 pixels in common themes). */
+    private static final int TITLE_BAR_EXTRA = 100;
+    /** Widest the strip grows to show the whole window title. */
+    private static final int MAX_TITLE_WIDTH = 640;
     private static final int TICK = 4;
     private static final int BAR = 12;
 
@@ -107,12 +111,23 @@ final class KymographLegend extends Canvas implements ImageListener {
     @Override
     public Dimension getPreferredSize() {
         int width = Math.max(imageCanvas.getWidth() > 0 ? imageCanvas.getWidth()
-                : imageCanvas.getPreferredSize().width, MIN_WIDTH);
+                : imageCanvas.getPreferredSize().width, Math.max(MIN_WIDTH, titleWidth()));
         FontMetrics fm = getFontMetrics(font);
         // sized for the longer wording, so the strip keeps its height when the display range changes
         int notes = wrap(notes(true), fm, width - 4).size();
         // axis: ticks, numbers, title; colour bar: bar, ticks, numbers, title; then the notes
         return new Dimension(width, TICK + 2 * line + 4 + BAR + TICK + 2 * line + notes * line + 4);
+    }
+
+    /**
+     * Width at which the window's title fits its title bar, so that a narrow kymograph's title (which names the
+     * line and the unit) is not cut short by the window system; estimated with a bold face of the strip's size.
+     */
+    private int titleWidth() {
+        java.awt.Window w = image.getWindow();
+        String title = w instanceof java.awt.Frame f ? f.getTitle() : image.getTitle();
+        FontMetrics bold = getFontMetrics(font.deriveFont(Font.BOLD));
+        return Math.min(MAX_TITLE_WIDTH, bold.stringWidth(title) + TITLE_BAR_EXTRA);
     }
 
     @Override
