@@ -185,7 +185,8 @@ public final class SessionRunner {
                     movie.pixelSizeUm(), movie.frameIntervalS(), config.pathWidthUm(),
                     background(config, sessionDir, frames), SessionCalibration.request(calibration, lifetime),
                     config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
-                    acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()));
+                    acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()),
+                    acq.linePeriodS(movie.frameIntervalS()));
             try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {

@@ -105,7 +105,7 @@ class TitlesTest {
         cal.frameInterval = 0.5;
         cal.setTimeUnit("s");
         movie.setRoi(new Line(5.5, 15.5, 30.5, 15.5));
-        ImagePlus measured = Simulate_Along_Line.measured(movie, 1.75, new IjProgress("test"));
+        ImagePlus measured = Simulate_Along_Line.measured(movie, 1.75, 2.5, new IjProgress("test"));
         assertEquals("dendrite measured (dF/F0)", measured.getTitle());
         assertNoRepeat(measured.getTitle());
     }

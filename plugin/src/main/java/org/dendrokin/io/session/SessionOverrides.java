@@ -116,7 +116,8 @@ public record SessionOverrides(Integer channel, Integer structuralChannel, Motio
                     + origin.structural + " sets none");
         }
         SessionConfig.Acquisition acquisition = new SessionConfig.Acquisition(signal, structural, normalisation,
-                motion != null ? motion : a.motion(), a.zSlice(), a.zProjection(), a.trainGapS());
+                motion != null ? motion : a.motion(), a.zSlice(), a.zProjection(), a.trainGapS(), a.linePeriodS(),
+                a.linesPerFrame());
         List<StimulusSpec> stimuli = config.stimuli();
         if (stimulusXPx != null) {
             if (stimuli.size() > 1) {
