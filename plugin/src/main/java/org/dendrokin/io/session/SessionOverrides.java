@@ -172,7 +172,9 @@ public record SessionOverrides(Integer channel, Integer structuralChannel, Motio
         }
     }
 
+    /** A pixel coordinate for people: at most three decimals, without trailing zeros. */
     private static String plain(double v) {
-        return v == Math.rint(v) && Math.abs(v) < 1e9 ? Long.toString((long) v) : Double.toString(v);
+        return java.math.BigDecimal.valueOf(v).setScale(3, java.math.RoundingMode.HALF_EVEN).stripTrailingZeros()
+                .toPlainString();
     }
 }
