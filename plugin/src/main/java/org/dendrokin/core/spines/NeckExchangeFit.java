@@ -108,7 +108,7 @@ final class NeckExchangeFit {
         List<double[]> again = new ArrayList<>();
         again.add(first.values());
         again.addAll(starts);
-        return ModelFit.fit(model, new FitData(values, sigma), again, options, progress);
+        return ModelFit.fit(model, new FitData(values, sigma, 1), again, options, progress);
     }
 
     /**

@@ -37,12 +37,12 @@ public record SpineSettings(boolean detect, double minDistanceUm, double maxDist
     }
 
     /**
-     * Detection on; heads 0.6 to 2.5 um from the path, disc radius 0.3 um, 5 noise standard deviations; the shaft
+     * Detection on; heads 0.8 to 2.5 um from the path, disc radius 0.3 um, 5 noise standard deviations; the shaft
      * averaged with weights of sd 0.3 um at each base; no loss inside the head; the stimulated spine looked for
      * within 1.5 um of the stimulus; profile intervals.
      */
     public static SpineSettings defaults() {
-        return new SpineSettings(true, 0.6, 2.5, 0.3, 5, 0.3, 0, 1.5, true);
+        return new SpineSettings(true, 0.8, 2.5, 0.3, 5, 0.3, 0, 1.5, true);
     }
 
     public SpineSettings withDetect(boolean on) {
