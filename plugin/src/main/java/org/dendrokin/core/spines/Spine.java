@@ -26,15 +26,18 @@ import org.dendrokin.core.fit.ParameterEstimate;
  * @param noiseSd                standard deviation of the head's dF/F0 over the baseline frames (1.4826 MAD)
  * @param peakDeltaF             largest dF/F0 of the head after the stimulus (3-frame moving average); NaN if
  *                               unknown
- * @param timeToPeakS            time from the stimulus to that peak, s
+ * @param timeToPeakS            time from the stimulus to that peak, s; NaN when the head did not respond (its peak
+ *                               less than 5 noise standard deviations of the 3-frame average)
  * @param decayTimeS             time from the peak until the head's dF/F0 (3-frame average) first falls to 1/e of
  *                               the peak, interpolated between frames, s; NaN when it does not within the movie
+ *                               or the head did not respond
  * @param exchange               the neck exchange fit, or null when none was made
  * @param notFitted              why there is no fit (empty when there is one)
  */
 public record Spine(int id, SpineSite site, double radiusUm, double positionUm, Side side, double offPathUm,
         double basePositionUm, double distanceFromStimulusUm, boolean stimulated, double[] headDeltaF,
-        double[] shaftDeltaF, double noiseSd, double peakDeltaF, double timeToPeakS, double decayTimeS, FitResult exchange, String notFitted) {
+        double[] shaftDeltaF, double noiseSd, double peakDeltaF, double timeToPeakS, double decayTimeS,
+        FitResult exchange, String notFitted) {
     public Spine {
         headDeltaF = headDeltaF.clone();
         shaftDeltaF = shaftDeltaF.clone();

@@ -257,7 +257,8 @@ public final class SpineAnalysis {
             driver.at(basePositionUm, base, null);
         }
         return new Spine(id, p.site, radiusUm, positionUm, side, offPathUm, basePositionUm, distance, stimulated, head,
-                base, noise, response.peak(), response.timeToPeakS(), response.decayTimeS(), fit, notFitted);
+                base, noise, response.peak(), headResponds ? response.timeToPeakS() : Double.NaN,
+                headResponds ? response.decayTimeS() : Double.NaN, fit, notFitted);
     }
 
     /** Warnings that speak of the spines as a whole. */

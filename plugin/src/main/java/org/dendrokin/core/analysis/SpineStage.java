@@ -1,0 +1,61 @@
+package org.dendrokin.core.analysis;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+
+import org.dendrokin.core.Progress;
+import org.dendrokin.core.preprocess.BleachCorrection;
+import org.dendrokin.core.preprocess.Preprocessing;
+import org.dendrokin.core.preprocess.Robust;
+import org.dendrokin.core.spines.SpineAnalysis;
+import org.dendrokin.core.spines.SpineInputs;
+
+/**
+ * The spines of a session, after its analysis: the heads are measured in the same movie, with the same background,
+ * bleaching correction and baseline frames as the shaft, and fitted against the shaft's dF/F0 kymograph
+ * ({@link SpineAnalysis}). Heads are found in the mean of the baseline frames of the structural channel when there is
+ * one (its image does not change with the signal), otherwise of the signal channel.
+ */
+public final class SpineStage {
+    private SpineStage() {
+    }
+
+    /**
+     * @param request  the session's analysis request (the movie and the path)
+     * @param a        the session's analysis
+     * @param spines   what was asked of the spines
+     * @param progress progress and cancellation
+     */
+    public static SpineOutcome run(AnalysisRequest request, AnalysisResult a, SpineRequest spines,
+            Progress progress) {
+        List<String> warnings = new ArrayList<>();
+        Preprocessing.Result pre = a.preprocessing();
+        float[] reference = request.structural() != null
+                ? SessionAnalysis.meanFrame(request.structural(), pre.baselineFirst(), pre.baselineLast())
+                : a.referenceImage();
+        double[] background = a.background().perFrame();
+        double[] along = a.background().alongPath();
+        if (along != null) {
+            // Heads lie beside the path, where the background along it is not known point by point: its median.
+            double extra = Robust.median(Arrays.stream(along).filter(Double::isFinite).toArray());
+            for (int f = 0; f < background.length; f++) {
+                background[f] += Double.isFinite(extra) ? extra : 0;
+            }
+        }
+        BleachCorrection.Result bleach = pre.bleach();
+        double tau = bleach.applied() ? bleach.timeConstant().value() : Double.NaN;
+        if (a.motion().corrected()) {
+            warnings.add("The path was moved with the specimen, but the spine heads were measured where they are in "
+                    + "the reference image; check that the motion is small against a head's size.");
+        }
+        Preprocessing.Stimulus s = a.stimulus();
+        SpineInputs in = new SpineInputs(reference, request.signal(), request.path(), request.pixelSizeUm(),
+                request.pathWidthUm(), pre.deltaF().kymograph(), background, tau, pre.baselineFirst(),
+                pre.baselineLast(), s.known() ? s.timeS() : Double.NaN, s.known() ? s.positionUm() : Double.NaN,
+                spines.given());
+        SpineAnalysis.Result result = SpineAnalysis.run(in, spines.settings(), progress);
+        warnings.addAll(result.warnings());
+        return new SpineOutcome(spines, result, warnings);
+    }
+}
