@@ -3,8 +3,10 @@ package org.dendrokin.core.analysis;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import java.util.Locale;
 
 import org.dendrokin.core.Progress;
+import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.core.preprocess.BleachCorrection;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.preprocess.Robust;
@@ -45,9 +47,11 @@ public final class SpineStage {
         }
         BleachCorrection.Result bleach = pre.bleach();
         double tau = bleach.applied() ? bleach.timeConstant().value() : Double.NaN;
-        if (a.motion().corrected()) {
-            warnings.add("The path was moved with the specimen, but the spine heads were measured where they are in "
-                    + "the reference image; check that the motion is small against a head's size.");
+        if (a.motion().corrected() && largestShiftUm(a.motion().trace()) > spines.settings().headRadiusUm() / 2) {
+            warnings.add(String.format(Locale.ROOT, "The specimen moved by up to %.2g um and the path was moved with "
+                    + "it, but the spine heads were measured where they are in the reference image; a head that moves "
+                    + "by more than half its radius (%.2g um) loses part of its light.",
+                    largestShiftUm(a.motion().trace()), spines.settings().headRadiusUm() / 2));
         }
         Preprocessing.Stimulus s = a.stimulus();
         SpineInputs in = new SpineInputs(reference, request.signal(), request.path(), request.pixelSizeUm(),
@@ -57,5 +61,16 @@ public final class SpineStage {
         SpineAnalysis.Result result = SpineAnalysis.run(in, spines.settings(), progress);
         warnings.addAll(result.warnings());
         return new SpineOutcome(spines, result, warnings);
+    }
+
+    /** Largest measured shift of any frame, um. */
+    private static double largestShiftUm(MotionTrace t) {
+        double[] dx = t.dxUm();
+        double[] dy = t.dyUm();
+        double most = 0;
+        for (int f = 0; f < dx.length; f++) {
+            most = Math.max(most, Math.hypot(dx[f], dy[f]));
+        }
+        return most;
     }
 }

@@ -77,7 +77,7 @@ class SpineNeckRecoveryTest {
     @Test
     void neckTimeConstantsOfRealisticMoviesAreRecovered() {
         // REF: Svoboda, Tank & Denk 1996, Science 272:716 (spine head as a compartment coupled to the dendrite through
-        // its neck, one exchange time constant) [published]; the truth comes from the generator's own integration.
+        // its neck, one exchange time constant) [from memory; fairly sure]; truth from the generator's integration.
         Tally[] t = run(true);
         System.out.println("neck recovery, blur 0.17 um: stimulated spine: " + t[0] + "; other spines: " + t[1]);
         // The stimulated spine is found as such and its neck time constant recovered within 20% in >= 90% of seeds.
@@ -95,7 +95,7 @@ class SpineNeckRecoveryTest {
 
     @Test
     void withoutBlurIntervalsHoldTheTruthInNineOfTen() {
-        // REF: Svoboda, Tank & Denk 1996, Science 272:716 [published]; truth from the generator's integration.
+        // REF: Svoboda, Tank & Denk 1996, Science 272:716 [from memory; fairly sure]; truth from the generator.
         Tally[] t = run(false);
         System.out.println("neck recovery, no blur: stimulated spine: " + t[0] + "; other spines: " + t[1]);
         assertTrue(t[0].fitted >= 0.9 * SEEDS, "stimulated spine found and fitted: " + t[0]);
