@@ -1,6 +1,7 @@
 package org.dendrokin.core.spines;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 
 import org.apache.commons.math3.linear.Array2DRowRealMatrix;
@@ -50,9 +51,9 @@ final class NeckExchangeFit {
             Progress progress) {
         NeckExchangeModel model = new NeckExchangeModel(timesS, shaft, projectionUm, offsetSdUm, stimulusTimeS,
                 kHeadPerS, jump);
-        double[] values = java.util.Arrays.copyOf(head, model.size());
+        double[] values = Arrays.copyOf(head, model.size());
         double[] sigma = new double[model.size()];
-        java.util.Arrays.fill(sigma, noiseSd);
+        Arrays.fill(sigma, noiseSd);
         sigma[head.length] = offsetSdUm;
         sigma[head.length + 1] = NeckExchangeModel.LIGHT_SD;
         FitData data = new FitData(values, sigma);

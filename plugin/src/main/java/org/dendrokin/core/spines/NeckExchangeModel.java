@@ -1,6 +1,7 @@
 package org.dendrokin.core.spines;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 
 import org.dendrokin.core.Checks;
@@ -333,13 +334,13 @@ final class NeckExchangeModel implements FitModel {
         values[n] = offset;
         if (jacobian != null) {
             int row = n * p;
-            java.util.Arrays.fill(jacobian, row, row + p, 0);
+            Arrays.fill(jacobian, row, row + p, 0);
             jacobian[row + 1] = 1;
         }
         values[n + 1] = light;
         if (jacobian != null) {
             int row = (n + 1) * p;
-            java.util.Arrays.fill(jacobian, row, row + p, 0);
+            Arrays.fill(jacobian, row, row + p, 0);
             jacobian[row + 4] = 1;
         }
     }

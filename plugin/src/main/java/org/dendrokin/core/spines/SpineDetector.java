@@ -3,8 +3,10 @@ package org.dendrokin.core.spines;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Comparator;
+import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.path.DendritePath;
@@ -260,7 +262,7 @@ public final class SpineDetector {
         int n = area.size();
         double[] residual = new double[n];
         Arrays.fill(residual, Double.NaN);
-        java.util.Map<Long, List<Integer>> bands = new java.util.HashMap<>();
+        Map<Long, List<Integer>> bands = new HashMap<>();
         for (int a = 0; a < n; a++) {
             if (!Double.isFinite(value[a])) {
                 continue;
