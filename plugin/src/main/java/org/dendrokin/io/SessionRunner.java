@@ -174,7 +174,8 @@ public final class SessionRunner {
                     movie.pixelSizeUm(), movie.frameIntervalS(), config.pathWidthUm(),
                     background(config, sessionDir, frames), SessionCalibration.request(calibration, lifetime),
                     config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
-                    acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()));
+                    acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()),
+                    acq.linePeriodS(movie.frameIntervalS()));
             SpineRequest spineRequest = spineConfig == null ? null
                     : spineConfig.request(sessionDir, frames.width(), frames.height());
             try (lifetime) {
