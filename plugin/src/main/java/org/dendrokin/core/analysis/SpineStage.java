@@ -45,8 +45,7 @@ public final class SpineStage {
                 background[f] += Double.isFinite(extra) ? extra : 0;
             }
         }
-        BleachCorrection.Result bleach = pre.bleach();
-        double tau = bleach.applied() ? bleach.timeConstant().value() : Double.NaN;
+        double[] bleach = bleachCurve(pre.bleach(), a.signal().timesS());
         if (a.motion().corrected() && largestShiftUm(a.motion().trace()) > spines.settings().headRadiusUm() / 2) {
             warnings.add(String.format(Locale.ROOT, "The specimen moved by up to %.2g um and the path was moved with "
                     + "it, but the spine heads were measured where they are in the reference image; a head that moves "
@@ -55,12 +54,32 @@ public final class SpineStage {
         }
         Preprocessing.Stimulus s = a.stimulus();
         SpineInputs in = new SpineInputs(reference, request.signal(), request.path(), request.pixelSizeUm(),
-                request.pathWidthUm(), pre.deltaF().kymograph(), background, tau, pre.baselineFirst(),
+                request.pathWidthUm(), pre.deltaF().kymograph(), background, bleach, pre.baselineFirst(),
                 pre.baselineLast(), s.known() ? s.timeS() : Double.NaN, s.known() ? s.positionUm() : Double.NaN,
                 spines.given());
         SpineAnalysis.Result result = SpineAnalysis.run(in, spines.settings(), progress);
         warnings.addAll(result.warnings());
         return new SpineOutcome(spines, result, warnings);
+    }
+
+    /**
+     * The curve the shaft's frames were divided by, as {@link BleachCorrection} made it: exp(-(t - t_0) / tau), or
+     * f exp(-(t - t_0) / tau1) + (1 - f) exp(-(t - t_0) / tau2) when it corrected two phases; null when it did not
+     * correct.
+     */
+    private static double[] bleachCurve(BleachCorrection.Result b, double[] timesS) {
+        if (!b.applied() || b.timeConstant() == null) {
+            return null;
+        }
+        double[] out = new double[timesS.length];
+        double slow = b.timeConstant().value();
+        for (int f = 0; f < timesS.length; f++) {
+            double u = timesS[f] - timesS[0];
+            out[f] = b.fastPhase() == null ? Math.exp(-u / slow)
+                    : b.fastPhase().fraction() * Math.exp(-u / b.fastPhase().timeConstant().value())
+                            + (1 - b.fastPhase().fraction()) * Math.exp(-u / slow);
+        }
+        return out;
     }
 
     /** Largest measured shift of any frame, um. */

@@ -128,10 +128,10 @@ public final class SpineAnalysis {
         }
         double[][] means = HeadTraces.means(in.frames(), discs, progress);
 
-        double[] bleach = new double[times.length];
-        for (int f = 0; f < times.length; f++) {
-            double tau = in.bleachTimeConstantS();
-            bleach[f] = Double.isFinite(tau) && tau > 0 ? Math.exp(-(times[f] - times[0]) / tau) : 1;
+        double[] bleach = in.bleachPerFrame();
+        if (bleach == null) {
+            bleach = new double[times.length];
+            Arrays.fill(bleach, 1);
         }
         double[] background = in.backgroundPerFrame();
         List<Spine> spines = new ArrayList<>();

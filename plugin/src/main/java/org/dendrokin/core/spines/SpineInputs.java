@@ -22,8 +22,8 @@ import org.dendrokin.core.path.DendritePath;
  * @param shaft               the shaft's dF/F0 kymograph (one row a frame of {@code frames}); positions in um from the
  *                            path's first vertex
  * @param backgroundPerFrame  the background subtracted from each frame, grey values. Not modified.
- * @param bleachTimeConstantS the bleaching time constant the shaft was corrected with, s (frame f divided by
- *                            exp(-(t_f - t_0) / tau)); infinite or NaN when no correction was applied
+ * @param bleachPerFrame      the bleaching curve b(t_f) the shaft's frames were divided by (dimensionless, 1 at the
+ *                            first frame), or null when no correction was applied. Not modified.
  * @param baselineFirst       first baseline frame (F0), 0-based inclusive
  * @param baselineLast        last baseline frame, inclusive
  * @param stimulusTimeS       stimulus time, s, or NaN when not known
@@ -31,7 +31,7 @@ import org.dendrokin.core.path.DendritePath;
  * @param given               heads the user gave (points or ovals), in pixel coordinates; may be empty
  */
 public record SpineInputs(float[] referenceImage, FrameSource frames, DendritePath path, double pixelSizeUm,
-        double pathWidthUm, Kymograph shaft, double[] backgroundPerFrame, double bleachTimeConstantS,
+        double pathWidthUm, Kymograph shaft, double[] backgroundPerFrame, double[] bleachPerFrame,
         int baselineFirst, int baselineLast, double stimulusTimeS, double stimulusPositionUm,
         List<SpineSite> given) {
     public SpineInputs {
@@ -49,13 +49,21 @@ public record SpineInputs(float[] referenceImage, FrameSource frames, DendritePa
                 "baseline frames [" + baselineFirst + ", " + baselineLast + "] must lie within the movie");
         Checks.require(Double.isFinite(stimulusTimeS) == Double.isFinite(stimulusPositionUm),
                 "the stimulus needs both its time and its position, or neither");
+        Checks.require(bleachPerFrame == null || bleachPerFrame.length == frames.frameCount(),
+                "one bleaching factor per frame is needed");
         backgroundPerFrame = backgroundPerFrame.clone();
+        bleachPerFrame = bleachPerFrame == null ? null : bleachPerFrame.clone();
         given = given == null ? List.of() : List.copyOf(given);
     }
 
     @Override
     public double[] backgroundPerFrame() {
         return backgroundPerFrame.clone();
+    }
+
+    @Override
+    public double[] bleachPerFrame() {
+        return bleachPerFrame == null ? null : bleachPerFrame.clone();
     }
 
     /** True when the stimulus time and position are known. */

@@ -71,10 +71,21 @@ final class SyntheticSpines {
         java.util.Arrays.fill(background, bg);
         Preprocessing.Result pre = Preprocessing.run(extraction.kymograph(), background,
                 new Preprocessing.Options(t.stimulus().timeS(), t.stimulus().pathPositionUm(), null, true));
-        double tau = pre.bleach().applied() ? pre.bleach().timeConstant().value() : Double.NaN;
+        double[] bleach = null;
+        if (pre.bleach().applied()) {
+            // The curve the shaft was divided by, one or two phases, as the session's spine stage takes it.
+            double slow = pre.bleach().timeConstant().value();
+            var fast = pre.bleach().fastPhase();
+            bleach = new double[frames.frameCount()];
+            for (int f = 0; f < bleach.length; f++) {
+                double u = f * dt;
+                bleach[f] = fast == null ? Math.exp(-u / slow) : fast.fraction()
+                        * Math.exp(-u / fast.timeConstant().value()) + (1 - fast.fraction()) * Math.exp(-u / slow);
+            }
+        }
         float[] reference = meanFrame(frames, pre.baselineFirst(), pre.baselineLast());
         SpineInputs in = new SpineInputs(reference, frames, path, px, width, pre.deltaF().kymograph(), background,
-                tau, pre.baselineFirst(), pre.baselineLast(), t.stimulus().timeS(), t.stimulus().pathPositionUm(),
+                bleach, pre.baselineFirst(), pre.baselineLast(), t.stimulus().timeS(), t.stimulus().pathPositionUm(),
                 given);
         return new SyntheticSpines(r, in);
     }
