@@ -39,7 +39,7 @@ public class Spine_Table implements PlugIn {
             }
             Path dir = Path.of(folder);
             Tables.show(table(dir.resolve(SpineOutputs.SPINES_CSV)), "Dendrokin spines "
-                    + dir.toAbsolutePath().normalize().getFileName());
+                    + dir.toAbsolutePath().normalize().getFileName(), Display.anchor());
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
         }
