@@ -100,6 +100,7 @@ public final class SessionRunner {
      * @throws InputException for bad input, naming the file
      */
     public static Result analyze(Path sessionDir, Path outDir, Progress progress) {
+        OutputFolder.check(outDir, sessionDir);
         if (!Files.isDirectory(sessionDir)) {
             throw new InputException(sessionDir, "is not a folder");
         }
@@ -145,13 +146,17 @@ public final class SessionRunner {
             try {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {
-                Path file = e.subject() == AnalysisInputException.Subject.PATH ? pathFile : sessionFile;
+                Path file = switch (e.subject()) {
+                    case PATH -> pathFile;
+                    case MOVIE -> movieFile;
+                    case SETTINGS -> sessionFile;
+                };
                 throw new InputException(file, e.getMessage(), e);
             }
         }
         progress.checkCancelled();
-        Path report = SessionOutputs.write(outDir, inputs, analysis, progress);
-        return new Result(inputs, analysis, outDir, report);
+        OutputFolder.fill(outDir, dir -> SessionOutputs.write(dir, inputs, analysis, progress));
+        return new Result(inputs, analysis, outDir, outDir.resolve(REPORT_HTML));
     }
 
     /** The fit settings of session.json as the analysis takes them. */

@@ -1,0 +1,233 @@
+package org.dendrokin.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.Arrays;
+import java.util.List;
+import java.util.stream.Stream;
+
+import org.dendrokin.io.demo.DemoSessionGenerator;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+import com.google.gson.JsonObject;
+import com.google.gson.JsonParser;
+
+import ij.IJ;
+import ij.ImagePlus;
+import ij.ImageStack;
+import ij.io.FileSaver;
+import ij.measure.Calibration;
+import ij.process.ShortProcessor;
+
+/**
+ * The malformed and unusual inputs users bring, one test each, run through the command line: each is refused with
+ * exit status 2 and one sentence naming the file and the problem, before anything is written, or analysed with a
+ * warning; never an internal error.
+ */
+class MalformedInputsTest {
+    private static final DemoSessionGenerator.Scenario TINY = new DemoSessionGenerator.Scenario(64, 32, 40, 0.25, 1.0,
+            9.5, 6.0, 0.5, 0.05, 1.0, 1.5, 600, 100, 200, 3, 5L);
+
+    @TempDir
+    static Path dir;
+    static Path good;
+
+    @BeforeAll
+    static void makeSession() {
+        good = dir.resolve("good");
+        DemoSessionGenerator.write(good, TINY);
+    }
+
+    record Run(int status, String out, String err) {
+    }
+
+    static Run run(String... args) {
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        int status = Main.run(args, new PrintStream(out, true, StandardCharsets.UTF_8),
+                new PrintStream(err, true, StandardCharsets.UTF_8));
+        return new Run(status, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
+    }
+
+    /** Exit status 2 and the one sentence stderr ends with (the progress line, rewritten in place, left out). */
+    static String refusal(String... args) {
+        Run r = run(args);
+        assertEquals(Main.BAD_INPUT, r.status(), "exit status; stderr: " + r.err());
+        String message = Arrays.stream(r.err().split("\n")).map(l -> l.substring(l.lastIndexOf('\r') + 1))
+                .filter(l -> !l.isBlank()).reduce("", (a, b) -> a.isEmpty() ? b : a + "\n" + b).trim();
+        assertEquals(1, message.lines().count(), "one line: " + message);
+        assertFalse(message.contains("Exception") || message.contains("Internal error"), message);
+        return message;
+    }
+
+    static Path session(String name, String sessionJson) throws IOException {
+        Path s = dir.resolve(name);
+        Files.createDirectories(s);
+        for (String f : new String[] {"dendrite.tif", "dendrite.roi"}) {
+            Files.copy(good.resolve(f), s.resolve(f));
+        }
+        Files.writeString(s.resolve("session.json"), sessionJson);
+        return s;
+    }
+
+    static List<String> listing(Path folder) throws IOException {
+        try (Stream<Path> files = Files.walk(folder)) {
+            return files.map(p -> folder.relativize(p).toString()).sorted().toList();
+        }
+    }
+
+    // ---- --out and the session folder
+
+    @Test
+    void outEqualToInsideOrLinkedToTheSessionFolderIsRefusedBeforeAnythingIsWritten() throws IOException {
+        Path s = session("out-session", "{}");
+        List<String> before = listing(s);
+        Path link = Files.createSymbolicLink(dir.resolve("link-to-session"), s);
+        for (Path out : new Path[] {s, s.resolve("results"), link, link.resolve("results"), s.resolve(".")}) {
+            String message = refusal("analyze", s.toString(), "--out", out.toString());
+            assertTrue(message.startsWith(out + ": "), "names --out first: " + message);
+            assertTrue(message.contains("session folder"), message);
+            assertEquals(before, listing(s), "nothing written into the session folder for --out " + out);
+        }
+    }
+
+    @Test
+    void batchOutInsideASessionFolderIsRefusedBeforeAnythingIsWritten() throws IOException {
+        Path root = dir.resolve("batch-root");
+        Path s = root.resolve("cell1");
+        Files.createDirectories(root);
+        Files.copy(good, s);
+        for (String f : new String[] {"dendrite.tif", "dendrite.roi", "session.json"}) {
+            Files.copy(good.resolve(f), s.resolve(f));
+        }
+        List<String> before = listing(root);
+        Path link = Files.createSymbolicLink(dir.resolve("link-to-cell1"), s);
+        for (Path out : new Path[] {s, s.resolve("out"), link}) {
+            String message = refusal("batch", root.toString(), "--out", out.toString());
+            assertTrue(message.startsWith(out + ": ") && message.contains("cell1"), message);
+            assertEquals(before, listing(root), "nothing written under the root for --out " + out);
+        }
+    }
+
+    @Test
+    void outThatIsAFileIsRefusedBeforeTheSessionIsRead() throws IOException {
+        Path file = Files.writeString(dir.resolve("not-a-folder.txt"), "x");
+        // The session is malformed too: the --out refusal coming first shows that --out is checked before reading.
+        Path s = session("out-file", "{\"path_width_um\": -1}");
+        String message = refusal("analyze", s.toString(), "--out", file.toString());
+        assertTrue(message.startsWith(file + ": ") && message.contains("not a folder"), message);
+        message = refusal("analyze", s.toString(), "--out", file.resolve("below").toString());
+        assertTrue(message.contains(file.toString()) && message.contains("not a folder"), message);
+        Path root = dir.resolve("out-file-root");
+        Files.createDirectories(root.resolve("cell"));
+        Files.writeString(root.resolve("cell/session.json"), "{}");
+        message = refusal("batch", root.toString(), "--out", file.toString());
+        assertTrue(message.startsWith(file + ": ") && message.contains("not a folder"), message);
+    }
+
+    // ---- paths and sizes
+
+    @Test
+    void aPathVertexFarOutsideTheMovieIsRefusedNamingThePathFile() throws IOException {
+        for (String far : new String[] {"1e12", "1e300"}) {
+            Path s = session("far-" + far, "{\"path\": \"path.csv\"}");
+            Path csv = Files.writeString(s.resolve("path.csv"), "x,y\n10,10\n40,12\n" + far + ",20\n");
+            String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-far-" + far).toString());
+            assertTrue(message.startsWith(csv + ": ") && message.contains("outside"), message);
+            assertFalse(Files.exists(dir.resolve("o-far-" + far)), "nothing written");
+        }
+    }
+
+    @Test
+    void aPathWiderThanTheMovieIsRefusedNamingTheKey() throws IOException {
+        Path s = session("wide", "{\"path_width_um\": 1e9}");
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-wide").toString());
+        assertTrue(message.startsWith(s.resolve("session.json") + ": ") && message.contains("\"path_width_um\""),
+                message);
+    }
+
+    @Test
+    void aStimulusBeyondTheEndOfThePathIsRefusedNamingTheKey() throws IOException {
+        Path s = session("stim-far", "{\"stimulus\": {\"time_s\": 9.5, \"position_um\": 500}}");
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-stim-far").toString());
+        assertTrue(message.startsWith(s.resolve("session.json") + ": ")
+                && message.contains("\"stimulus.position_um\"") && message.contains("um long"), message);
+    }
+
+    // ---- time
+
+    @Test
+    void aStimulusAfterTheLastFrameIsRefusedNamingTheKey() throws IOException {
+        // TINY: 40 frames 1 s apart, the last at 39 s.
+        for (String time : new String[] {"39", "500"}) {
+            Path s = session("stim-late-" + time, "{\"stimulus\": {\"time_s\": " + time + ", \"position_um\": 6}}");
+            String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-late-" + time).toString());
+            assertTrue(message.startsWith(s.resolve("session.json") + ": ")
+                    && message.contains("\"stimulus.time_s\"") && message.contains("39 s"), message);
+        }
+    }
+
+    @Test
+    void aSingleFrameMovieIsRefusedNamingTheMovie() throws IOException {
+        Path s = session("one-frame", "{}");
+        ImagePlus movie = IJ.openImage(s.resolve("dendrite.tif").toString());
+        ImagePlus first = new ImagePlus("one", movie.getStack().getProcessor(1));
+        first.setCalibration(movie.getCalibration());
+        new FileSaver(first).saveAsTiff(s.resolve("dendrite.tif").toString());
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-one").toString());
+        assertTrue(message.startsWith(s.resolve("dendrite.tif") + ": ") && message.contains("one frame"), message);
+    }
+
+    // ---- numerical trouble is a result with a warning
+
+    @Test
+    void ratioCalibrationOnFlatChannelsIsAnalysedWithAWarning() throws IOException {
+        Path s = dir.resolve("flat-ratio");
+        Files.createDirectories(s);
+        int w = 32;
+        int h = 16;
+        int frames = 20;
+        ImageStack stack = new ImageStack(w, h);
+        for (int f = 0; f < frames; f++) {
+            for (int value : new int[] {500, 400}) {
+                ShortProcessor p = new ShortProcessor(w, h);
+                p.setValue(value);
+                p.fill();
+                stack.addSlice(p);
+            }
+        }
+        ImagePlus imp = new ImagePlus("flat", stack);
+        imp.setDimensions(2, 1, frames);
+        imp.setOpenAsHyperStack(true);
+        Calibration cal = new Calibration();
+        cal.pixelWidth = 0.25;
+        cal.pixelHeight = 0.25;
+        cal.setUnit("micron");
+        cal.frameInterval = 0.5;
+        cal.setTimeUnit("sec");
+        imp.setCalibration(cal);
+        new FileSaver(imp).saveAsTiffStack(s.resolve("flat.tif").toString());
+        Files.writeString(s.resolve("path.csv"), "x,y\n2,8\n30,8\n");
+        Files.writeString(s.resolve("session.json"), """
+                {"movie": "flat.tif", "path": "path.csv", "background": {"value": 100},
+                 "stimulus": {"time_s": 4, "position_um": 3},
+                 "calibration": {"method": "ratio", "kd_uM": 0.224, "r_min": 0.3, "r_max": 6, "beta": 5}}
+                """);
+        Path out = dir.resolve("o-flat-ratio");
+        Run r = run("analyze", s.toString(), "--out", out.toString());
+        assertEquals(Main.OK, r.status(), r.err());
+        JsonObject results = JsonParser.parseString(Files.readString(out.resolve("results.json"))).getAsJsonObject();
+        assertTrue(results.getAsJsonArray("warnings").toString().contains("spread measures are not available"),
+                results.getAsJsonArray("warnings").toString());
+    }
+}
