@@ -32,7 +32,6 @@ import org.dendrokin.io.session.SessionInputs;
 import org.dendrokin.io.session.SessionOutputs;
 
 import ij.gui.Roi;
-import ij.io.RoiDecoder;
 
 /**
  * One session folder in, one output folder out: reads session.json, the movie and the path and checks them;
@@ -180,13 +179,8 @@ public final class SessionRunner {
         if (!Files.isRegularFile(roiFile)) {
             throw new InputException(roiFile, "the background ROI named in session.json is not in the session folder");
         }
-        Roi roi;
-        try {
-            roi = RoiDecoder.open(roiFile.toString());
-        } catch (RuntimeException e) {
-            roi = null;
-        }
-        if (roi == null || !roi.isArea()) {
+        Roi roi = PathFiles.readRoi(roiFile);
+        if (!roi.isArea()) {
             throw new InputException(roiFile, "is not an ImageJ area ROI (rectangle, oval, polygon or freehand area)");
         }
         List<java.awt.Point> inside = new ArrayList<>();

@@ -437,7 +437,7 @@ final class MovieLayout {
 
     private static InputException truncated(Path file, long promised, long present) {
         return new InputException(file, "the TIFF is truncated: its header promises " + promised
-                + " images but the file holds only " + present + " complete ones");
+                + " images but the file holds only " + present + (present == 1 ? " complete one" : " complete ones"));
     }
 
     private static long fileSize(Path file) {
