@@ -33,6 +33,8 @@ import org.dendrokin.io.InputException;
  * arguments.
  */
 public final class Movie implements AutoCloseable {
+    /** Bytes of working memory a frame's pixel needs while it is read and averaged (see {@link #checkFrameSize}). */
+    private static final int BYTES_PER_PIXEL_READ = 16;
     private final Path file;
     private final int width;
     private final int height;
@@ -76,6 +78,7 @@ public final class Movie implements AutoCloseable {
         MovieLayout layout = MovieLayout.read(file, intel);
         PlaneStore planes = null;
         try {
+            checkFrameSize(file, layout.width, layout.height, layout.samplesPerPixel());
             List<String> warnings = new ArrayList<>(layout.warnings);
             double pixel = pixelSizeUm != null ? overrideValue(file, pixelSizeUm, "pixel_size_um")
                     : layout.pixelSizeUm;
@@ -106,6 +109,26 @@ public final class Movie implements AutoCloseable {
                 planes.close();
             }
             throw e;
+        }
+    }
+
+    /**
+     * Refuses a frame too large to read before any buffer for it is made: the header's size decides how much a
+     * frame's decoding allocates, and a damaged or foreign header can claim 100000 x 100000 pixels over a few bytes
+     * of compressed data. Reading and averaging a frame holds it about four times over as 32-bit values (the decoded
+     * samples, a float copy, the running mean of the path picture and its buffer; every sample of a pixel when the
+     * reader decodes them together), hence the factor
+     * {@value #BYTES_PER_PIXEL_READ}.
+     */
+    private static void checkFrameSize(Path file, int width, int height, int samples) {
+        long pixels = (long) width * height * samples;
+        long needed = pixels * BYTES_PER_PIXEL_READ;
+        long heap = Runtime.getRuntime().maxMemory();
+        if (pixels > Integer.MAX_VALUE / 4 || needed > heap) {
+            throw new InputException(file, String.format(Locale.ROOT, "the TIFF header gives frames of %d x %d "
+                    + "pixels, and reading one needs about %d MB, more than the %d MB this Java may use; if the size "
+                    + "is right, run Java with more memory (-Xmx) or crop the movie", width, height, needed >> 20,
+                    heap >> 20));
         }
     }
 

@@ -95,6 +95,11 @@ final class MovieLayout {
         return storePlane == null ? index : storePlane[index];
     }
 
+    /** Grey samples in each pixel (each a channel); 1 for ImageJ's reader. */
+    int samplesPerPixel() {
+        return samples;
+    }
+
     /** Reads the header, choosing the reader, and refuses what cannot be read correctly. */
     static MovieLayout read(Path file, boolean intelHeader) {
         JavaTiff tiff = null;
