@@ -26,8 +26,9 @@ import org.dendrokin.io.InputException;
  * <p>Frames are read by channel and time point. A movie with several slices and one frame is read as a time
  * series (with a warning); one with several slices and several frames is refused.
  *
- * <p>Checks made on opening, each an {@link InputException} naming the file: the file is not a TIFF; the file
- * is shorter than its header promises (ImageJ's own reader would silently return fewer frames); the samples
+ * <p>Checks made on opening, each an {@link InputException} naming the file: the file is not a TIFF; an entry of
+ * its directories claims more values than the file holds ({@link TiffBounds}); the file is shorter than its header
+ * promises (ImageJ's own reader would silently return fewer frames); the samples
  * are colour (RGB) or of a type or compression that cannot be read correctly; a 32-bit movie holds only NaN in the
  * first, middle and last frames of every channel; the pixel size or frame interval is in neither the TIFF nor the
  * arguments.
@@ -75,6 +76,7 @@ public final class Movie implements AutoCloseable {
      */
     public static Movie open(Path file, Double pixelSizeUm, Double frameIntervalS) {
         boolean intel = checkIsTiff(file);
+        TiffBounds.check(file, intel);
         MovieLayout layout = MovieLayout.read(file, intel);
         PlaneStore planes = null;
         try {

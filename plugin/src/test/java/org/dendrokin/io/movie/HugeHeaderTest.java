@@ -43,6 +43,43 @@ class HugeHeaderTest {
         return b.array();
     }
 
+    /** Sets the count of every entry of {@code tag} in every directory. */
+    private static byte[] count(byte[] tiff, int tag, int count) {
+        ByteBuffer b = ByteBuffer.wrap(tiff.clone()).order(tiff[0] == 'I' ? ByteOrder.LITTLE_ENDIAN
+                : ByteOrder.BIG_ENDIAN);
+        long ifd = b.getInt(4) & 0xffffffffL;
+        while (ifd != 0) {
+            int n = b.getShort((int) ifd) & 0xffff;
+            for (int i = 0; i < n; i++) {
+                int at = (int) ifd + 2 + 12 * i;
+                if ((b.getShort(at) & 0xffff) == tag) {
+                    b.putInt(at + 4, count);
+                }
+            }
+            ifd = b.getInt((int) ifd + 2 + 12 * n) & 0xffffffffL;
+        }
+        return b.array();
+    }
+
+    @Test
+    void anEntryClaimingMoreValuesThanTheFileHoldsIsRefusedBeforeAReaderAllocatesThem() throws IOException {
+        double[][][] images = new double[2][1][8 * 8];
+        byte[] description = "ImageJ=1.54p\nimages=2\nframes=2\n".getBytes(java.nio.charset.StandardCharsets.US_ASCII);
+        Path small = SmallTiffWriter.write(dir.resolve("described.tif"), SmallTiffWriter.Format.of(16, 1)
+                .description(description), 8, 8, images);
+        // ImageJ's decoder would allocate the description (2^31 - 16 bytes: over the VM's array limit) and the
+        // strip tables (int[2^30]: 4 GB) before reading them.
+        int[][] claims = {{270, Integer.MAX_VALUE - 16}, {273, 1 << 30}, {279, 1 << 30}};
+        for (int[] claim : claims) {
+            Path damaged = Files.write(dir.resolve("count" + claim[0] + ".tif"),
+                    count(Files.readAllBytes(small), claim[0], claim[1]));
+            InputException e = assertThrows(InputException.class, () -> Movie.open(damaged, 0.2, 0.5).close());
+            assertTrue(e.getMessage().startsWith(damaged + ": the TIFF is damaged: tag " + claim[0] + " of image 1"),
+                    e.getMessage());
+        }
+        Movie.open(small, 0.2, 0.5).close();
+    }
+
     @Test
     void aCompressedTiffClaimingAHugeFrameIsRefusedBeforeItIsRead() throws IOException {
         double[][][] images = new double[3][1][8 * 8];
