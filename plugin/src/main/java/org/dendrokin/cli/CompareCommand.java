@@ -3,6 +3,7 @@ package org.dendrokin.cli;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 
+import org.dendrokin.io.OutputFolder;
 import org.dendrokin.io.fit.ModelComparisonRun;
 
 import picocli.CommandLine.Command;
@@ -35,6 +36,7 @@ final class CompareCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
+        OutputFolder.check(out);
         ModelComparisonRun.Result r = ModelComparisonRun.run(kymograph, model, signalUnit, out);
         spec.commandLine().getOut().println(ModelComparisonRun.summary(r, signalUnit));
         r.warnings().forEach(w -> spec.commandLine().getOut().println("warning: " + w));
