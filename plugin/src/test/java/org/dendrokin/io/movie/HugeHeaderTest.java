@@ -24,15 +24,22 @@ class HugeHeaderTest {
 
     /** Sets ImageWidth (256) and ImageLength (257) of every directory to the given values (LONG, count 1). */
     private static byte[] claim(byte[] tiff, int width, int height) {
+        return claim(tiff, width, height, 1);
+    }
+
+    /** The same from the image {@code from} (counted from 1) on. */
+    private static byte[] claim(byte[] tiff, int width, int height, int from) {
         ByteBuffer b = ByteBuffer.wrap(tiff.clone()).order(tiff[0] == 'I' ? ByteOrder.LITTLE_ENDIAN
                 : ByteOrder.BIG_ENDIAN);
         long ifd = b.getInt(4) & 0xffffffffL;
+        int image = 0;
         while (ifd != 0) {
+            image++;
             int count = b.getShort((int) ifd) & 0xffff;
             for (int i = 0; i < count; i++) {
                 int at = (int) ifd + 2 + 12 * i;
                 int tag = b.getShort(at) & 0xffff;
-                if (tag == 256 || tag == 257) {
+                if (image >= from && (tag == 256 || tag == 257)) {
                     b.putShort(at + 2, (short) 4);
                     b.putInt(at + 4, 1);
                     b.putInt(at + 8, tag == 256 ? width : height);
@@ -93,6 +100,20 @@ class HugeHeaderTest {
                     claim(Files.readAllBytes(small), 100_000, 100_000));
             InputException e = assertThrows(InputException.class, () -> Movie.open(huge, 0.2, 0.5).close());
             assertTrue(e.getMessage().startsWith(huge + ": ") && e.getMessage().contains("100000 x 100000"),
+                    e.getMessage());
+        }
+    }
+
+    @Test
+    void aLaterImageClaimingAHugeFrameIsRefusedBeforeItIsRead() throws IOException {
+        double[][][] images = new double[3][1][8 * 8];
+        for (int compression : new int[] {SmallTiffWriter.NONE, SmallTiffWriter.DEFLATE}) {
+            Path small = SmallTiffWriter.write(dir.resolve("three" + compression + ".tif"),
+                    SmallTiffWriter.Format.of(16, 1).compressed(compression, 1), 8, 8, images);
+            Path huge = Files.write(dir.resolve("later" + compression + ".tif"),
+                    claim(Files.readAllBytes(small), 100_000, 100_000, 2));
+            InputException e = assertThrows(InputException.class, () -> Movie.open(huge, 0.2, 0.5).close());
+            assertTrue(e.getMessage().startsWith(huge + ": image 2 of the TIFF is 100000 x 100000 pixels"),
                     e.getMessage());
         }
     }
