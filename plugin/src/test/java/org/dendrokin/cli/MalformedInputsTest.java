@@ -7,6 +7,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.PrintStream;
+import java.nio.ByteBuffer;
+import java.nio.ByteOrder;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -135,6 +137,24 @@ class MalformedInputsTest {
         assertTrue(message.startsWith(file + ": ") && message.contains("not a folder"), message);
     }
 
+    @Test
+    void aBatchIntoAnOutputFolderAnotherBatchWritesIsRefusedNamingTheLock() throws IOException {
+        Path root = dir.resolve("locked-root");
+        Files.createDirectories(root.resolve("cell1"));
+        for (String f : new String[] {"dendrite.tif", "dendrite.roi", "session.json"}) {
+            Files.copy(good.resolve(f), root.resolve("cell1").resolve(f));
+        }
+        Path out = Files.createDirectories(dir.resolve("locked-out"));
+        // A lock as a running batch on this machine writes it: this very process, so it is alive.
+        Path lock = Files.writeString(out.resolve("batch.lock"), "{\"pid\": " + ProcessHandle.current().pid()
+                + ", \"host\": \"" + java.net.InetAddress.getLocalHost().getHostName()
+                + "\", \"started\": \"2026-12-04T10:00:00Z\"}\n");
+        String message = refusal("batch", root.toString(), "--out", out.toString());
+        assertTrue(message.startsWith(lock + ": another batch is writing into this output folder (process "
+                + ProcessHandle.current().pid()), message);
+        assertEquals(List.of("", "batch.lock"), listing(out), "nothing else written");
+    }
+
     // ---- paths and sizes
 
     @Test
@@ -186,6 +206,74 @@ class MalformedInputsTest {
         new FileSaver(first).saveAsTiff(s.resolve("dendrite.tif").toString());
         String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-one").toString());
         assertTrue(message.startsWith(s.resolve("dendrite.tif") + ": ") && message.contains("one frame"), message);
+    }
+
+    // ---- damaged movies
+
+    @Test
+    void aMovieMarkedDeflateWhoseDataDoNotInflateIsRefusedNamingTheMovie() throws IOException {
+        Path s = session("not-deflate", "{}");
+        Path movie = s.resolve("dendrite.tif");
+        // The uncompressed file's Compression entries (tag 259) set to Deflate (8), the data left as they are.
+        // REF: TIFF 6.0 specification, section 2 (image file directory), and Adobe's TIFF Technical Note 2 [published]
+        byte[] b = Files.readAllBytes(movie);
+        ByteBuffer buf = ByteBuffer.wrap(b).order(b[0] == 'I' ? ByteOrder.LITTLE_ENDIAN : ByteOrder.BIG_ENDIAN);
+        int changed = 0;
+        for (long ifd = buf.getInt(4) & 0xffffffffL; ifd != 0; ) {
+            int count = buf.getShort((int) ifd) & 0xffff;
+            for (int i = 0; i < count; i++) {
+                int at = (int) ifd + 2 + 12 * i;
+                if ((buf.getShort(at) & 0xffff) == 259) {
+                    buf.putShort(at + 8, (short) 8);
+                    changed++;
+                }
+            }
+            ifd = buf.getInt((int) ifd + 2 + 12 * count) & 0xffffffffL;
+        }
+        assertTrue(changed > 0, "the movie has Compression entries");
+        Files.write(movie, b);
+        PrintStream systemOut = System.out;
+        ByteArrayOutputStream stray = new ByteArrayOutputStream();
+        System.setOut(new PrintStream(stray, true, StandardCharsets.UTF_8));
+        String message;
+        try {
+            message = refusal("analyze", s.toString(), "--out", dir.resolve("o-not-deflate").toString());
+        } finally {
+            System.setOut(systemOut);
+        }
+        assertTrue(message.startsWith(movie + ": ") && message.contains("do not inflate"), message);
+        assertEquals("", stray.toString(StandardCharsets.UTF_8), "nothing printed past the command line's streams");
+    }
+
+    // ---- model files that would not end or not fit
+
+    @Test
+    void aModelFileWhoseRunWouldTakeTrillionsOfStepsIsRefusedBeforeItStarts() throws IOException {
+        // D = 1e12 um^2/s on a 1 um stimulus: the step rule's w^2 / D term asks for steps of 5e-13 s.
+        Path model = Files.writeString(dir.resolve("huge-d.json"), """
+                {"model": "diffusion-decay", "parameters": {"D": 1e12, "k": 0.5},
+                 "domain": {"length_um": 10, "dx_um": 0.5}, "time": {"duration_s": 1, "output_interval_s": 0.25},
+                 "stimuli": [{"kind": "pulse", "time_s": 0.1, "position_um": 5, "width_um": 1, "amount": 1}]}
+                """);
+        String message = refusal("simulate", model.toString(), "--out", dir.resolve("o-huge-d").toString());
+        assertTrue(message.startsWith(model + ": ") && message.contains("time steps"), message);
+        assertFalse(Files.exists(dir.resolve("o-huge-d").resolve("kymograph.csv")), "no kymograph written");
+    }
+
+    @Test
+    void aModelFileWhoseGridCannotFitInTheHeapIsRefusedBeforeItAllocates() throws IOException {
+        // Twelve species on two million nodes: about 15 GB of solver rows, beyond the test's heap.
+        StringBuilder species = new StringBuilder();
+        for (int i = 0; i < 12; i++) {
+            species.append(i == 0 ? "" : ", ").append("{\"name\": \"S").append(i).append("\", \"D_um2_per_s\": 1}");
+        }
+        Path model = Files.writeString(dir.resolve("huge-grid.json"), "{\"model\": \"network\", \"network\":"
+                + " {\"species\": [" + species + "], \"reactions\": [{\"reactants\": {\"S0\": 1}, \"products\":"
+                + " {\"S1\": 1}, \"k\": 1}]}, \"domain\": {\"length_um\": 199999, \"dx_um\": 0.1},"
+                + " \"time\": {\"duration_s\": 1, \"output_interval_s\": 0.5}, \"stimuli\": [{\"kind\": \"pulse\","
+                + " \"time_s\": 0.1, \"position_um\": 5, \"width_um\": 1, \"amount\": 1}]}");
+        String message = refusal("simulate", model.toString(), "--out", dir.resolve("o-huge-grid").toString());
+        assertTrue(message.startsWith(model + ": ") && message.contains("MB") && message.contains("-Xmx"), message);
     }
 
     // ---- numerical trouble is a result with a warning
