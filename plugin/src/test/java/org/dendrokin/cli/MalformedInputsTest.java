@@ -208,6 +208,38 @@ class MalformedInputsTest {
         assertTrue(message.startsWith(s.resolve("dendrite.tif") + ": ") && message.contains("one frame"), message);
     }
 
+    // ---- acquisition keys that do not fit the movie
+
+    @Test
+    void aChannelTheMovieDoesNotHaveIsRefusedNamingTheKey() throws IOException {
+        // TINY is a one-channel movie.
+        Path s = session("channel-3", "{\"channel\": 3}");
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-channel-3").toString());
+        assertTrue(message.startsWith(s.resolve("session.json") + ": ") && message.contains("\"channel\"")
+                && message.contains("1 channel"), message);
+        assertFalse(Files.exists(dir.resolve("o-channel-3").resolve("results.json")), "no results");
+    }
+
+    @Test
+    void aStimulusSpotOutsideTheImageIsRefusedNamingTheKeys() throws IOException {
+        // TINY is 64 x 32 pixels.
+        for (String spot : new String[] {"\"x_px\": 500, \"y_px\": 10", "\"x_px\": 20, \"y_px\": -3"}) {
+            Path s = session("spot-" + spot.hashCode(), "{\"stimulus\": {\"time_s\": 9.5, " + spot + "}}");
+            String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-spot-" + spot.hashCode())
+                    .toString());
+            assertTrue(message.startsWith(s.resolve("session.json") + ": ") && message.contains("\"stimulus.x_px\"")
+                    && message.contains("outside the 64 x 32 pixel movie"), message);
+        }
+    }
+
+    @Test
+    void aNegativeLinePeriodIsRefusedNamingTheKey() throws IOException {
+        Path s = session("line-negative", "{\"line_period_s\": -0.001}");
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-line-negative").toString());
+        assertTrue(message.startsWith(s.resolve("session.json") + ": ") && message.contains("\"line_period_s\""),
+                message);
+    }
+
     // ---- damaged movies
 
     @Test

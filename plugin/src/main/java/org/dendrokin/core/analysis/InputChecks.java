@@ -1,10 +1,10 @@
 package org.dendrokin.core.analysis;
 
+import java.util.List;
 import java.util.Locale;
 
 import org.dendrokin.core.kymo.FrameSource;
 import org.dendrokin.core.path.DendritePath;
-import org.dendrokin.core.preprocess.Preprocessing;
 
 /**
  * Checks of an analysis request that need the movie's size and the path together, made before a pixel is read: each
@@ -17,7 +17,8 @@ import org.dendrokin.core.preprocess.Preprocessing;
  *       otherwise ask for 1e12 samples before the kymograph could show that they are outside);</li>
  *   <li>a band across the path wider than the image's diagonal;</li>
  *   <li>a kymograph of more than {@value #MAX_KYMOGRAPH_VALUES} values (frames times positions);</li>
- *   <li>a given stimulus beyond the end of the path, or at or after the last frame (no frame follows it).</li>
+ *   <li>a given stimulus at or after the last frame (no frame follows it), or given as a spot outside the image
+ *       (a stimulus beyond the end of the path is refused where the stimuli are placed, {@link Stimuli}).</li>
  * </ul>
  */
 final class InputChecks {
@@ -65,20 +66,24 @@ final class InputChecks {
                     + "%s an analysis can hold; draw a shorter path or analyse fewer frames", plain(path.lengthPx()),
                     frameCount, plain((double) positions * frameCount), plain(MAX_KYMOGRAPH_VALUES)));
         }
-        Preprocessing.Options given = request.preprocessing();
-        double lengthUm = path.lengthPx() * px;
-        if (given.stimulusPositionUm() != null && given.stimulusPositionUm() > lengthUm * (1 + 1e-9)) {
-            throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, String.format(Locale.ROOT,
-                    "key \"stimulus.position_um\" is %s um, beyond the end of the path, which is %s um long "
-                    + "(positions are measured along the path from its first point)",
-                    plain(given.stimulusPositionUm()), plain(lengthUm)));
-        }
         double lastS = (frameCount - 1) * dt;
-        if (given.stimulusTimeS() != null && given.stimulusTimeS() >= lastS - 1e-9 * dt) {
-            throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, String.format(Locale.ROOT,
-                    "key \"stimulus.time_s\" is %s s, but the movie's last frame is at %s s (%d frames %s s apart), "
-                    + "so no frame follows the stimulus", plain(given.stimulusTimeS()), plain(lastS), frameCount,
-                    plain(dt)));
+        List<StimulusSpec> stimuli = request.stimuli();
+        for (int i = 0; i < stimuli.size(); i++) {
+            StimulusSpec given = stimuli.get(i);
+            String name = stimuli.size() == 1 ? "stimulus" : "stimuli[" + i + "]";
+            if (given.timeS() != null && given.timeS() >= lastS - 1e-9 * dt) {
+                throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, String.format(Locale.ROOT,
+                        "key \"%s.time_s\" is %s s, but the movie's last frame is at %s s (%d frames %s s apart), "
+                        + "so no frame follows the stimulus", name, plain(given.timeS()), plain(lastS), frameCount,
+                        plain(dt)));
+            }
+            if (given.isSpot() && !(given.xPx() >= 0 && given.xPx() <= frames.width() && given.yPx() >= 0
+                    && given.yPx() <= frames.height())) {
+                throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, String.format(Locale.ROOT,
+                        "keys \"%s.x_px\" and \"%s.y_px\" place the stimulus spot at (%s, %s) px, outside the %d x"
+                        + " %d pixel movie", name, name, plain(given.xPx()), plain(given.yPx()), frames.width(),
+                        frames.height()));
+            }
         }
     }
 
