@@ -208,6 +208,43 @@ class MalformedInputsTest {
         assertTrue(message.startsWith(s.resolve("dendrite.tif") + ": ") && message.contains("one frame"), message);
     }
 
+    // ---- session.json and path files as editors save them
+
+    @Test
+    void aPathCsvWithAByteOrderMarkIsAnalysedAsTheSameCsvWithout() throws IOException {
+        String csv = "x,y\n4.5,16.5\n30.5,12.5\n58.5,16.5\n";
+        Path[] outs = new Path[2];
+        String[] prefixes = {"", "\uFEFF"};
+        for (int i = 0; i < 2; i++) {
+            Path s = session("bom-" + i, "{\"path\": \"path.csv\"}");
+            Files.writeString(s.resolve("path.csv"), prefixes[i] + csv);
+            outs[i] = dir.resolve("o-bom-" + i);
+            Run r = run("analyze", s.toString(), "--out", outs[i].toString());
+            assertEquals(Main.OK, r.status(), r.err());
+        }
+        // REF: the same CSV without the mark, as the reference; RFC 8259 section 8.1 and the Unicode FAQ treat a
+        // UTF-8 byte-order mark as a signature, not content [published]
+        assertEquals(Files.readString(outs[0].resolve("kymograph.csv")), Files.readString(outs[1]
+                .resolve("kymograph.csv")));
+    }
+
+    @Test
+    void aKeyGivenTwiceInSessionJsonIsRefusedNamingTheKey() throws IOException {
+        Path s = session("twice", "{\"path_width_um\": 1.0, \"path_width_um\": 2.0}");
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-twice").toString());
+        assertTrue(message.startsWith(s.resolve("session.json") + ": ") && message.contains("path_width_um"),
+                message);
+    }
+
+    @Test
+    void anUnknownModelNameInModelsIsRefusedNamingTheKey() throws IOException {
+        Path s = session("unknown-model", "{\"models\": [\"diffusion-decay\", \"no-such-model\"]}");
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-unknown-model").toString());
+        assertTrue(message.startsWith(s.resolve("session.json") + ": ") && message.contains("\"models\"")
+                && message.contains("no-such-model"), message);
+        assertFalse(Files.exists(dir.resolve("o-unknown-model")), "nothing written");
+    }
+
     // ---- acquisition keys that do not fit the movie
 
     @Test
