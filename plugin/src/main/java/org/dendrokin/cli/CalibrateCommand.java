@@ -44,7 +44,8 @@ final class CalibrateCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        OutputFolder.check(out);
+        // a calibration may be saved into the session folder that names it ("method": "file")
+        OutputFolder.checkWritable(out);
         Standards standards = StandardsCsv.read(table);
         CalibrationBuilder.Built built = CalibrationBuilder.fromStandards(standards, monotone, table,
                 String.valueOf(table.getFileName()), "--monotone");

@@ -54,15 +54,7 @@ public final class OutputFolder {
      */
     public static void check(Path outDir, Path... inputFolders) {
         Path abs = outDir.toAbsolutePath().normalize();
-        Path existing = abs;
-        while (existing.getParent() != null && !Files.exists(existing)) {
-            existing = existing.getParent();
-        }
-        if (!Files.isDirectory(existing)) {
-            throw new InputException(outDir, existing.equals(abs)
-                    ? "this is a file, not a folder, so the outputs cannot be written into it; give --out a folder"
-                    : existing + " is a file, not a folder, so the output folder cannot be made below it");
-        }
+        Path existing = existingFolder(outDir, abs);
         Path real = realPath(existing, outDir).resolve(existing.relativize(abs)).normalize();
         boolean linked = !real.equals(abs);
         for (Path input : inputFolders) {
@@ -78,6 +70,37 @@ public final class OutputFolder {
                 throw insideSession(outDir, p, p.equals(real), linked);
             }
         }
+        requireWritable(outDir, abs, existing);
+    }
+
+    /**
+     * Refuses an output folder that is a file, lies below a file or cannot be written, and nothing else: for outputs
+     * that belong in a session folder, as the calibration that session.json names with {@code "method": "file"}.
+     * Writes nothing.
+     *
+     * @param outDir the output folder as the user gave it; it need not exist
+     * @throws InputException naming {@code outDir}
+     */
+    public static void checkWritable(Path outDir) {
+        Path abs = outDir.toAbsolutePath().normalize();
+        requireWritable(outDir, abs, existingFolder(outDir, abs));
+    }
+
+    /** The output folder or its nearest existing ancestor, which must be a folder. */
+    private static Path existingFolder(Path outDir, Path abs) {
+        Path existing = abs;
+        while (existing.getParent() != null && !Files.exists(existing)) {
+            existing = existing.getParent();
+        }
+        if (!Files.isDirectory(existing)) {
+            throw new InputException(outDir, existing.equals(abs)
+                    ? "this is a file, not a folder, so the outputs cannot be written into it; give --out a folder"
+                    : existing + " is a file, not a folder, so the output folder cannot be made below it");
+        }
+        return existing;
+    }
+
+    private static void requireWritable(Path outDir, Path abs, Path existing) {
         if (!Files.isWritable(existing)) {
             throw new InputException(outDir, (existing.equals(abs) ? "this folder" : "the folder " + existing)
                     + " cannot be written by this user; give --out a folder you can write to");
