@@ -270,6 +270,15 @@ class MalformedInputsTest {
     }
 
     @Test
+    void aStimulusSpotOutsideTheImageGivenOnTheCommandLineIsRefusedNamingTheOption() throws IOException {
+        Path s = session("spot-option", "{\"stimulus\": {\"time_s\": 9.5}}");
+        String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-spot-option").toString(),
+                "--stimulus-xy", "500,10");
+        assertTrue(message.startsWith(s.resolve("dendrite.tif") + ": ") && message.contains("--stimulus-xy")
+                && message.contains("64 x 32"), message);
+    }
+
+    @Test
     void aNegativeLinePeriodIsRefusedNamingTheKey() throws IOException {
         Path s = session("line-negative", "{\"line_period_s\": -0.001}");
         String message = refusal("analyze", s.toString(), "--out", dir.resolve("o-line-negative").toString());
