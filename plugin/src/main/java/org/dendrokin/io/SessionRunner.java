@@ -15,6 +15,9 @@ import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.BackgroundRequest;
 import org.dendrokin.core.analysis.FitRequest;
 import org.dendrokin.core.analysis.SessionAnalysis;
+import org.dendrokin.core.analysis.SpineOutcome;
+import org.dendrokin.core.analysis.SpineRequest;
+import org.dendrokin.core.analysis.SpineStage;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.kymo.FrameSource;
 import org.dendrokin.core.path.DendritePath;
@@ -32,6 +35,7 @@ import org.dendrokin.io.session.SessionConfig;
 import org.dendrokin.io.session.SessionInputs;
 import org.dendrokin.io.session.SessionOutputs;
 import org.dendrokin.io.session.SessionOverrides;
+import org.dendrokin.io.session.SpineConfig;
 import org.dendrokin.io.text.Numbers;
 
 import ij.gui.Roi;
@@ -124,6 +128,10 @@ public final class SessionRunner {
         CalibrationSetup calibration = CalibrationConfig.parse(config.calibration(), sessionFile);
         List<Warning> warnings = new ArrayList<>();
         config.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SETTINGS, w)));
+        SpineConfig spineConfig = SpineConfig.read(sessionDir);
+        if (spineConfig != null) {
+            spineConfig.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SETTINGS, w)));
+        }
         calibration.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.CALIBRATION, w)));
         Path movieFile = config.movie() != null ? sessionDir.resolve(config.movie()) : onlyFile(sessionDir,
                 "movie", "a TIFF movie", null, ".tif", ".tiff");
@@ -140,6 +148,7 @@ public final class SessionRunner {
         DendritePath path = PathFiles.read(pathFile, config.pathRoiName());
         SessionInputs inputs;
         AnalysisResult analysis;
+        SpineOutcome spines = null;
         try (Movie movie = Movie.open(movieFile, config.pixelSizeUm(), config.frameIntervalS())) {
             movie.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.MOVIE, w)));
             SessionCalibration.requireChannels(calibration, sessionFile, movieFile, movie.channelCount());
@@ -197,6 +206,8 @@ public final class SessionRunner {
                     config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
                     acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()),
                     acq.linePeriodS(movie.frameIntervalS()));
+            SpineRequest spineRequest = spineConfig == null ? null
+                    : spineConfig.request(sessionDir, frames.width(), frames.height());
             try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {
@@ -207,9 +218,13 @@ public final class SessionRunner {
                 };
                 throw new InputException(file, e.getMessage(), e);
             }
+            if (spineRequest != null) {
+                spines = SpineStage.run(request, analysis, spineRequest, progress);
+            }
         }
         progress.checkCancelled();
-        OutputFolder.fill(outDir, dir -> SessionOutputs.write(dir, inputs, analysis, progress));
+        SpineOutcome spinesFound = spines;
+        OutputFolder.fill(outDir, dir -> SessionOutputs.write(dir, inputs, analysis, spinesFound, progress));
         return new Result(inputs, analysis, outDir, outDir.resolve(REPORT_HTML));
     }
 

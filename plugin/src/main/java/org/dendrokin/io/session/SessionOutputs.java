@@ -10,6 +10,7 @@ import java.util.List;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.SpineOutcome;
 import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
@@ -65,6 +66,16 @@ public final class SessionOutputs {
      * @return the report file
      */
     public static Path write(Path outDir, SessionInputs in, AnalysisResult a, Progress progress) {
+        return write(outDir, in, a, null, progress);
+    }
+
+    /**
+     * Writes every output, with the spines' ({@link SpineOutputs}) when they were analysed.
+     *
+     * @param spines the spine analysis, or null when the session did not ask for one
+     */
+    public static Path write(Path outDir, SessionInputs in, AnalysisResult a, SpineOutcome spines,
+            Progress progress) {
         progress.report("writing results", 0, 1);
         try {
             Files.createDirectories(outDir);
@@ -79,10 +90,13 @@ public final class SessionOutputs {
             writeMotion(a.motion().trace(), a.movie().frameIntervalS(), outDir.resolve(MOTION_CSV));
         }
         double saturation = in.bitDepth() == 8 || in.bitDepth() == 16 ? (1 << in.bitDepth()) - 1 : Double.NaN;
-        List<Picture> pictures = SessionPictures.writeAll(outDir, a, saturation);
-        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV), outDir.resolve(ResultsJson.FILE_NAME));
+        List<Picture> pictures = new java.util.ArrayList<>(SessionPictures.writeAll(outDir, a, saturation));
+        if (spines != null) {
+            pictures.add(SpineOutputs.write(outDir, spines));
+        }
+        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV, spines), outDir.resolve(ResultsJson.FILE_NAME));
         Path report = outDir.resolve(REPORT_HTML);
-        ReportHtml.write(report, in, a, pictures);
+        ReportHtml.write(report, in, a, pictures, spines);
         progress.report("writing results", 1, 1);
         return report;
     }
