@@ -7,6 +7,7 @@ import java.util.concurrent.Callable;
 
 import org.dendrokin.core.calib.Standards;
 import org.dendrokin.core.calib.StandardsFit;
+import org.dendrokin.io.OutputFolder;
 import org.dendrokin.io.calib.CalibrationBuilder;
 import org.dendrokin.io.calib.CalibrationFile;
 import org.dendrokin.io.calib.CalibrationPlot;
@@ -43,6 +44,8 @@ final class CalibrateCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
+        // a calibration may be saved into the session folder that names it ("method": "file")
+        OutputFolder.checkWritable(out);
         Standards standards = StandardsCsv.read(table);
         CalibrationBuilder.Built built = CalibrationBuilder.fromStandards(standards, monotone, table,
                 String.valueOf(table.getFileName()), "--monotone");

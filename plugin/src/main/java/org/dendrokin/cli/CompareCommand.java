@@ -3,6 +3,7 @@ package org.dendrokin.cli;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 
+import org.dendrokin.io.OutputFolder;
 import org.dendrokin.io.fit.ModelComparisonRun;
 
 import picocli.CommandLine.Command;
@@ -47,6 +48,7 @@ final class CompareCommand implements Callable<Integer> {
             throw new picocli.CommandLine.ParameterException(spec.commandLine(),
                     "--stimulus takes two finite numbers, the time in s and the position in um, e.g. 9.75,14.9");
         }
+        OutputFolder.check(out);
         ModelComparisonRun.Result r = ModelComparisonRun.run(kymograph, model, signalUnit, stimulus, out);
         spec.commandLine().getOut().println(ModelComparisonRun.summary(r, signalUnit));
         r.warnings().forEach(w -> spec.commandLine().getOut().println("warning: " + w));

@@ -17,6 +17,7 @@ import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.OutputFolder;
 import org.dendrokin.io.SessionRunner;
 import org.dendrokin.io.session.SessionOverrides;
 import org.dendrokin.io.text.Numbers;
@@ -50,6 +51,7 @@ final class DemoCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws IOException {
+        OutputFolder.check(outDir);
         Path local = Path.of(DEMO_DIR);
         Path session = local;
         if (!Files.isRegularFile(local.resolve("session.json"))) {

@@ -12,6 +12,7 @@ import org.dendrokin.core.model.BuiltInModel;
 import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.core.model.ModelParameter;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.OutputFolder;
 import org.dendrokin.io.model.SimulationOutputs;
 
 import picocli.CommandLine.Command;
@@ -44,9 +45,7 @@ final class SimulateCommand implements Callable<Integer> {
         if (!Files.isRegularFile(modelFile)) {
             throw new InputException(modelFile, "does not exist or is not a file");
         }
-        if (Files.exists(outDir) && !Files.isDirectory(outDir)) {
-            throw new InputException(outDir, "exists and is not a folder");
-        }
+        OutputFolder.check(outDir);
         SimulationOutputs.Written written = SimulationOutputs.simulate(modelFile, outDir, Version.get(), Progress.NONE);
         PrintWriter out = spec.commandLine().getOut();
         for (String w : written.warnings()) {

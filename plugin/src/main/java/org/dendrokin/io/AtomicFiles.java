@@ -4,8 +4,12 @@ import java.io.IOException;
 import java.io.OutputStream;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.AccessDeniedException;
 import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.FileAlreadyExistsException;
+import java.nio.file.FileSystemException;
 import java.nio.file.Files;
+import java.nio.file.NoSuchFileException;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
 import java.nio.file.StandardOpenOption;
@@ -36,7 +40,10 @@ public final class AtomicFiles {
             move(tmp, target);
             tmp = null;
         } catch (IOException e) {
-            throw new UncheckedIOException("could not write " + target + ": " + e.getMessage(), e);
+            // Named by its folder and file name: the temporary name, which the exception would give, means nothing
+            // to the user.
+            throw new UncheckedIOException(dir + ": " + target.getFileName() + " cannot be written into this folder ("
+                    + reason(e) + ").", e);
         } finally {
             if (tmp != null) {
                 try {
@@ -51,6 +58,26 @@ public final class AtomicFiles {
     /** Writes UTF-8 text to {@code target} through a temporary file. */
     public static void writeString(Path target, String text) {
         write(target, out -> out.write(text.getBytes(StandardCharsets.UTF_8)));
+    }
+
+    /**
+     * What went wrong, in words that do not repeat the file's name: a file-system exception's message is often only
+     * the (temporary) file's path.
+     */
+    public static String reason(IOException e) {
+        if (e instanceof AccessDeniedException) {
+            return "permission denied";
+        }
+        if (e instanceof NoSuchFileException) {
+            return "a folder on the way does not exist";
+        }
+        if (e instanceof FileAlreadyExistsException) {
+            return "a file stands where a folder or file of that name is needed";
+        }
+        if (e instanceof FileSystemException fs) {
+            return fs.getReason() != null ? fs.getReason() : e.getClass().getSimpleName();
+        }
+        return e.getMessage() != null ? e.getMessage() : e.getClass().getSimpleName();
     }
 
     private static void move(Path from, Path to) throws IOException {

@@ -36,9 +36,9 @@ import org.dendrokin.io.session.SessionInputs;
 import org.dendrokin.io.session.SessionOutputs;
 import org.dendrokin.io.session.SessionOverrides;
 import org.dendrokin.io.session.SpineConfig;
+import org.dendrokin.io.text.Numbers;
 
 import ij.gui.Roi;
-import ij.io.RoiDecoder;
 
 /**
  * One session folder in, one output folder out: reads session.json, the movie and the path and checks them;
@@ -119,6 +119,7 @@ public final class SessionRunner {
      * @throws InputException for bad input, naming the file or the override
      */
     public static Result analyze(Path sessionDir, Path outDir, SessionOverrides overrides, Progress progress) {
+        OutputFolder.check(outDir, sessionDir);
         if (!Files.isDirectory(sessionDir)) {
             throw new InputException(sessionDir, "is not a folder");
         }
@@ -168,6 +169,15 @@ public final class SessionRunner {
                 throw new InputException(sessionFile, String.format(Locale.ROOT, "key \"z.slice\" is %d, but %s has "
                         + "%d focal planes", acq.zSlice(), movieFile.getFileName(), movie.zSlices()));
             }
+            if (overrides.stimulusXPx() != null && !(overrides.stimulusXPx() >= 0
+                    && overrides.stimulusXPx() <= movie.width() && overrides.stimulusYPx() >= 0
+                    && overrides.stimulusYPx() <= movie.height())) {
+                // named here, not by the analysis's check, which would blame session.json's keys
+                throw new InputException(movieFile, String.format(Locale.ROOT, "is %d x %d pixels, but %s places the "
+                        + "stimulus spot at (%s, %s) px, outside it", movie.width(), movie.height(),
+                        overrides.origin().spotName(), Numbers.forPeople(overrides.stimulusXPx()),
+                        Numbers.forPeople(overrides.stimulusYPx())));
+            }
             FrameSource frames = planes(movie, signalChannel - 1, acq);
             if (movie.channelCount() > 1 && channels == null && acq.channel() == 0) {
                 warnings.add(new Warning(Warning.Topic.MOVIE, String.format(Locale.ROOT, "The movie has %d channels; "
@@ -201,7 +211,11 @@ public final class SessionRunner {
             try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {
-                Path file = e.subject() == AnalysisInputException.Subject.PATH ? pathFile : sessionFile;
+                Path file = switch (e.subject()) {
+                    case PATH -> pathFile;
+                    case MOVIE -> movieFile;
+                    case SETTINGS -> sessionFile;
+                };
                 throw new InputException(file, e.getMessage(), e);
             }
             if (spineRequest != null) {
@@ -209,8 +223,9 @@ public final class SessionRunner {
             }
         }
         progress.checkCancelled();
-        Path report = SessionOutputs.write(outDir, inputs, analysis, spines, progress);
-        return new Result(inputs, analysis, outDir, report);
+        SpineOutcome spinesFound = spines;
+        OutputFolder.fill(outDir, dir -> SessionOutputs.write(dir, inputs, analysis, spinesFound, progress));
+        return new Result(inputs, analysis, outDir, outDir.resolve(REPORT_HTML));
     }
 
     /** Checks that a channel named in session.json exists in the movie. */
@@ -259,13 +274,8 @@ public final class SessionRunner {
         if (!Files.isRegularFile(roiFile)) {
             throw new InputException(roiFile, "the background ROI named in session.json is not in the session folder");
         }
-        Roi roi;
-        try {
-            roi = RoiDecoder.open(roiFile.toString());
-        } catch (RuntimeException e) {
-            roi = null;
-        }
-        if (roi == null || !roi.isArea()) {
+        Roi roi = PathFiles.readRoi(roiFile);
+        if (!roi.isArea()) {
             throw new InputException(roiFile, "is not an ImageJ area ROI (rectangle, oval, polygon or freehand area)");
         }
         List<java.awt.Point> inside = new ArrayList<>();

@@ -13,7 +13,9 @@ public final class AnalysisInputException extends RuntimeException {
         /** The session's settings (baseline frames, stimulus, background). */
         SETTINGS,
         /** The path drawn along the dendrite. */
-        PATH
+        PATH,
+        /** The movie itself (a single frame, say). */
+        MOVIE
     }
 
     private final Subject subject;

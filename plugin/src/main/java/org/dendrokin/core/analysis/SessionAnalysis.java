@@ -50,6 +50,7 @@ public final class SessionAnalysis {
      * @throws Progress.CancelledException if the user cancelled
      */
     public static AnalysisResult run(AnalysisRequest request, Progress progress) {
+        InputChecks.check(request);
         List<Warning> warnings = new ArrayList<>();
         FrameSource frames = request.signal();
         double px = request.pixelSizeUm();

@@ -85,6 +85,12 @@ public final class NetworkRun {
         return grid.compact ? 4 : 2;
     }
 
+    /** The time steps {@link #solve} takes (see {@link TimeMarcher#plannedSteps}). */
+    public long plannedSteps() {
+        return marcher.plannedSteps(settings.maxStep(network.rateScalePerS(), grid.h, stepper.maxDiffusionUm2PerS(),
+                minWidthUm));
+    }
+
     public long lastStepCount() {
         return lastStepCount;
     }

@@ -135,6 +135,12 @@ public final class ScalarRun {
     }
 
     /** Number of time steps the last solve took. */
+    /** The time steps a run with these parameters takes (see {@link TimeMarcher#plannedSteps}). */
+    public long plannedSteps(double[] parameters) {
+        return marcher.plannedSteps(settings.maxStep(model.stiffnessPerS(parameters), grid.h, parameters[0],
+                minWidthUm));
+    }
+
     public long lastStepCount() {
         return lastStepCount;
     }

@@ -82,6 +82,45 @@ public final class Simulation {
         }
     }
 
+    /**
+     * The most time steps, and grid-node steps, one deterministic run may take. Beyond them a run takes minutes to
+     * hours (about 1e8 node-steps per second on one core, see docs/benchmarks.md), which is a value of D, a rate or
+     * a step setting far from what was meant rather than a simulation anyone waits for.
+     */
+    public static final long MAX_STEPS = 100_000_000L;
+    public static final double MAX_NODE_STEPS = 1e10;
+
+    /**
+     * Bytes a deterministic run holds per grid node and species, an upper estimate: the Crank-Nicolson factor cache
+     * (4 slots of up to 15 rows), the state, the stimulus profiles and the stepper's work rows, 8 bytes each.
+     */
+    static final long BYTES_PER_NODE = 80 * 8;
+
+    /**
+     * The heap a deterministic run of the spec needs, bytes, an upper estimate from its grid and species (the
+     * sampled output, frames x positions, is counted too), so that a caller can refuse a run that cannot fit before
+     * it allocates. 0 for a stochastic run, whose memory is the runs' and is bounded elsewhere.
+     */
+    public static long estimatedBytes(Spec spec) {
+        if (spec.stochastic() != null) {
+            return 0;
+        }
+        int fields = 1;
+        if (spec.model().equals(NETWORK)) {
+            fields = spec.network().speciesCount();
+        } else {
+            BuiltInModel entry = ModelCatalogue.get(spec.model());
+            if (entry.engine() != BuiltInModel.Engine.SCALAR
+                    && entry.realise(entry.values(spec.parameters()), spec.stimuli())
+                    instanceof Realisation.Network n) {
+                fields = n.network().speciesCount();
+            }
+        }
+        double grid = (double) spec.domain().nodeCount() * fields * BYTES_PER_NODE;
+        double output = 8.0 * spec.outputTimesS().length * spec.outputPositionsUm().length;
+        return (long) Math.min(Long.MAX_VALUE, grid + output);
+    }
+
     /** Step halvings the time-error control makes at most (the last run costs 2^6 plain runs). */
     public static final int MAX_HALVINGS = 6;
 
@@ -125,6 +164,7 @@ public final class Simulation {
                 Solved solved = controlled(spec.settings(), spanS, maxHalvings, info, warnings, progress, settings -> {
                     ScalarRun run = ScalarRun.prepare(scalar.model(), spec.domain(), times, x, scalar.stimuli(),
                             settings);
+                    requireFeasible(run.plannedSteps(scalar.parameters()), spec.domain().nodeCount(), spanS);
                     double[] out = new double[times.length * x.length];
                     run.solve(scalar.parameters(), out);
                     return new Solved(out, run.lastStepCount(), run.spatialOrder());
@@ -156,6 +196,7 @@ public final class Simulation {
         int shown = network.indexOf(observed);
         Solved solved = controlled(spec.settings(), spanS, maxHalvings, info, warnings, progress, settings -> {
             NetworkRun run = NetworkRun.prepare(network, spec.domain(), times, x, spec.stimuli(), settings, observed);
+            requireFeasible(run.plannedSteps(), spec.domain().nodeCount(), spanS);
             double[][] out = new double[network.speciesCount()][];
             out[shown] = new double[times.length * x.length];
             run.solve(out);
@@ -163,6 +204,18 @@ public final class Simulation {
         });
         Kymograph k = new Kymograph(x, times, solved.out(), "model units");
         return new Result(k, null, observed, solved.steps(), FrontSpeed.measure(k, origin), info, warnings);
+    }
+
+    /**
+     * Refuses a run of more than {@link #MAX_STEPS} steps or {@link #MAX_NODE_STEPS} node-steps before it starts,
+     * in words for the model file's author (an IllegalArgumentException, which the file readers report as bad input).
+     */
+    private static void requireFeasible(long steps, int nodes, double spanS) {
+        Checks.require(steps <= MAX_STEPS && (double) steps * nodes <= MAX_NODE_STEPS, String.format(Locale.ROOT,
+                "the run would take %.3g time steps of %.3g s on %d grid nodes, more than Dendrokin takes (%.0e steps,"
+                + " %.0e node-steps); a smaller diffusion coefficient or rate, a wider stimulus, a larger"
+                + " solver.step_factor or a shorter time.duration_s shortens it", (double) steps, spanS / steps,
+                nodes, (double) MAX_STEPS, MAX_NODE_STEPS));
     }
 
     /** One deterministic run: the observed output, the steps taken and the spatial order used. */

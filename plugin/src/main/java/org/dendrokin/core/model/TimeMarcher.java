@@ -71,6 +71,21 @@ final class TimeMarcher {
     }
 
     /**
+     * The number of steps {@link #run} takes with this largest step, without taking them (saturating at
+     * {@code Long.MAX_VALUE}), so that a caller can refuse a run that would not end in reasonable time.
+     *
+     * @param dtMaxS the largest step, s, as given to {@link #run}
+     */
+    long plannedSteps(double dtMaxS) {
+        Timeline tl = timeline;
+        double total = 0;
+        for (int j = 0; j + 1 < tl.breakCount(); j++) {
+            total += settings.stepCount(tl.breaksS[j + 1] - tl.breaksS[j], dtMaxS);
+        }
+        return total >= Long.MAX_VALUE ? Long.MAX_VALUE : (long) total;
+    }
+
+    /**
      * Runs the timeline from the stepper's current state (the caller sets the initial state).
      *
      * @param stepper the solver, prepared for this run's parameters

@@ -33,8 +33,16 @@ final class Fronts {
      * thirds of that over the nearer half, and a line in distance squared closer to the arrival times than a
      * line in distance).
      */
-    static Front decide(double[] distance, double[] arrival, double[] peaks, int responding, double dx,
+    static Front decide(double[] allDistances, double[] allArrivals, double[] allPeaks, int responding, double dx,
                                double dt, double observedS, List<String> warnings) {
+        // An arrival time is NaN where the peak is not finite (a division by zero upstream, such as a ratio over a
+        // channel at its background): such positions say nothing about a front, and would leave the robust lines
+        // below with too few points or one distinct time.
+        int[] finite = java.util.stream.IntStream.range(0, allArrivals.length)
+                .filter(i -> Double.isFinite(allDistances[i]) && Double.isFinite(allArrivals[i])).toArray();
+        double[] distance = Arrays.stream(finite).mapToDouble(i -> allDistances[i]).toArray();
+        double[] arrival = Arrays.stream(finite).mapToDouble(i -> allArrivals[i]).toArray();
+        double[] peaks = Arrays.stream(finite).mapToDouble(i -> allPeaks[i]).toArray();
         double[] absD = Arrays.stream(distance).map(Math::abs).toArray();
         double span = Arrays.stream(absD).max().orElse(0) - Arrays.stream(absD).min().orElse(0);
         if (responding >= 5 && distance.length < responding / 2) {

@@ -22,7 +22,9 @@ import java.util.function.Consumer;
 import java.util.stream.Stream;
 
 import org.dendrokin.core.Progress;
+import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
+import org.dendrokin.io.OutputFolder;
 import org.dendrokin.io.json.JsonFiles;
 
 /**
@@ -35,7 +37,9 @@ import org.dendrokin.io.json.JsonFiles;
  * cluster runs. Each session is analysed into a hidden temporary folder that is renamed into place only
  * once it is complete, so a run stopped at any moment leaves complete session results only. A session
  * whose recorded input hashes, settings and tool version still match is not analysed again unless
- * forced. Session folders are only read.
+ * forced. Session folders are only read; an output folder that is a session folder or lies inside one is refused
+ * before anything is written, and a lock file keeps a second batch out of an output folder in use
+ * ({@link BatchLock}).
  */
 public final class BatchRunner {
     private static final String TMP = ".tmp-";
@@ -57,11 +61,13 @@ public final class BatchRunner {
      * @param progress receives ("sessions", done, total) and may cancel the batch: sessions not yet started
      *                 are not started, running ones are stopped and leave nothing behind
      * @param listener receives a {@link BatchStatus} after each session (from worker threads, one at a time)
-     * @throws InputException if the root holds no session, or the shard does not fit the saved plan
+     * @throws InputException if the output folder is a file, a session folder or inside one, or is being written by
+     *                        another batch (see {@link BatchLock}); if the root holds no session, or the shard does not fit the saved plan
      * @throws Progress.CancelledException if cancelled or the calling thread was interrupted
      */
     public static BatchOutcome run(BatchOptions options, SessionAnalyzer analyzer, Progress progress,
                                    Consumer<BatchStatus> listener) {
+        OutputFolder.check(options.out());
         Path out = options.out().toAbsolutePath().normalize();
         Path root = options.root().toAbsolutePath().normalize();
         List<SessionFolder> found = SessionFolder.discover(root, out);
@@ -73,6 +79,20 @@ public final class BatchRunner {
             }
             mine = plan.select(found, options.shard());
         }
+        try {
+            Files.createDirectories(out);
+        } catch (IOException e) {
+            throw new InputException(options.out(), "the output folder cannot be created (" + AtomicFiles.reason(e)
+                    + ")", e);
+        }
+        try (BatchLock lock = BatchLock.acquire(out, options.shard())) {
+            return runLocked(options, analyzer, progress, listener, out, found, mine);
+        }
+    }
+
+    private static BatchOutcome runLocked(BatchOptions options, SessionAnalyzer analyzer, Progress progress,
+                                          Consumer<BatchStatus> listener, Path out, List<SessionFolder> found,
+                                          List<SessionFolder> mine) {
         Path sessionsDir = out.resolve("sessions");
         try {
             Files.createDirectories(sessionsDir);

@@ -9,6 +9,7 @@ import java.util.stream.Collectors;
 
 import org.dendrokin.core.Checks;
 import org.dendrokin.io.AtomicFiles;
+import org.dendrokin.io.OutputFolder;
 
 /**
  * Plans a batch as a SLURM job array: {@code OUT/slurm/plan.json} (which session goes to which shard),
@@ -75,6 +76,7 @@ public final class SlurmPlan {
     public static Planned write(Path root, Path out, int shards, Resources requested, Path jar, String javaCommand,
                                 GlobalFitStudy.Request globalFit) {
         Checks.positive(shards, "shards");
+        OutputFolder.check(out);
         Path r = root.toAbsolutePath().normalize();
         Path o = out.toAbsolutePath().normalize();
         List<SessionFolder> found = SessionFolder.discover(r, o);

@@ -4,6 +4,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
 
 import org.dendrokin.core.Progress;
@@ -34,9 +35,27 @@ public final class SimulationOutputs {
     public record Written(Simulation.Result result, List<Path> files, List<String> warnings) {
     }
 
+    /**
+     * Refuses a run that cannot fit in the memory this Java may still use (a long domain on a fine grid), before it
+     * allocates: an out-of-memory error midway would end the program with an internal error instead of a sentence.
+     */
+    private static void requireMemory(Path modelFile, Simulation.Spec spec) {
+        Runtime rt = Runtime.getRuntime();
+        long free = rt.maxMemory() - (rt.totalMemory() - rt.freeMemory());
+        long needed = Simulation.estimatedBytes(spec);
+        // a quarter kept back for the pictures and the program's own objects
+        if (needed > free / 4 * 3) {
+            throw new InputException(modelFile, String.format(Locale.ROOT, "the run needs about %d MB for its %d grid"
+                    + " nodes, more than this Java can spare (%d MB free); a coarser domain.dx_um, a shorter"
+                    + " domain.length_um or fewer output frames, or more memory for Java (java -Xmx...), makes it"
+                    + " fit", needed >> 20, spec.domain().nodeCount(), free >> 20));
+        }
+    }
+
     public static Written simulate(Path modelFile, Path outDir, String toolVersion, Progress progress) {
         ModelFile.Parsed parsed = ModelFile.read(modelFile);
         Simulation.Spec spec = parsed.spec();
+        requireMemory(modelFile, spec);
         Simulation.Result result;
         try {
             result = Simulation.run(spec, progress);

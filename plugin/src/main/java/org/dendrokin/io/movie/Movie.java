@@ -26,13 +26,16 @@ import org.dendrokin.io.InputException;
  * <p>Frames are read by channel and time point. A movie with several slices and one frame is read as a time
  * series (with a warning); one with several slices and several frames is refused.
  *
- * <p>Checks made on opening, each an {@link InputException} naming the file: the file is not a TIFF; the file
- * is shorter than its header promises (ImageJ's own reader would silently return fewer frames); the samples
+ * <p>Checks made on opening, each an {@link InputException} naming the file: the file is not a TIFF; an entry of
+ * its directories claims more values than the file holds ({@link TiffBounds}); the file is shorter than its header
+ * promises (ImageJ's own reader would silently return fewer frames); the samples
  * are colour (RGB) or of a type or compression that cannot be read correctly; a 32-bit movie holds only NaN in the
  * first, middle and last frames of every channel; the pixel size or frame interval is in neither the TIFF nor the
  * arguments.
  */
 public final class Movie implements AutoCloseable {
+    /** Bytes of working memory a frame's pixel needs while it is read and averaged (see {@link #checkFrameSize}). */
+    private static final int BYTES_PER_PIXEL_READ = 16;
     private final Path file;
     private final int width;
     private final int height;
@@ -73,9 +76,11 @@ public final class Movie implements AutoCloseable {
      */
     public static Movie open(Path file, Double pixelSizeUm, Double frameIntervalS) {
         boolean intel = checkIsTiff(file);
+        TiffBounds.check(file, intel);
         MovieLayout layout = MovieLayout.read(file, intel);
         PlaneStore planes = null;
         try {
+            checkFrameSize(file, layout.width, layout.height, layout.samplesPerPixel());
             List<String> warnings = new ArrayList<>(layout.warnings);
             double pixel = pixelSizeUm != null ? overrideValue(file, pixelSizeUm, "pixel_size_um")
                     : layout.pixelSizeUm;
@@ -106,6 +111,26 @@ public final class Movie implements AutoCloseable {
                 planes.close();
             }
             throw e;
+        }
+    }
+
+    /**
+     * Refuses a frame too large to read before any buffer for it is made: the header's size decides how much a
+     * frame's decoding allocates, and a damaged or foreign header can claim 100000 x 100000 pixels over a few bytes
+     * of compressed data. Reading and averaging a frame holds it about four times over as 32-bit values (the decoded
+     * samples, a float copy, the running mean of the path picture and its buffer; every sample of a pixel when the
+     * reader decodes them together), hence the factor
+     * {@value #BYTES_PER_PIXEL_READ}.
+     */
+    private static void checkFrameSize(Path file, int width, int height, int samples) {
+        long pixels = (long) width * height * samples;
+        long needed = pixels * BYTES_PER_PIXEL_READ;
+        long heap = Runtime.getRuntime().maxMemory();
+        if (pixels > Integer.MAX_VALUE / 4 || needed > heap) {
+            throw new InputException(file, String.format(Locale.ROOT, "the TIFF header gives frames of %d x %d "
+                    + "pixels, and reading one needs about %d MB, more than the %d MB this Java may use; if the size "
+                    + "is right, run Java with more memory (-Xmx) or crop the movie", width, height, needed >> 20,
+                    heap >> 20));
         }
     }
 

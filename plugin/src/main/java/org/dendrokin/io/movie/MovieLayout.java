@@ -108,6 +108,11 @@ final class MovieLayout {
         return storePlane == null ? index : storePlane[index];
     }
 
+    /** Grey samples in each pixel (each a channel); 1 for ImageJ's reader. */
+    int samplesPerPixel() {
+        return samples;
+    }
+
     /** Reads the header, choosing the reader, and refuses what cannot be read correctly. */
     static MovieLayout read(Path file, boolean intelHeader) {
         JavaTiff tiff = null;
@@ -450,7 +455,7 @@ final class MovieLayout {
 
     private static InputException truncated(Path file, long promised, long present) {
         return new InputException(file, "the TIFF is truncated: its header promises " + promised
-                + " images but the file holds only " + present + " complete ones");
+                + " images but the file holds only " + present + (present == 1 ? " complete one" : " complete ones"));
     }
 
     private static long fileSize(Path file) {
@@ -510,6 +515,17 @@ final class MovieLayout {
 
     /** Finds each plane's offset and checks the file is as long as the header says. */
     private void locatePlanes(Path file, FileInfo[] info) {
+        for (int i = 1; i < info.length; i++) {
+            // A plane is decoded into a buffer of its own size: one that differs from the first would be read wrongly,
+            // and a damaged one can claim a size no memory holds.
+            FileInfo fi = info[i];
+            if (fi.width != width || fi.height != height || fi.fileType != fileType) {
+                throw new InputException(file, String.format(Locale.ROOT, "image %d of the TIFF is %d x %d pixels of "
+                        + "%d-bit samples, unlike the first (%d x %d pixels of %d-bit samples); save the movie as "
+                        + "images of one size and type", i + 1, fi.width, fi.height, 8 * fi.getBytesPerPixel(), width,
+                        height, bitDepth));
+            }
+        }
         long size = fileSize(file);
         long planeBytes = (long) width * height * Math.max(1, info[0].getBytesPerPixel());
         boolean uncompressed = true;

@@ -37,6 +37,8 @@ import org.dendrokin.io.text.TextFiles;
 public final class PathFiles {
     /** Added to ImageJ line ROI coordinates to put them in our pixel convention. */
     public static final double LINE_ROI_SHIFT = 0.5;
+    /** Largest ROI read: a line of 65535 sub-pixel vertices takes under 1 MB. */
+    private static final int MAX_ROI_BYTES = 16 << 20;
 
     private PathFiles() {
     }
@@ -70,13 +72,28 @@ public final class PathFiles {
 
     private static byte[] readBytes(Path file) {
         try {
+            if (Files.size(file) > MAX_ROI_BYTES) {
+                throw new InputException(file, "this is not an ImageJ ROI: it is " + Files.size(file) / (1 << 20)
+                        + " MB, far more than a line selection takes");
+            }
             return Files.readAllBytes(file);
         } catch (IOException e) {
             throw new InputException(file, "the path file could not be read (" + e.getMessage() + ")", e);
         }
     }
 
+    /**
+     * Decodes one ROI with ImageJ's decoder after checking the lengths its header claims ({@link RoiBytes}).
+     *
+     * @param entry the file's name, or the entry's name inside a ROI set
+     */
     private static Roi decode(Path file, byte[] bytes, String entry) {
+        String where = entry.equals(file.getFileName().toString()) ? "" : "entry " + entry + ": ";
+        String overclaim = RoiBytes.overclaim(bytes);
+        if (overclaim != null) {
+            throw new InputException(file, where + "this is not an ImageJ ROI, or it is damaged: " + overclaim
+                    + " in a file of " + bytes.length + " bytes");
+        }
         Roi roi;
         try {
             roi = new RoiDecoder(bytes, entry).getRoi();
@@ -84,10 +101,18 @@ public final class PathFiles {
             roi = null;
         }
         if (roi == null) {
-            throw new InputException(file, (entry.equals(file.getFileName().toString()) ? "" : "entry " + entry
-                    + ": ") + "this is not an ImageJ ROI");
+            throw new InputException(file, where + "this is not an ImageJ ROI");
         }
         return roi;
+    }
+
+    /**
+     * Reads any ImageJ {@code .roi} file (an area for the background, say) with the same checks as a path's.
+     *
+     * @throws InputException naming the file when it is not an ImageJ ROI or its header claims more than it holds
+     */
+    public static Roi readRoi(Path file) {
+        return decode(file, readBytes(file), file.getFileName().toString());
     }
 
     private static boolean isLine(Roi roi) {
@@ -127,7 +152,12 @@ public final class PathFiles {
                 if (entry.isDirectory() || !entry.getName().toLowerCase(Locale.ROOT).endsWith(".roi")) {
                     continue;
                 }
-                Roi roi = decode(file, zip.readAllBytes(), entry.getName());
+                byte[] bytes = zip.readNBytes(MAX_ROI_BYTES + 1);
+                if (bytes.length > MAX_ROI_BYTES) {
+                    throw new InputException(file, "entry " + entry.getName() + " is more than "
+                            + MAX_ROI_BYTES / (1 << 20) + " MB, far more than a line selection takes");
+                }
+                Roi roi = decode(file, bytes, entry.getName());
                 String base = entry.getName().substring(0, entry.getName().length() - 4);
                 String label = roi.getName() != null ? roi.getName() : base;
                 names.add(label);
@@ -165,8 +195,14 @@ public final class PathFiles {
                 xs.add(number(file, record, "x", line));
                 ys.add(number(file, record, "y", line));
             }
-        } catch (IOException | java.io.UncheckedIOException e) {
-            throw new InputException(file, "the path CSV could not be read (" + e.getMessage() + ")", e);
+        } catch (IOException | java.io.UncheckedIOException | IllegalArgumentException | IllegalStateException e) {
+            // commons-csv reports a header without a name, or a name given twice, as an IllegalArgumentException, and
+            // a stray quote as its CSVException inside an UncheckedIOException: the innermost message is the reason.
+            Throwable reason = e;
+            while (reason.getCause() != null && reason.getCause().getMessage() != null) {
+                reason = reason.getCause();
+            }
+            throw new InputException(file, "the path CSV could not be read (" + reason.getMessage() + ")", e);
         }
         double[] x = new double[xs.size()];
         double[] y = new double[ys.size()];

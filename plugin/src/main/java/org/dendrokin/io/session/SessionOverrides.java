@@ -65,6 +65,11 @@ public record SessionOverrides(Integer channel, Integer structuralChannel, Motio
         public String structuralName() {
             return structural;
         }
+
+        /** How the stimulus spot override is named, e.g. "--stimulus-xy". */
+        public String spotName() {
+            return spot;
+        }
     }
 
     public SessionOverrides {

@@ -125,4 +125,38 @@ class PathFilesTest {
         Path other = Files.writeString(dir.resolve("path.txt"), "x,y\n");
         assertThrows(InputException.class, () -> PathFiles.read(other, null));
     }
+
+    @Test
+    void csvFilesTheCsvReaderRefusesAreNamedInOneSentence() throws IOException {
+        String[] texts = {"x,y,\n1,2,3\n4,5,6\n", "x,y\n1,2\n\"4\"5,6\n"};
+        for (int i = 0; i < texts.length; i++) {
+            Path csv = Files.writeString(dir.resolve("odd" + i + ".csv"), texts[i]);
+            InputException e = assertThrows(InputException.class, () -> PathFiles.read(csv, null), texts[i]);
+            assertTrue(e.getMessage().startsWith(csv + ": the path CSV could not be read")
+                    && !e.getMessage().contains("Exception"), e.getMessage());
+        }
+    }
+
+    @Test
+    void aRoiWhoseHeaderClaimsMoreThanTheFileHoldsIsRefusedBeforeDecoding() throws IOException {
+        PolygonRoi line = new PolygonRoi(new float[] {2, 10, 20}, new float[] {3, 8, 5}, 3, Roi.POLYLINE);
+        line.setName("dendrite");
+        byte[] valid = RoiEncoder.saveAsByteArray(line);
+        java.nio.ByteBuffer b = java.nio.ByteBuffer.wrap(valid.clone());
+        int header2 = b.getInt(60);
+        // The name's length (second header, offset 20) set so that its byte count overflows an int: ImageJ's own
+        // bounds check (offset + 2 length > size) passes, and it would allocate 2^30 characters.
+        b.putInt(header2 + 20, 1 << 30);
+        Path bigName = Files.write(dir.resolve("big-name.roi"), b.array());
+        InputException e = assertThrows(InputException.class, () -> PathFiles.read(bigName, null));
+        assertTrue(e.getMessage().startsWith(bigName + ": ") && e.getMessage().contains("name of 1073741824"),
+                e.getMessage());
+        java.nio.ByteBuffer c = java.nio.ByteBuffer.wrap(valid.clone());
+        c.putShort(16, (short) 0);  // no short count: the vertex count is then the int at offset 18
+        c.putInt(18, 500_000_000);
+        Path manyVertices = Files.write(dir.resolve("many.roi"), c.array());
+        e = assertThrows(InputException.class, () -> PathFiles.read(manyVertices, null));
+        assertTrue(e.getMessage().contains("500000000 vertices"), e.getMessage());
+        assertEquals(3, PathFiles.read(Files.write(dir.resolve("valid.roi"), valid), null).vertexCount());
+    }
 }
