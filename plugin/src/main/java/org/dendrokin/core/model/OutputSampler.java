@@ -5,10 +5,13 @@ import org.dendrokin.core.Checks;
 /**
  * Samples a field on the grid's nodes at the kymograph's output positions, by linear interpolation between the
  * two nearest nodes, and blends two time levels for frames that fall between steps. Shared by the scalar and
- * network runs; allocation-free after construction.
+ * network runs on a cable and on a tree (where the two nodes around a position need not be neighbours in the
+ * numbering); allocation-free after construction.
  */
 final class OutputSampler {
     private final int[] index;
+    /** The node after {@code index} along the cable or branch. */
+    private final int[] next;
     private final double[] weight;
     /** True when every output position is a node, in order from node 0 (sampling is then a copy). */
     private final boolean identity;
@@ -23,6 +26,7 @@ final class OutputSampler {
         int positions = outputPositionsUm.length;
         Checks.require(positions > 0, "at least one output position is needed");
         index = new int[positions];
+        next = new int[positions];
         weight = new double[positions];
         for (int p = 0; p < positions; p++) {
             double x = outputPositionsUm[p];
@@ -31,6 +35,7 @@ final class OutputSampler {
             double s = Math.min(Math.max(x / nodeSpacingUm, 0), nodes - 1);
             int i = Math.min((int) Math.floor(s), nodes - 2);
             index[p] = i;
+            next[p] = i + 1;
             weight[p] = s - i;
         }
         boolean same = positions == nodes;
@@ -38,6 +43,23 @@ final class OutputSampler {
             same = (index[p] == p && weight[p] == 0) || (p == nodes - 1 && index[p] == p - 1 && weight[p] == 1);
         }
         identity = same;
+    }
+
+    /**
+     * Positions given by their two nodes: value = (1 - w) field[from] + w field[to].
+     *
+     * @param from   first node of each position. Copied.
+     * @param to     second node of each position. Copied.
+     * @param weight w of each position, in [0, 1]. Copied.
+     */
+    OutputSampler(int[] from, int[] to, double[] weight) {
+        Checks.require(from.length > 0, "at least one output position is needed");
+        Checks.require(from.length == to.length && from.length == weight.length, "one node pair and weight per"
+                + " output position");
+        index = from.clone();
+        next = to.clone();
+        this.weight = weight.clone();
+        identity = false;
     }
 
     /** Number of output positions. */
@@ -54,7 +76,7 @@ final class OutputSampler {
         }
         for (int q = 0; q < index.length; q++) {
             int i = index[q];
-            target[base + q] = field[i] + weight[q] * (field[i + 1] - field[i]);
+            target[base + q] = field[i] + weight[q] * (field[next[q]] - field[i]);
         }
     }
 
@@ -68,8 +90,9 @@ final class OutputSampler {
         for (int q = 0; q < index.length; q++) {
             int i = index[q];
             double x = weight[q];
-            double a = before[i] + x * (before[i + 1] - before[i]);
-            double b = after[i] + x * (after[i + 1] - after[i]);
+            int j = next[q];
+            double a = before[i] + x * (before[j] - before[i]);
+            double b = after[i] + x * (after[j] - after[i]);
             target[base + q] = v * a + w * b;
         }
     }
