@@ -4,8 +4,9 @@ import java.util.Objects;
 
 /**
  * The Crank-Nicolson matrices of a tree for the last few values of c = dt D / 2, the tree counterpart of
- * {@link CrankNicolsonCache}: A = B - c L factored by {@link TreeSolver} (Hines' method) and P = B + c L for the
- * explicit side, with B and L those of {@link TreeGrid}. A few slots, replaced in turn, hold the step sizes a run's
+ * {@link CrankNicolsonCache}: A = B - c L factored by {@link TreeSystem} (each branch by two-ended elimination, the
+ * junctions and ends by Hines' method) and P = B + c L for the explicit side, with B and L those of
+ * {@link TreeGrid}. A few slots, replaced in turn, hold the step sizes a run's
  * gaps between events use. Not thread-safe; allocates only at construction.
  */
 final class TreeCrankNicolsonCache {
@@ -16,17 +17,18 @@ final class TreeCrankNicolsonCache {
         /** c = dt D / 2 (dimensionless with L in 1/um^2 and D dt in um^2); NaN while the slot is empty. */
         double c = Double.NaN;
         /** A = B - c L, factored. */
-        final TreeSolver.Factors implicit;
+        final TreeSystem.Factors implicit;
         /** P = B + c L. */
         final TreeMatrix explicit;
 
-        private Factors(TreeGrid grid) {
-            implicit = new TreeSolver.Factors(grid.n);
+        private Factors(TreeGrid grid, TreeSystem system) {
+            implicit = system.newFactors();
             explicit = new TreeMatrix(grid.solver.parents());
         }
     }
 
     private final TreeGrid grid;
+    private final TreeSystem system;
     private final Factors[] slots = new Factors[SLOTS];
     private final TreeMatrix scratch;
     private final double[] work;
@@ -35,8 +37,9 @@ final class TreeCrankNicolsonCache {
 
     TreeCrankNicolsonCache(TreeGrid grid) {
         this.grid = Objects.requireNonNull(grid, "grid");
+        system = new TreeSystem(grid);
         for (int k = 0; k < SLOTS; k++) {
-            slots[k] = new Factors(grid);
+            slots[k] = new Factors(grid, system);
         }
         scratch = new TreeMatrix(grid.solver.parents());
         work = new double[grid.n];
@@ -57,7 +60,7 @@ final class TreeCrankNicolsonCache {
         Factors f = slots[next];
         next = (next + 1) % SLOTS;
         scratch.setSum(grid.mass, -c, grid.lap);
-        grid.solver.factor(scratch.diag, scratch.toParent, scratch.fromParent, f.implicit, work);
+        system.factor(scratch, f.implicit, work);
         f.explicit.setSum(grid.mass, c, grid.lap);
         f.c = c;
         last = f;
@@ -66,6 +69,6 @@ final class TreeCrankNicolsonCache {
 
     /** Solves A x = r for the factors f. {@code rhs} is overwritten; x may be rhs. */
     void solve(Factors f, double[] rhs, double[] x) {
-        grid.solver.solve(f.implicit, rhs, x);
+        system.solve(f.implicit, rhs, x);
     }
 }

@@ -45,6 +45,16 @@ final class TreeGrid {
     final boolean compact;
     /** Global node index of node k of branch b (k = 0 at the branch start). */
     final int[][] branchNodes;
+    /**
+     * Per branch (index in the tree's list): its inner nodes are innerFrom .. innerTo - 1, numbered from the end next
+     * to node farNode (the vertex away from the root) towards node nearNode (the vertex towards the root).
+     */
+    final int[] innerFrom;
+    final int[] innerTo;
+    final int[] farNode;
+    final int[] nearNode;
+    /** The vertex nodes (junctions and free ends) in the order of the numbering; the root is last. */
+    final int[] vertexNodes;
     /** A branch each node lies on, and its position there, um (for junction nodes, one of their branches). */
     final int[] nodeBranch;
     final double[] nodeUm;
@@ -75,6 +85,12 @@ final class TreeGrid {
         int[] parent = new int[n];
         int[] lastInner = new int[branches];
         int[] nearVertex = new int[branches];
+        innerFrom = new int[branches];
+        innerTo = new int[branches];
+        farNode = new int[branches];
+        nearNode = new int[branches];
+        vertexNodes = new int[vertices];
+        int vertexCount = 0;
         int next = 0;
         List<int[]> stack = new ArrayList<>();
         stack.add(new int[] {root, -1, 0});   // vertex, branch it was reached through, next incident entry
@@ -92,6 +108,7 @@ final class TreeGrid {
             }
             stack.remove(stack.size() - 1);
             vertexNode[v] = next;
+            vertexNodes[vertexCount++] = next;
             int first = tree.incident(v)[0];
             nodeBranch[next] = first >> 1;
             nodeUm[next] = (first & 1) == 0 ? 0 : tree.branches().get(first >> 1).lengthUm();
@@ -105,6 +122,8 @@ final class TreeGrid {
             int nb = branchNodes[b].length;
             boolean fromStart = tree.vertex(b, 0) == v;
             double h = domain.spacingUm(b);
+            farNode[b] = next - 1;
+            innerFrom[b] = next;
             for (int step = 1; step < nb - 1; step++) {
                 int k = fromStart ? step : nb - 1 - step;
                 branchNodes[b][k] = next;
@@ -114,6 +133,7 @@ final class TreeGrid {
                 next++;
             }
             lastInner[b] = next - 1;
+            innerTo[b] = next;
             nearVertex[b] = tree.vertex(b, fromStart ? 1 : 0);
         }
         for (int b = 0; b < branches; b++) {
@@ -121,6 +141,7 @@ final class TreeGrid {
             branchNodes[b][0] = vertexNode[tree.vertex(b, 0)];
             branchNodes[b][nb - 1] = vertexNode[tree.vertex(b, 1)];
             parent[lastInner[b]] = vertexNode[nearVertex[b]];
+            nearNode[b] = vertexNode[nearVertex[b]];
         }
         solver = new TreeSolver(parent);
         lap = new TreeMatrix(parent);

@@ -141,7 +141,49 @@ class TreeSolverTest {
         double[] x = new double[n];
         cache.solve(f, rhs.clone(), x);
         // REF: EJML CommonOps_DDRM.solve (dense LU) [common practice]
-        assertArrayEquals(solveDense(parent, diag, toParent, fromParent, rhs), x, 1e-12);
+        assertArrayEquals(solveDense(parent, diag, toParent, fromParent, rhs), x, 1e-12, "branch by branch");
+        TreeSolver.Factors hines = new TreeSolver.Factors(n);
+        grid.solver.factor(diag, toParent, fromParent, hines, new double[n]);
+        double[] y = rhs.clone();
+        grid.solver.solve(hines, y, y);
+        // REF: EJML CommonOps_DDRM.solve (dense LU) [common practice]
+        assertArrayEquals(solveDense(parent, diag, toParent, fromParent, rhs), y, 1e-12, "Hines' order");
+        double[] inPlace = rhs.clone();
+        cache.solve(f, inPlace, inPlace);
+        assertArrayEquals(x, inPlace, 0, "branch by branch, in place");
+    }
+
+    @Test
+    void everyBranchLengthFromOneInnerNodeUpIsSolved() {
+        Random random = new Random(5);
+        for (double dx : new double[] {2.5, 1.7, 1.25, 1.0, 0.7, 0.45}) {
+            TreeGeometry tree = TreeGeometry.of(List.of(new TreeGeometry.Branch("p", 5, 1.0),
+                    new TreeGeometry.Branch("q", 3.4, 0.5), new TreeGeometry.Branch("r", 2.5, 0.7),
+                    new TreeGeometry.Branch("s", 7, 0.4)),
+                    List.of(TreeGeometry.Junction.of(end("p", TreeGeometry.End.START), end("q", TreeGeometry.End.END),
+                            end("r", TreeGeometry.End.START), end("s", TreeGeometry.End.END))))
+                    .withBoundary(end("q", TreeGeometry.End.START), Boundary.FIXED);
+            TreeGrid grid = new TreeGrid(new TreeDomain(tree, dx), 4);
+            int n = grid.n;
+            TreeCrankNicolsonCache cache = new TreeCrankNicolsonCache(grid);
+            double c = 0.1 + random.nextDouble();
+            TreeCrankNicolsonCache.Factors f = cache.get(c);
+            int[] parent = grid.solver.parents();
+            double[] diag = new double[n];
+            double[] toParent = new double[n];
+            double[] fromParent = new double[n];
+            double[] rhs = new double[n];
+            for (int i = 0; i < n; i++) {
+                diag[i] = grid.mass.diag[i] - c * grid.lap.diag[i];
+                toParent[i] = grid.mass.toParent[i] - c * grid.lap.toParent[i];
+                fromParent[i] = grid.mass.fromParent[i] - c * grid.lap.fromParent[i];
+                rhs[i] = random.nextGaussian();
+            }
+            double[] x = new double[n];
+            cache.solve(f, rhs.clone(), x);
+            // REF: EJML CommonOps_DDRM.solve (dense LU) [common practice]
+            assertArrayEquals(solveDense(parent, diag, toParent, fromParent, rhs), x, 1e-12, "dx = " + dx);
+        }
     }
 
     @Test
