@@ -67,6 +67,19 @@ public final class TreeRun {
      * @param offsets receives each branch's first column and, last, the total. Modified.
      */
     static OutputSampler sampler(TreeGrid grid, Map<String, double[]> positionsUm, int[] offsets) {
+        int[][] nodes = new int[2][];
+        double[] weight = sampling(grid, positionsUm, offsets, nodes);
+        return new OutputSampler(nodes[0], nodes[1], weight);
+    }
+
+    /**
+     * The two nodes and the weight of the second for every output position, branches in the map's order.
+     *
+     * @param offsets receives each branch's first column and, last, the total. Modified.
+     * @param nodes   receives the first nodes (row 0) and the second nodes (row 1). Modified.
+     * @return the weights
+     */
+    static double[] sampling(TreeGrid grid, Map<String, double[]> positionsUm, int[] offsets, int[][] nodes) {
         TreeGeometry tree = grid.domain.tree();
         int total = 0;
         int k = 0;
@@ -97,7 +110,9 @@ public final class TreeRun {
                 q++;
             }
         }
-        return new OutputSampler(from, to, weight);
+        nodes[0] = from;
+        nodes[1] = to;
+        return weight;
     }
 
     /**
