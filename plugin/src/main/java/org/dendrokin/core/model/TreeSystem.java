@@ -159,6 +159,110 @@ final class TreeSystem {
         }
     }
 
+    /**
+     * Solves A x = P v without forming the right-hand side P v first: each branch's inner rows of P v are formed
+     * inside its two-ended elimination, where the elimination's recurrences leave the processor time to spare (as
+     * the cable's fused step does), and the vertex rows are summed branch by branch. Same arithmetic as
+     * {@link TreeMatrix#apply} followed by {@link #solve}, up to rounding.
+     *
+     * @param f    factors of A
+     * @param p    the matrix P, on the same tree. Not modified.
+     * @param v    the vector. Not modified.
+     * @param work scratch of n values. Modified.
+     * @param x    receives x; must not be {@code v}. Modified.
+     */
+    void solveProduct(Factors f, TreeMatrix p, double[] v, double[] work, double[] x) {
+        double[] g = f.vertexRhs;
+        for (int k = 0; k < vertexNodes.length; k++) {
+            int node = vertexNodes[k];
+            g[k] = p.diag[node] * v[node];
+        }
+        for (int b = 0; b < from.length; b++) {
+            int s = from[b];
+            int e = to[b];
+            g[farVertex[b]] += p.toParent[farNode[b]] * v[s];
+            g[nearVertex[b]] += p.fromParent[e - 1] * v[e - 1];
+            double last = p.lower[e - 1] * v[e - 2] + p.diag[e - 1] * v[e - 1]
+                    + p.toParent[e - 1] * v[nearNode[b]];
+            solveBranchProduct(f, p, v, s, e, last, work, x);
+            g[farVertex[b]] -= f.farRow[b] * x[s];
+            g[nearVertex[b]] -= f.nearRow[b] * x[e - 1];
+        }
+        double[] xv = f.vertexX;
+        vertexSolver.solve(f.vertex, g, xv);
+        for (int k = 0; k < vertexNodes.length; k++) {
+            x[vertexNodes[k]] = xv[k];
+        }
+        for (int b = 0; b < from.length; b++) {
+            correct(x, f.yFar, f.yNear, xv[farVertex[b]], xv[nearVertex[b]], from[b], to[b]);
+        }
+    }
+
+    /**
+     * {@link #solveBranch} for the right-hand side P v on the block s .. e - 1, each row formed where the elimination
+     * reaches it; the block's last row, whose neighbour beyond the block is the near vertex, comes precomputed.
+     */
+    private static void solveBranchProduct(Factors f, TreeMatrix p, double[] v, int s, int e, double lastRow,
+            double[] work, double[] x) {
+        double[] elim = f.elim;
+        double[] subst = f.subst;
+        double[] ip = f.invPivot;
+        double[] lo = p.lower;
+        double[] d = p.diag;
+        double[] up = p.upper;
+        int m = s + (e - s) / 2;
+        int last = e - 1;
+        double top = 0;
+        double bottom = 0;
+        if (m > s) {
+            top = (lo[s] * v[s - 1] + d[s] * v[s] + up[s] * v[s + 1]) * ip[s];
+            work[s] = top;
+        }
+        if (m < last) {
+            bottom = lastRow * ip[last];
+            work[last] = bottom;
+        }
+        int i = s + 1;
+        int j = last - 1;
+        for (; i < m && j > m; i++, j--) {
+            double ri = lo[i] * v[i - 1] + d[i] * v[i] + up[i] * v[i + 1];
+            double rj = lo[j] * v[j - 1] + d[j] * v[j] + up[j] * v[j + 1];
+            top = Math.fma(-elim[i], top, ri * ip[i]);
+            work[i] = top;
+            bottom = Math.fma(-elim[j], bottom, rj * ip[j]);
+            work[j] = bottom;
+        }
+        for (; i < m; i++) {
+            top = Math.fma(-elim[i], top, (lo[i] * v[i - 1] + d[i] * v[i] + up[i] * v[i + 1]) * ip[i]);
+            work[i] = top;
+        }
+        for (; j > m; j--) {
+            bottom = Math.fma(-elim[j], bottom, (lo[j] * v[j - 1] + d[j] * v[j] + up[j] * v[j + 1]) * ip[j]);
+            work[j] = bottom;
+        }
+        double rm = m == last ? lastRow : lo[m] * v[m - 1] + d[m] * v[m] + up[m] * v[m + 1];
+        double value = rm * ip[m] - elim[m] * top - subst[m] * bottom;
+        x[m] = value;
+        double upValue = value;
+        double down = value;
+        i = m - 1;
+        j = m + 1;
+        for (; i >= s && j <= last; i--, j++) {
+            upValue = Math.fma(-subst[i], upValue, work[i]);
+            x[i] = upValue;
+            down = Math.fma(-subst[j], down, work[j]);
+            x[j] = down;
+        }
+        for (; i >= s; i--) {
+            upValue = Math.fma(-subst[i], upValue, work[i]);
+            x[i] = upValue;
+        }
+        for (; j <= last; j++) {
+            down = Math.fma(-subst[j], down, work[j]);
+            x[j] = down;
+        }
+    }
+
     /** x -= y_far x_far + y_near x_near over one branch's inner nodes (a loop the JIT vectorises). */
     private static void correct(double[] x, double[] yFar, double[] yNear, double far, double near, int s, int e) {
         for (int i = s; i < e; i++) {
