@@ -23,6 +23,7 @@ import org.dendrokin.core.spread.SpreadAnalysis;
 import org.dendrokin.io.calib.CalibrationConfig;
 import org.dendrokin.io.calib.CalibrationSetup;
 import org.dendrokin.io.calib.SessionCalibration;
+import org.dendrokin.io.calib.SessionLifetime;
 import org.dendrokin.io.movie.Movie;
 import org.dendrokin.io.path.PathFiles;
 import org.dendrokin.io.session.FitSettings;
@@ -128,21 +129,44 @@ public final class SessionRunner {
             movie.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.MOVIE, w)));
             SessionCalibration.requireChannels(calibration, sessionFile, movieFile, movie.channelCount());
             CalibrationSetup.RatioChannels channels = calibration.channels();
-            FrameSource frames = movie.channel(channels == null ? 0 : channels.numerator() - 1);
-            if (movie.channelCount() > 1 && channels == null) {
-                warnings.add(new Warning(Warning.Topic.MOVIE, String.format(Locale.ROOT,
-                        "The movie has %d channels; the first was analysed.", movie.channelCount())));
+            SessionConfig.Acquisition acq = config.acquisition();
+            int signalChannel = acq.channel() > 0 ? acq.channel() : channels == null ? 1 : channels.numerator();
+            requireChannel(sessionFile, movieFile, movie, "channel", signalChannel);
+            if (acq.structuralChannel() > 0) {
+                requireChannel(sessionFile, movieFile, movie, "structural_channel", acq.structuralChannel());
+            }
+            if (movie.zSlices() > 1 && acq.zSlice() > movie.zSlices()) {
+                throw new InputException(sessionFile, String.format(Locale.ROOT, "key \"z.slice\" is %d, but %s has "
+                        + "%d focal planes", acq.zSlice(), movieFile.getFileName(), movie.zSlices()));
+            }
+            FrameSource frames = planes(movie, signalChannel - 1, acq);
+            if (movie.channelCount() > 1 && channels == null && acq.channel() == 0) {
+                warnings.add(new Warning(Warning.Topic.MOVIE, String.format(Locale.ROOT, "The movie has %d channels; "
+                        + "the first was analysed (set \"channel\" to choose another).", movie.channelCount())));
+            }
+            if (movie.zSlices() > 1) {
+                warnings.add(new Warning(Warning.Topic.MOVIE, acq.zSlice() > 0
+                        ? String.format(Locale.ROOT, "The movie has %d focal planes at each time point; plane %d was "
+                                + "analysed.", movie.zSlices(), acq.zSlice())
+                        : String.format(Locale.ROOT, "The movie has %d focal planes at each time point; their %s "
+                                + "projection was analysed (set \"z\" to choose a plane or the other projection).",
+                                movie.zSlices(), acq.zProjection().equals("max") ? "maximum" : "mean")));
+            }
+            SessionLifetime lifetime = calibration.lifetime() == null ? null
+                    : SessionLifetime.open(calibration, sessionFile, movie);
+            if (lifetime != null) {
+                lifetime.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.MOVIE, w)));
             }
             inputs = new SessionInputs(sessionDir, sessionName(sessionDir), config, movieFile, pathFile,
                     movie.bitDepth(), movie.channelCount(), calibration, warnings);
             AnalysisRequest request = new AnalysisRequest(frames,
-                    channels == null ? null : movie.channel(channels.denominator() - 1), path, movie.pixelSizeUm(),
-                    movie.frameIntervalS(), config.pathWidthUm(), background(config, sessionDir, frames),
-                    SessionCalibration.request(calibration),
-                    new Preprocessing.Options(config.stimulusTimeS(), config.stimulusPositionUm(),
-                            config.baselineFrames(), config.bleachCorrection()),
-                    fitRequest(config.models(), config.fit()));
-            try {
+                    channels == null ? null : planes(movie, channels.denominator() - 1, acq),
+                    acq.structuralChannel() > 0 ? planes(movie, acq.structuralChannel() - 1, acq) : null, path,
+                    movie.pixelSizeUm(), movie.frameIntervalS(), config.pathWidthUm(),
+                    background(config, sessionDir, frames), SessionCalibration.request(calibration, lifetime),
+                    config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
+                    acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()));
+            try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {
                 Path file = e.subject() == AnalysisInputException.Subject.PATH ? pathFile : sessionFile;
@@ -152,6 +176,23 @@ public final class SessionRunner {
         progress.checkCancelled();
         Path report = SessionOutputs.write(outDir, inputs, analysis, progress);
         return new Result(inputs, analysis, outDir, report);
+    }
+
+    /** Checks that a channel named in session.json exists in the movie. */
+    private static void requireChannel(Path sessionFile, Path movieFile, Movie movie, String key, int channel) {
+        if (channel > movie.channelCount()) {
+            throw new InputException(sessionFile, String.format(Locale.ROOT, "key \"%s\" is %d, but %s has %d "
+                    + "channel%s", key, channel, movieFile.getFileName(), movie.channelCount(),
+                    movie.channelCount() == 1 ? "" : "s"));
+        }
+    }
+
+    /** A channel's frames: its one focal plane, the chosen plane of a z-stack, or the projection over planes. */
+    private static FrameSource planes(Movie movie, int channel, SessionConfig.Acquisition acq) {
+        if (movie.zSlices() == 1) {
+            return movie.channel(channel);
+        }
+        return acq.zSlice() > 0 ? movie.slice(channel, acq.zSlice() - 1) : movie.projected(channel, acq.zProjection());
     }
 
     /** The fit settings of session.json as the analysis takes them. */

@@ -33,7 +33,8 @@ import org.dendrokin.io.KymographCsv;
  * form, analytic Jacobian, one-pass normal equations). Nagumo: D, k, a, amplitude, baseline free (engine on a grid
  * of h = 0.5 um at a fixed time step, forward-difference Jacobian, one-pass normal equations, fitted over a
  * growing window of frames: {@link EngineFitModel#fitInStages}). Both with Student t intervals from the Jacobian;
- * profile-likelihood intervals are timed separately. Each case is warmed up by repeated fits for 2 s (at least one
+ * profile-likelihood intervals, and the fit with its robust-interval assessment (the default), are timed
+ * separately. Each case is warmed up by repeated fits for 2 s (at least one
  * fit) before the best of the timed repeats is taken; the first, cold fit of each case is printed too.
  *
  * <p>Usage: {@code java -cp "$(bench/test-classpath.sh)" org.dendrokin.bench.FitBenchmark OUT_DIR [repeats] [cases]},
@@ -59,7 +60,7 @@ public final class FitBenchmark {
         }
         Files.createDirectories(out);
         System.out.println("case,positions,frames,java_fit_s,java_profile_s,evaluations,rel_err_D,rel_err_k,"
-                + "rel_err_third,ci_D_lo,ci_D_hi,java_first_fit_s");
+                + "rel_err_third,ci_D_lo,ci_D_hi,java_first_fit_s,java_robust_s");
         if (!cases.equals("nagumo")) {
             for (int[] size : SIZES) {
                 diffusionDecay(out, size[0], size[1], repeats);
@@ -151,7 +152,9 @@ public final class FitBenchmark {
 
     private static void time(String name, int nx, int nt, Fitter fitter, double[] start, int repeats,
                              double[] truth) {
-        ModelFit.Options plain = ModelFit.Options.defaults().withProfiles(false).withTolerance(TOLERANCE);
+        // the fit itself with its Wald-t intervals; the robust intervals and the profiles are timed separately
+        ModelFit.Options plain = ModelFit.Options.defaults().withProfiles(false).withRobust(false)
+                .withTolerance(TOLERANCE);
         // Warm-up, so that the timed fits run compiled code: repeated fits for 2 s (at least one fit).
         long warmStart = System.nanoTime();
         FitResult r = fitter.fit(List.of(start), plain);
@@ -165,15 +168,20 @@ public final class FitBenchmark {
             r = fitter.fit(List.of(start), plain);
             best = Math.min(best, (System.nanoTime() - t) / 1e9);
         }
+        double robust = Double.POSITIVE_INFINITY;
+        for (int i = 0; i < repeats; i++) {
+            long t = System.nanoTime();
+            fitter.fit(List.of(start), plain.withRobust(true));
+            robust = Math.min(robust, (System.nanoTime() - t) / 1e9);
+        }
         long tp = System.nanoTime();
         FitResult withProfiles = fitter.fit(List.of(start), plain.withProfiles(true));
         double profile = (System.nanoTime() - tp) / 1e9;
         List<ParameterEstimate> p = r.parameters();
         ParameterEstimate pd = withProfiles.parameters().get(0);
-        System.out.println(String.format(Locale.ROOT, "%s,%d,%d,%.4f,%.4f,%d,%.4f,%.4f,%.4f,%.5g,%.5g,%.4f", name, nx,
-                nt,
-                best, profile, r.evaluations(), rel(p.get(0).value(), truth[0]), rel(p.get(1).value(), truth[1]),
-                rel(p.get(2).value(), truth[2]), pd.ci95().lower(), pd.ci95().upper(), cold));
+        System.out.println(String.format(Locale.ROOT, "%s,%d,%d,%.4f,%.4f,%d,%.4f,%.4f,%.4f,%.5g,%.5g,%.4f,%.4f", name,
+                nx, nt, best, profile, r.evaluations(), rel(p.get(0).value(), truth[0]), rel(p.get(1).value(), truth[1]),
+                rel(p.get(2).value(), truth[2]), pd.ci95().lower(), pd.ci95().upper(), cold, robust));
     }
 
     private static double rel(double v, double truth) {

@@ -29,7 +29,7 @@ class FitRowsTest {
         Map<String, Double> weights = new LinkedHashMap<>();
         weights.put("diffusion-decay", 0.93);
         KymographFits.Outcome outcome = new KymographFits.Outcome(List.of(fit), "diffusion-decay", "aicc", weights,
-                new double[] {0.1}, null, List.of(), Map.of());
+                new double[] {0.1}, null, List.of());
         ResultsTable t = Tables.quantities();
         Analyze_Session_Folder.addFits(t, outcome);
         assertEquals(8, t.size(), "D, k, length constant, AICC, AIC, BIC, RMSE, Akaike weight");

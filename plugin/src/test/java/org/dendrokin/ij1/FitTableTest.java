@@ -26,7 +26,7 @@ class FitTableTest {
         FitResult fit = new FitResult("nagumo", true, null, List.of(d), List.of(speed), 100, 1.0, 0.1,
                 10, 11, 12, null, null, List.of(), 5);
         KymographFits.Outcome outcome = new KymographFits.Outcome(List.of(fit), "nagumo", "aicc",
-                Map.of("nagumo", 1.0), new double[] {0.1}, null, List.of(), Map.of());
+                Map.of("nagumo", 1.0), new double[] {0.1}, null, List.of());
 
         ResultsTable t = Fit_Spread_Models.table(outcome);
 
@@ -47,7 +47,7 @@ class FitTableTest {
         FitResult fit = new FitResult("diffusion-decay", true, null, List.of(k), List.of(), 100, 1.0, 0.1,
                 10, 11, 12, null, null, List.of(), 5);
         KymographFits.Outcome outcome = new KymographFits.Outcome(List.of(fit), "diffusion-decay", "aicc",
-                Map.of("diffusion-decay", 1.0), new double[] {0.1}, null, List.of(), Map.of());
+                Map.of("diffusion-decay", 1.0), new double[] {0.1}, null, List.of());
 
         ResultsTable t = Fit_Spread_Models.table(outcome);
 

@@ -42,13 +42,19 @@ class SessionFitSettingsTest {
         assertEquals("bic", f.get("weight_criterion").getAsString());
         JsonObject d = f.getAsJsonObject("parameters").getAsJsonObject("D");
         double value = d.get("value").getAsDouble();
-        JsonArray main = d.getAsJsonArray("ci95");
+        // the profile-likelihood interval is the reported one, or beside it when the robust interval is reported
+        JsonArray main = d.get("ci_method").getAsString().equals("profile-likelihood") ? d.getAsJsonArray("ci95")
+                : null;
         JsonArray boot = null;
         for (JsonElement e : d.getAsJsonArray("other_intervals")) {
             if (e.getAsJsonObject().get("ci_method").getAsString().equals("parametric-bootstrap")) {
                 boot = e.getAsJsonObject().getAsJsonArray("ci95");
             }
+            if (e.getAsJsonObject().get("ci_method").getAsString().equals("profile-likelihood")) {
+                main = e.getAsJsonObject().getAsJsonArray("ci95");
+            }
         }
+        assertTrue(main != null, "a profile-likelihood interval for D: " + d);
         assertTrue(boot != null, "a bootstrap interval for D: " + d);
         double lo = boot.get(0).getAsDouble();
         double hi = boot.get(1).getAsDouble();

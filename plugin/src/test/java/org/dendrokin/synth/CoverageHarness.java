@@ -59,6 +59,10 @@ public final class CoverageHarness {
                 seed -> SessionSpec.realistic(seed).withBleaching(SessionSpec.Bleaching.twoPhase()));
         add(m, "spine-entering", "realistic with a bright spine moving into the band from 5 s to 60 s",
                 seed -> SessionSpec.realistic(seed).withIntruder(SessionSpec.Intruder.entering(0.3, 5, 60)));
+        add(m, "no-bleaching", "realistic without photobleaching (to see what bleaching and its correction cost)",
+                seed -> SessionSpec.realistic(seed).withBleaching(SessionSpec.Bleaching.NONE));
+        add(m, "no-background", "realistic without background structure (to see what the background costs)",
+                seed -> SessionSpec.realistic(seed).withBackground(SessionSpec.Background.NONE));
         add(m, "freehand", "realistic with a freehand path",
                 seed -> SessionSpec.realistic(seed).withPath(SessionSpec.DrawnPath.freehand()));
         return m;

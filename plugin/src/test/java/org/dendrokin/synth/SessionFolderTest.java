@@ -80,8 +80,9 @@ class SessionFolderTest {
         assertEquals(truth.stimulus().timeS(), config.stimulusTimeS(), 0, "stimulus time (s)");
         assertEquals(truth.stimulus().pathPositionUm(), config.stimulusPositionUm(), 1e-12, "stimulus position (um)");
         assertEquals(java.util.List.of("diffusion-decay"), config.models());
-        assertTrue(config.warnings().stream().anyMatch(s -> s.contains("\"channel\"")),
-                "the channel key is written for the analysis to come; today it is an unknown key");
+        assertEquals(truth.movie().signalChannel(), config.acquisition().channel(), "signal channel");
+        assertEquals(truth.movie().structuralChannel(), config.acquisition().structuralChannel(),
+                "structural channel");
         assertEquals(Roi.FREELINE, RoiDecoder.open(w.roi().toString()).getType(), "ROI type");
 
         Truth back = Truth.read(dir.resolve(SessionGenerator.TRUTH));

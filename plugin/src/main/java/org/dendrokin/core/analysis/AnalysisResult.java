@@ -7,6 +7,7 @@ import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.kymo.Extraction;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.spread.SpreadAnalysis;
 
@@ -25,15 +26,46 @@ import org.dendrokin.core.spread.SpreadAnalysis;
  * @param fits           the model fits and their comparison, or null when none could run
  * @param skipped        default models that were not fitted because the data do not call for them
  * @param headline       the numbers shown first
+ * @param motion         what was done about motion, and the measured shifts
+ * @param normalisation  normalisation by a structural channel, if any
+ * @param stimuli        each stimulus (trains merged) with the spread measured over its own window; the first is
+ *                       the one of {@code spread}; empty when no stimulus is known
  * @param warnings       plain sentences, in the order they arose
  */
 public record AnalysisResult(Movie movie, Extraction extraction, Background background, float[] referenceImage,
                              Preprocessing.Result preprocessing, CalibrationStage.Calibrated calibrated,
                              SpreadAnalysis.Result spread, KymographFits.Outcome fits, List<SkippedModel> skipped,
-                             Headline headline, List<Warning> warnings) {
+                             Headline headline, Motion motion, Normalisation normalisation,
+                             List<StimulusOutcome> stimuli, List<Warning> warnings) {
     public AnalysisResult {
         skipped = List.copyOf(skipped);
+        stimuli = List.copyOf(stimuli);
         warnings = List.copyOf(warnings);
+    }
+
+    /**
+     * Motion of the specimen.
+     *
+     * @param mode  what the analysis was asked to do
+     * @param trace the measured shift of every frame, or null when not measured
+     */
+    public record Motion(MotionMode mode, MotionTrace trace) {
+        /** True when the kymographs were taken along the moving path. */
+        public boolean corrected() {
+            return mode == MotionMode.CORRECT && trace != null;
+        }
+    }
+
+    /**
+     * One stimulus and its spread.
+     *
+     * @param stimulus   where and when, with the spot's distance off the path and the pulses of a train
+     * @param spread     the spread measured from this stimulus to the next, or null when it could not be
+     * @param firstFrame first frame of the window measured (inclusive)
+     * @param endFrame   end of the window (exclusive)
+     */
+    public record StimulusOutcome(ResolvedStimulus stimulus, SpreadAnalysis.Result spread, int firstFrame,
+                                  int endFrame) {
     }
 
     /**
@@ -52,20 +84,33 @@ public record AnalysisResult(Movie movie, Extraction extraction, Background back
     }
 
     /**
-     * The background subtracted.
+     * The background subtracted: {@code perFrame[f] + alongPath[p]} at frame f and position p.
      *
      * @param perFrame    grey value of each frame
+     * @param alongPath   grey value added at each position along the path, or null when the background is the same
+     *                    all along
      * @param value       a representative value (the given one, the estimate, or the median over frames)
      * @param description one or two sentences for the report
      */
-    public record Background(double[] perFrame, double value, String description) {
+    public record Background(double[] perFrame, double[] alongPath, double value, String description) {
         public Background {
             perFrame = perFrame.clone();
+            alongPath = alongPath == null ? null : alongPath.clone();
+        }
+
+        /** One level for every position. */
+        public Background(double[] perFrame, double value, String description) {
+            this(perFrame, null, value, description);
         }
 
         @Override
         public double[] perFrame() {
             return perFrame.clone();
+        }
+
+        @Override
+        public double[] alongPath() {
+            return alongPath == null ? null : alongPath.clone();
         }
     }
 

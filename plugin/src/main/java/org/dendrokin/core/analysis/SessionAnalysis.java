@@ -11,7 +11,6 @@ import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.kymo.Extraction;
 import org.dendrokin.core.kymo.FrameSource;
 import org.dendrokin.core.kymo.Kymograph;
-import org.dendrokin.core.kymo.KymographExtractor;
 import org.dendrokin.core.model.BuiltInModel;
 import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.core.preprocess.BackgroundEstimator;
@@ -19,6 +18,7 @@ import org.dendrokin.core.preprocess.BaselineChange;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.core.units.Unit;
 
 /**
  * One analysis from a movie channel and a path to typed results, in this order: the kymograph along the path;
@@ -28,6 +28,12 @@ import org.dendrokin.core.spread.SpreadAnalysis;
  * ({@link Headline}). Nothing here reads or writes a file: the caller opens the movie and writes the outputs.
  */
 public final class SessionAnalysis {
+    /** Gap between the band's edge and the pixels the background beside the path is read from, um (spines). */
+    static final double BESIDE_GAP_UM = 2.5;
+    /** Depth of the strip beside the path the background is read from, um. */
+    static final double BESIDE_DEPTH_UM = 2.0;
+    /** Half-length along the path over which the background beside it is pooled, um. */
+    static final double BESIDE_WINDOW_UM = 2.5;
     /** Frames averaged for the reference image of the path picture. */
     private static final int REFERENCE_FRAMES = 10;
 
@@ -47,8 +53,11 @@ public final class SessionAnalysis {
         FrameSource frames = request.signal();
         double px = request.pixelSizeUm();
         double dt = request.frameIntervalS();
-        Extraction extraction = KymographExtractor.extract(frames, request.path(), px, dt, request.pathWidthUm(), px,
-                progress);
+        List<ResolvedStimulus> stimuli = Stimuli.resolve(request.stimuli(), request.path(), px,
+                request.pathWidthUm(), request.trainGapS(), warnings);
+        ResolvedStimulus primary = stimuli.get(0);
+        MotionStage motion = MotionStage.measure(request, primary, warnings, progress);
+        Extraction extraction = motion.extract(frames, progress);
         if (extraction.fractionOutside() > 0.5) {
             throw new AnalysisInputException(AnalysisInputException.Subject.PATH, String.format(Locale.ROOT,
                     "%.0f%% of the path lies outside the %d x %d pixel movie", 100 * extraction.fractionOutside(),
@@ -61,39 +70,118 @@ public final class SessionAnalysis {
         AnalysisResult.Background background = background(request.background(), frames, extraction, request, progress);
         Kymograph ratio = null;
         if (request.denominator() != null) {
-            ratio = ratio(request, extraction, background, progress);
+            ratio = ratio(request, motion, extraction, background, progress);
         }
+        Preprocessing.Options options = new Preprocessing.Options(finiteOrNull(primary.timeS()),
+                finiteOrNull(primary.positionUm()), request.baselineFrames(), request.bleachCorrection());
         Preprocessing.Result pre;
         try {
-            pre = Preprocessing.run(extraction.kymograph(), background.perFrame(), request.preprocessing());
+            pre = Preprocessing.run(extraction.kymograph(), background.perFrame(), background.alongPath(), options);
         } catch (IllegalArgumentException e) {
             throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, e.getMessage(), e);
         }
         float[] reference = meanFrame(frames, pre.baselineFirst(), pre.baselineLast());
         pre.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.PREPROCESSING, w)));
 
+        CalibrationStage.Lifetime lifetime = CalibrationStage.lifetime(request.calibration(),
+                channel -> motion.extract(channel, progress).kymograph(), request.pathWidthUm(), px);
         CalibrationStage.Calibrated calibrated = CalibrationStage.apply(request.calibration(),
-                pre.bleach().corrected(), pre.deltaF().kymograph(), ratio, pre.baselineFirst(), pre.baselineLast());
+                pre.bleach().corrected(), pre.deltaF().kymograph(), ratio, lifetime, pre.baselineFirst(),
+                pre.baselineLast());
+        if (request.normalisation() != Normalisation.NONE) {
+            calibrated = StructuralNormalisation.apply(request, motion, extraction, pre, background, warnings,
+                    progress);
+        }
         calibrated.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.CALIBRATION, w)));
         Kymograph signal = calibrated.signal();
         progress.checkCancelled();
 
         Preprocessing.Stimulus stimulus = pre.stimulus();
         SpreadAnalysis.Result spread = null;
+        List<AnalysisResult.StimulusOutcome> outcomes = new ArrayList<>();
+        Kymograph fitted = signal;
         if (stimulus.known()) {
             BaselineChange.Result change = BaselineChange.of(signal, pre.baselineFirst(), pre.baselineLast());
-            spread = SpreadAnalysis.measure(change.kymograph(), stimulus.timeS(), stimulus.positionUm(),
-                    change.noiseSd());
+            int end = stimuli.size() > 1 ? signal.firstFrameAtOrAfter(stimuli.get(1).timeS()) : signal.frameCount();
+            Kymograph window = end < signal.frameCount() && end > 0 ? change.kymograph().frames(0, end)
+                    : change.kymograph();
+            spread = SpreadAnalysis.measure(window, stimulus.timeS(), stimulus.positionUm(), change.noiseSd());
             spread.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SPREAD, w)));
+            ResolvedStimulus first = new ResolvedStimulus(stimulus.timeS(), stimulus.positionUm(),
+                    primary.offPathUm(), primary.pulses(), primary.lastPulseS());
+            outcomes.add(new AnalysisResult.StimulusOutcome(first, spread, 0, window.frameCount()));
+            if (stimuli.size() > 1 && end > 0 && end < signal.frameCount()) {
+                fitted = signal.frames(0, end);
+                warnings.add(new Warning(Warning.Topic.FIT, String.format(Locale.ROOT, "The models were fitted to the "
+                        + "response to the first stimulus only, up to the next stimulus at %.3g s.",
+                        stimuli.get(1).timeS())));
+            }
+            outcomes.addAll(laterStimuli(change, stimuli, warnings));
         }
         List<SkippedModel> skipped = new ArrayList<>();
-        KymographFits.Outcome fits = fit(request.fits(), signal, pre, spread, skipped, warnings, progress);
+        KymographFits.Outcome fits = fit(request.fits(), fitted, pre, spread, skipped, warnings, progress);
         Headline headline = Headline.choose(spread, fits, warnings);
 
         AnalysisResult.Movie movie = new AnalysisResult.Movie(frames.width(), frames.height(), frames.frameCount(),
                 px, dt, request.path().lengthPx() * px, request.pathWidthUm());
         return new AnalysisResult(movie, extraction, background, reference, pre, calibrated, spread, fits, skipped,
-                headline, warnings);
+                headline, new AnalysisResult.Motion(request.motion(), motion.trace()), request.normalisation(),
+                outcomes, warnings);
+    }
+
+    /**
+     * The spread of each stimulus after the first, each over its own window: from its time to the next
+     * stimulus (or the movie's end), as the change from the mean of the (up to five) frames just before it, so that
+     * the tail of the earlier response does not count.
+     */
+    private static List<AnalysisResult.StimulusOutcome> laterStimuli(BaselineChange.Result change,
+            List<ResolvedStimulus> stimuli, List<Warning> warnings) {
+        List<AnalysisResult.StimulusOutcome> out = new ArrayList<>();
+        Kymograph k = change.kymograph();
+        int nx = k.positionCount();
+        for (int i = 1; i < stimuli.size(); i++) {
+            ResolvedStimulus s = stimuli.get(i);
+            int start = k.firstFrameAtOrAfter(s.timeS());
+            int end = i + 1 < stimuli.size() ? k.firstFrameAtOrAfter(stimuli.get(i + 1).timeS()) : k.frameCount();
+            int before = Math.max(0, start - 5);
+            if (start <= before || end - start < 4 || !Double.isFinite(s.positionUm())) {
+                warnings.add(new Warning(Warning.Topic.SPREAD, String.format(Locale.ROOT, "The spread of the "
+                        + "stimulus at %.3g s could not be measured: it needs a place along the path, frames before "
+                        + "it and at least 4 frames before the next one.", s.timeS())));
+                out.add(new AnalysisResult.StimulusOutcome(s, null, start, end));
+                continue;
+            }
+            double[] level = new double[nx];
+            for (int p = 0; p < nx; p++) {
+                double sum = 0;
+                int n = 0;
+                for (int f = before; f < start; f++) {
+                    double v = k.value(f, p);
+                    if (Double.isFinite(v)) {
+                        sum += v;
+                        n++;
+                    }
+                }
+                level[p] = n > 0 ? sum / n : Double.NaN;
+            }
+            Kymograph window = k.frames(before, end);
+            double[] v = window.values();
+            for (int f = 0; f < window.frameCount(); f++) {
+                for (int p = 0; p < nx; p++) {
+                    v[f * nx + p] -= level[p];
+                }
+            }
+            SpreadAnalysis.Result spread = SpreadAnalysis.measure(window.withValues(v, window.signalUnit()),
+                    s.timeS(), s.positionUm(), change.noiseSd());
+            spread.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SPREAD, String.format(Locale.ROOT,
+                    "Stimulus at %.3g s: %s", s.timeS(), w))));
+            out.add(new AnalysisResult.StimulusOutcome(s, spread, before, end));
+        }
+        return out;
+    }
+
+    private static Double finiteOrNull(double v) {
+        return Double.isFinite(v) ? v : null;
     }
 
     /**
@@ -132,6 +220,11 @@ public final class SessionAnalysis {
         if (pre.baselineLast() >= pre.baselineFirst()) {
             setup = setup.withBaselineFrames(pre.baselineFirst(), pre.baselineLast());
         }
+        if (pre.bleach().applied() && signal.signalUnit().equals(Unit.DF_F0.symbol())) {
+            // the bleaching correction's own error would otherwise end up in the decay rate
+            setup = setup.withResidualBleaching(0.5 * (signal.timeS(pre.baselineFirst())
+                    + signal.timeS(pre.baselineLast())));
+        }
         KymographFits.Outcome outcome = KymographFits.fit(signal, setup, spread, progress);
         outcome.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.FIT, w)));
         outcome.best().ifPresent(best -> best.warnings().forEach(
@@ -149,23 +242,46 @@ public final class SessionAnalysis {
     }
 
     /** The ratio kymograph: each channel minus its own background, numerator over denominator. */
-    private static Kymograph ratio(AnalysisRequest request, Extraction numerator,
+    private static Kymograph ratio(AnalysisRequest request, MotionStage motion, Extraction numerator,
                                    AnalysisResult.Background numeratorBackground, Progress progress) {
         FrameSource denominator = request.denominator();
-        double px = request.pixelSizeUm();
         int frames = request.signal().frameCount();
-        Kymograph denRaw = KymographExtractor.extract(denominator, request.path(), px, request.frameIntervalS(),
-                request.pathWidthUm(), px, progress).kymograph();
+        Kymograph denRaw = motion.extract(denominator, progress).kymograph();
         CalibrationRequest cal = request.calibration();
-        double[] numBg = cal.numeratorBackground() == null ? numeratorBackground.perFrame()
-                : constant(cal.numeratorBackground(), frames);
-        double[] denBg = cal.denominatorBackground() != null ? constant(cal.denominatorBackground(), frames)
-                : background(request.background(), denominator, numerator, request, progress).perFrame();
-        return CalibrationStage.ratio(numerator.kymograph(), numBg, denRaw, denBg);
+        Kymograph num = numerator.kymograph();
+        double[] numBg;
+        if (cal.numeratorBackground() == null) {
+            numBg = numeratorBackground.perFrame();
+            num = minusAlongPath(num, numeratorBackground.alongPath());
+        } else {
+            numBg = constant(cal.numeratorBackground(), frames);
+        }
+        double[] denBg;
+        if (cal.denominatorBackground() != null) {
+            denBg = constant(cal.denominatorBackground(), frames);
+        } else {
+            AnalysisResult.Background b = background(request.background(), denominator, numerator, request, progress);
+            denBg = b.perFrame();
+            denRaw = minusAlongPath(denRaw, b.alongPath());
+        }
+        return CalibrationStage.ratio(num, numBg, denRaw, denBg);
+    }
+
+    /** The kymograph minus a background that varies along the path (unchanged for null). */
+    static Kymograph minusAlongPath(Kymograph k, double[] alongPath) {
+        if (alongPath == null) {
+            return k;
+        }
+        int nx = k.positionCount();
+        double[] v = k.values();
+        for (int i = 0; i < v.length; i++) {
+            v[i] -= alongPath[i % nx];
+        }
+        return k.withValues(v, k.signalUnit());
     }
 
     /** The background of one channel: the given value, the region's mean frame by frame, or the estimate. */
-    private static AnalysisResult.Background background(BackgroundRequest how, FrameSource frames,
+    static AnalysisResult.Background background(BackgroundRequest how, FrameSource frames,
                                                         Extraction extraction, AnalysisRequest request,
                                                         Progress progress) {
         int n = frames.frameCount();
@@ -190,7 +306,21 @@ public final class SessionAnalysis {
             throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, est.description()
                     + " Set key \"background\" to {\"value\": ...} or {\"roi\": \"file.roi\"}");
         }
-        return new AnalysisResult.Background(constant(est.value(), n), est.value(), est.description());
+        double inner = (request.pathWidthUm() / 2 + BESIDE_GAP_UM) / request.pixelSizeUm();
+        double outer = inner + BESIDE_DEPTH_UM / request.pixelSizeUm();
+        int halfWindow = (int) Math.round(BESIDE_WINDOW_UM / request.pixelSizeUm());
+        double[] beside = BackgroundEstimator.besidePath(frames, extraction.xPx(), extraction.yPx(), inner, outer,
+                halfWindow, picks, progress);
+        if (beside.length == 0 || !Double.isFinite(beside[0])) {
+            return new AnalysisResult.Background(constant(est.value(), n), est.value(), est.description());
+        }
+        double median = Robust.median(beside);
+        return new AnalysisResult.Background(new double[n], beside, median, String.format(Locale.ROOT, "Estimated "
+                + "from the data beside the path, position by position: the %.0fth percentile of the pixels %.3g to "
+                + "%.3g um from the path within %.3g um along it, averaged over %d frames (the value shown is the "
+                + "median along the path; far from the path the %s).", BackgroundEstimator.PERCENTILE,
+                request.pathWidthUm() / 2 + BESIDE_GAP_UM, request.pathWidthUm() / 2 + BESIDE_GAP_UM
+                        + BESIDE_DEPTH_UM, BESIDE_WINDOW_UM, picks.length, decapitalise(est.description())));
     }
 
     /** The mean of the region's pixels in every frame, reading only the rows the region covers. */
@@ -233,7 +363,11 @@ public final class SessionAnalysis {
         return sum;
     }
 
-    private static double[] constant(double value, int frames) {
+    private static String decapitalise(String s) {
+        return s.isEmpty() ? s : Character.toLowerCase(s.charAt(0)) + s.substring(1);
+    }
+
+    static double[] constant(double value, int frames) {
         double[] out = new double[frames];
         Arrays.fill(out, value);
         return out;

@@ -11,6 +11,12 @@ import org.dendrokin.core.units.Unit;
  * low-concentration end) to {@link #rangeEnd()} (the signal at saturation); outside it, and at either end,
  * {@link #concentrationMicromolar(double)} returns NaN, never an infinity or a negative number.
  *
+ * <p>A few methods report another quantity than a concentration, in their {@link #outputUnit()}: dF/F0
+ * ({@link NoCalibration}), R/R0 or dR/R0 ({@link RatioChange}), a lifetime in ns ({@link MeanLifetime}) or the
+ * fraction of bound sensor ({@link TwoStateLifetime}). They have no saturated end ({@link #saturates()} is
+ * false): {@link #concentrationMicromolar(double)} then returns that quantity, and values a little beyond the
+ * nominal range (a fraction bound of -0.02 at rest) are kept, since they are noise around a finite value.
+ *
  * <p>Implementations are immutable and thread-safe.
  */
 public interface Calibration {
@@ -26,7 +32,10 @@ public interface Calibration {
         return Unit.MICROMOLAR;
     }
 
-    /** Concentration (uM) for a signal, or NaN when the signal lies outside the open valid range. */
+    /**
+     * Concentration (uM; for methods without a saturated end, the value in {@link #outputUnit()}) for a signal, or
+     * NaN when the signal lies outside the open valid range.
+     */
     double concentrationMicromolar(double signal);
 
     /** The forward model: the signal that a concentration (uM, >= 0) would give. */
@@ -70,6 +79,15 @@ public interface Calibration {
     /** How a user calls the two ends of the range in sentences, e.g. {"Fmin", "Fmax"}. */
     default String[] rangeNames() {
         return new String[] {"Fmin", "Fmax"};
+    }
+
+    /**
+     * True when the method has a saturated end at which the error of the result has no bound, so that samples near
+     * it are flagged or set to NaN by the {@link SaturationLimits}; false for the methods that report a relative
+     * change, a lifetime or a fraction, which keep every sample for which their formula is finite.
+     */
+    default boolean saturates() {
+        return true;
     }
 
     /** Hill coefficient that governs error amplification near saturation (1 for 1:1 binding), or NaN. */

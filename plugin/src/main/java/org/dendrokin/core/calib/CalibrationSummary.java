@@ -79,6 +79,15 @@ public final class CalibrationSummary {
             return out;
         }
         long n = finiteInputs();
+        if (!calibration.saturates()) {
+            long lost = count(SampleStatus.ABOVE_RANGE) + count(SampleStatus.BELOW_RANGE);
+            if (lost > 0) {
+                out.add(String.format(Locale.ROOT, "%d of %d samples (%s) lie where the %s method's formula gives no "
+                        + "finite value and were set to NaN.", lost, n, Format.percent((double) lost / n),
+                        calibration.method()));
+            }
+            return out;
+        }
         String[] names = calibration.rangeNames();
         long above = count(SampleStatus.ABOVE_RANGE);
         if (above > 0) {

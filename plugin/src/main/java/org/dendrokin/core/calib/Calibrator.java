@@ -31,6 +31,13 @@ public final class Calibrator {
         if (calibration instanceof NoCalibration) {
             return SampleStatus.VALID;
         }
+        if (!calibration.saturates()) {
+            if (Double.isFinite(calibration.concentrationMicromolar(signal))) {
+                return SampleStatus.VALID;
+            }
+            double towardsEnd = (signal - calibration.rangeStart()) / (calibration.rangeEnd() - calibration.rangeStart());
+            return towardsEnd > 0.5 ? SampleStatus.ABOVE_RANGE : SampleStatus.BELOW_RANGE;
+        }
         double f = calibration.saturation(signal);
         if (!(f > 0)) {
             return SampleStatus.BELOW_RANGE;
@@ -55,7 +62,22 @@ public final class Calibrator {
      * @param signal signals in the unit of {@link Calibration#input()}. Not modified.
      */
     public static CalibratedValues apply(Calibration calibration, SaturationLimits limits, double[] signal) {
+        return apply(calibration, limits, signal, null);
+    }
+
+    /**
+     * Calibrates each signal as {@link #apply(Calibration, SaturationLimits, double[])} does, with the SD of each
+     * value from both the calibration's uncertainty and an independent error of the signal itself,
+     * {@link Calibration#concentrationSdMicromolar(double, double)} (e.g. the photon-count-limited precision of a
+     * lifetime).
+     *
+     * @param signal   signals in the unit of {@link Calibration#input()}. Not modified.
+     * @param signalSd standard deviation of each signal, same unit and length, or null for none. Not modified.
+     */
+    public static CalibratedValues apply(Calibration calibration, SaturationLimits limits, double[] signal,
+                                         double[] signalSd) {
         Checks.require(calibration != null && limits != null, "a calibration and limits are needed");
+        Checks.require(signalSd == null || signalSd.length == signal.length, "one signal SD per signal is needed");
         int n = signal.length;
         double[] values = new double[n];
         double[] sd = new double[n];
@@ -67,7 +89,8 @@ public final class Calibrator {
             counts[s.ordinal()]++;
             if (s == SampleStatus.VALID || s == SampleStatus.FLAGGED) {
                 values[i] = calibration.concentrationMicromolar(signal[i]);
-                sd[i] = calibration.concentrationSdMicromolar(signal[i]);
+                sd[i] = signalSd == null ? calibration.concentrationSdMicromolar(signal[i])
+                        : calibration.concentrationSdMicromolar(signal[i], signalSd[i]);
             } else {
                 values[i] = Double.NaN;
                 sd[i] = Double.NaN;
@@ -85,7 +108,20 @@ public final class Calibrator {
      * The result's unit is {@link Calibration#outputUnit()}; the SD kymograph is in the same unit.
      */
     public static CalibratedKymograph apply(Calibration calibration, SaturationLimits limits, Kymograph signal) {
-        CalibratedValues v = apply(calibration, limits, signal.values());
+        return apply(calibration, limits, signal, null);
+    }
+
+    /**
+     * Calibrates every sample of a kymograph, with the SD of each value from the calibration's uncertainty and from
+     * the signal's own SD ({@link #apply(Calibration, SaturationLimits, double[], double[])}).
+     *
+     * @param signalSd kymograph of the signal's SD on the same grid, or null for none. Not modified.
+     */
+    public static CalibratedKymograph apply(Calibration calibration, SaturationLimits limits, Kymograph signal,
+                                            Kymograph signalSd) {
+        Checks.require(signalSd == null || (signalSd.positionCount() == signal.positionCount()
+                && signalSd.frameCount() == signal.frameCount()), "the signal and its SD differ in size");
+        CalibratedValues v = apply(calibration, limits, signal.values(), signalSd == null ? null : signalSd.values());
         String unit = calibration.outputUnit().symbol();
         return new CalibratedKymograph(
                 new Kymograph(signal.distancesUm(), signal.timesS(), v.values(), unit),

@@ -63,6 +63,11 @@ public final class NoCalibration implements Calibration {
     }
 
     @Override
+    public boolean saturates() {
+        return false;
+    }
+
+    @Override
     public double hillCoefficient() {
         return Double.NaN;
     }

@@ -409,24 +409,7 @@ public final class DiffusionDecayPulse implements FitModel {
             s[4] = seq;  s[5] = sqq;  s[6] = sqx;  s[7] = sq;
             s[8] = sex;  s[9] = sqx;  s[10] = sxx; s[11] = sx;
             s[12] = se;  s[13] = sq;  s[14] = sx;  s[15] = s1;
-            // d value / d theta = M phi, phi = (e, eq, ex, 1); the rows follow the Jacobian of evaluate()
-            java.util.Arrays.fill(m, 0);
-            m[0] = -tau * val / v;
-            m[1] = tau * val / (v * v);
-            m[4] = -tau * val;
-            m[8] = shape;
-            if (iPosition >= 0) {
-                m[iPosition * 4 + 2] = val / v;
-            }
-            if (!point) {
-                m[iWidth * 4] = val / s0 - s0 * val / v;
-                m[iWidth * 4 + 1] = s0 * val / (v * v);
-            }
-            m[iBase * 4 + 3] = 1;
-            if (iTime >= 0) {
-                m[iTime * 4] = k * val + d * val / v;
-                m[iTime * 4 + 1] = -d * val / (v * v);
-            }
+            rowFactors(m, tau, val, v, shape, d, k, s0);
             for (int a = 0; a < np; a++) {
                 for (int j = 0; j < 4; j++) {
                     double acc = 0;
@@ -449,6 +432,100 @@ public final class DiffusionDecayPulse implements FitModel {
             part[chiOff] += chi;
         }
         return part;
+    }
+
+    /**
+     * The p x 4 matrix M (row-major) of one frame with d value / d theta = M phi, phi = (e, eq, ex, 1) the sums over
+     * images of g, (x - xi)^2 g and the signed (x - xi) g at a column; the rows follow the Jacobian of
+     * {@link #evaluate}.
+     */
+    private void rowFactors(double[] m, double tau, double val, double v, double shape, double d, double k,
+                            double s0) {
+        java.util.Arrays.fill(m, 0);
+        m[0] = -tau * val / v;
+        m[1] = tau * val / (v * v);
+        m[4] = -tau * val;
+        m[8] = shape;
+        if (iPosition >= 0) {
+            m[iPosition * 4 + 2] = val / v;
+        }
+        if (!point) {
+            m[iWidth * 4] = val / s0 - s0 * val / v;
+            m[iWidth * 4 + 1] = s0 * val / (v * v);
+        }
+        m[iBase * 4 + 3] = 1;
+        if (iTime >= 0) {
+            m[iTime * 4] = k * val + d * val / v;
+            m[iTime * 4 + 1] = -d * val / (v * v);
+        }
+    }
+
+    @Override
+    public boolean hasRangeEvaluation() {
+        return true;
+    }
+
+    /**
+     * Frame by frame as in the one-pass sums: the Gaussians of a frame from the recurrence of
+     * {@link #normalEquations}, then each Jacobian row as M phi.
+     */
+    @Override
+    public void evaluateRange(double[] p, int from, int to, double[] values, double[] jac) {
+        Checks.require(0 <= from && from <= to && to <= size(), "the range lies outside this model's grid");
+        int np = specs.size();
+        double d = p[0];
+        double k = p[1];
+        double amp = p[2];
+        double x0 = iPosition >= 0 ? p[iPosition] : fixedPositionUm;
+        double s0 = iWidth >= 0 ? p[iWidth] : 0;
+        double base = p[iBase];
+        double t0 = iTime >= 0 ? p[iTime] : fixedTimeS;
+        int nx = xUm.length;
+        double lenUm = walls == null ? 0 : walls[1] - walls[0];
+        Scratch work = scratch.get();
+        double[] e = work.e;
+        double[] eq = work.eq;
+        double[] ex = work.ex;
+        double[] m = work.m;
+        java.util.Arrays.fill(jac, 0, (to - from) * np, 0);
+        for (int f = from / nx; f * nx < to; f++) {
+            int first = Math.max(from, f * nx) - f * nx;
+            int last = Math.min(to, (f + 1) * nx) - f * nx;
+            double tau = tS[f] - t0;
+            if (tau < 0 || (point && tau <= 0)) {
+                for (int c = first; c < last; c++) {
+                    int i = f * nx + c - from;
+                    values[i] = base;
+                    jac[i * np + iBase] = 1;
+                }
+                continue;
+            }
+            double v = s0 * s0 + 2 * d * tau;
+            double decay = Math.exp(-k * tau);
+            double shape = (point ? 1 / Math.sqrt(2 * Math.PI * v) : s0 / Math.sqrt(v)) * decay;
+            double cut = 80 * v;
+            int images = walls == null ? 0
+                    : (int) Math.min(MAX_IMAGES, Math.ceil((Math.sqrt(cut) + lenUm) / (2 * lenUm)) + 1);
+            java.util.Arrays.fill(e, 0);
+            java.util.Arrays.fill(eq, 0);
+            java.util.Arrays.fill(ex, 0);
+            for (int mi = -images; mi <= images; mi++) {
+                addSource(x0 + 2 * mi * lenUm, 1, v, cut, e, eq, ex);
+                if (walls != null) {
+                    addSource(2 * walls[0] - x0 + 2 * mi * lenUm, -1, v, cut, e, eq, ex);
+                }
+            }
+            double val = amp * shape;
+            rowFactors(m, tau, val, v, shape, d, k, s0);
+            for (int c = first; c < last; c++) {
+                int i = f * nx + c - from;
+                values[i] = base + val * e[c];
+                int r = i * np;
+                for (int a = 0; a < np; a++) {
+                    jac[r + a] = m[a * 4] * e[c] + m[a * 4 + 1] * eq[c] + m[a * 4 + 2] * ex[c] + m[a * 4 + 3];
+                }
+            }
+        }
     }
 
     /**

@@ -7,7 +7,10 @@ import org.dendrokin.core.kymo.Kymograph;
 
 /**
  * Observations on a model's grid with their noise standard deviations. Grid points whose value is NaN (or
- * whose sigma is not a positive finite number) are left out of the fit. Immutable; arrays are copied.
+ * whose sigma is not a positive finite number) are left out of the fit. When the grid is a kymograph the data know
+ * its shape (points per row, row-major: {@code frame * columns + position}), so that intervals can take account of
+ * residuals that are correlated between neighbouring points; without a shape ({@link #columns()} 0) the points have
+ * no neighbours. Immutable; arrays are copied.
  */
 public final class FitData {
     private final double[] values;
@@ -15,14 +18,31 @@ public final class FitData {
     private final int[] used;
     private final double[] weights;
     private final double[] observed;
+    private final int columns;
 
     /**
+     * Data without a grid shape.
+     *
      * @param values observed value at each grid point, signal units; NaN marks a missing point
      * @param sigmas noise standard deviation at each grid point, signal units (weights are 1 / sigma^2)
      */
     public FitData(double[] values, double[] sigmas) {
+        this(values, sigmas, 0);
+    }
+
+    /**
+     * Data on a row-major grid of {@code columns} points per row (a kymograph: positions per frame).
+     *
+     * @param values  observed value at each grid point, signal units; NaN marks a missing point
+     * @param sigmas  noise standard deviation at each grid point, signal units (weights are 1 / sigma^2)
+     * @param columns points per row, dividing the number of points; 0 for data without a grid shape
+     */
+    public FitData(double[] values, double[] sigmas, int columns) {
         Checks.require(values.length == sigmas.length,
                 "there are " + values.length + " values but " + sigmas.length + " noise levels");
+        Checks.require(columns >= 0 && (columns == 0 || values.length % columns == 0),
+                columns + " points per row do not divide the " + values.length + " grid points");
+        this.columns = columns;
         this.values = values.clone();
         this.sigmas = sigmas.clone();
         this.used = java.util.stream.IntStream.range(0, values.length)
@@ -52,12 +72,32 @@ public final class FitData {
         for (int f = 0; f < k.frameCount(); f++) {
             System.arraycopy(sigmaPerPosition, 0, s, f * nx, nx);
         }
-        return new FitData(k.values(), s);
+        return new FitData(k.values(), s, nx);
+    }
+
+    /**
+     * A kymograph (row-major) with a noise level for every sample.
+     *
+     * @param k              the kymograph. Not modified.
+     * @param sigmaPerSample noise SD of each sample, signal units, row-major like {@link Kymograph#values()}
+     */
+    public static FitData ofSamples(Kymograph k, double[] sigmaPerSample) {
+        return new FitData(k.values(), sigmaPerSample, k.positionCount());
     }
 
     /** Number of grid points, used or not. */
     public int size() {
         return values.length;
+    }
+
+    /** Points per row of the grid (positions per frame of a kymograph), or 0 if the data have no grid shape. */
+    public int columns() {
+        return columns;
+    }
+
+    /** Rows of the grid (frames of a kymograph), or 0 if the data have no grid shape. */
+    public int rows() {
+        return columns == 0 ? 0 : values.length / columns;
     }
 
     /** Number of points that enter the fit. */
@@ -103,6 +143,6 @@ public final class FitData {
 
     /** The same grid and sigmas with other observed values (used for parametric bootstrap replicates). */
     public FitData withValues(double[] newValues) {
-        return new FitData(newValues, sigmas);
+        return new FitData(newValues, sigmas, columns);
     }
 }

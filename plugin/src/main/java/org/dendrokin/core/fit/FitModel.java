@@ -55,6 +55,28 @@ public interface FitModel {
         throw new UnsupportedOperationException(name() + " has no one-pass normal equations");
     }
 
+    /**
+     * True if {@link #evaluateRange} is implemented: the fitter then reads the Jacobian a block of points at a time
+     * after the fit (for the robust intervals) instead of evaluating all of it into an n x p array.
+     */
+    default boolean hasRangeEvaluation() {
+        return false;
+    }
+
+    /**
+     * Predicts the grid points [from, to) only, with their Jacobian rows. Must agree with {@link #evaluate} to
+     * rounding and be safe to call from several threads at once. Only called when {@link #hasRangeEvaluation()}.
+     *
+     * @param parameters natural parameter values. Not modified.
+     * @param from       first grid point, inclusive
+     * @param to         last grid point, exclusive
+     * @param values     receives f_i at index i - from, length at least to - from. Modified.
+     * @param jacobian   receives d f_i / d theta (natural scale), row-major (to - from) x p. Modified.
+     */
+    default void evaluateRange(double[] parameters, int from, int to, double[] values, double[] jacobian) {
+        throw new UnsupportedOperationException(name() + " does not evaluate ranges of its grid");
+    }
+
     /** The parameters whose intervals users read first (profiled when profiles are asked for). */
     default List<String> headlineParameters() {
         return List.of();

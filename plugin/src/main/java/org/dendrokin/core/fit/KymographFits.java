@@ -49,10 +49,13 @@ public final class KymographFits {
      * @param options             fitter options
      * @param stimulusWidthUm     width (Gaussian SD, um) of the unit pulse that starts the engine models, or NaN
      *                            to take it from the half-maximum width of the first frame after the stimulus
+     * @param residualBleachingFromS the middle of the baseline frames (s) when the diffusion-decay fit also fits the
+     *                            bleaching the correction left over ({@link ResidualBleaching}), NaN otherwise
      */
     public record Setup(double stimulusTimeS, double stimulusPositionUm, boolean fitStimulusTime,
                         boolean fitStimulusPosition, int[] baselineFrames, boolean sealedEnds, List<String> models,
-                        String criterion, ModelFit.Options options, double stimulusWidthUm) {
+                        String criterion, ModelFit.Options options, double stimulusWidthUm,
+                        double residualBleachingFromS) {
         public Setup {
             Checks.finite(stimulusTimeS, "stimulus time (s)");
             Checks.finite(stimulusPositionUm, "stimulus position (um)");
@@ -69,42 +72,54 @@ public final class KymographFits {
         /** The defaults: stimulus fixed where given, baseline before it, open ends, both default models, AICc. */
         public static Setup of(double stimulusTimeS, double stimulusPositionUm) {
             return new Setup(stimulusTimeS, stimulusPositionUm, false, false, null, false, DEFAULT_MODELS, "aicc",
-                    ModelFit.Options.defaults(), Double.NaN);
+                    ModelFit.Options.defaults(), Double.NaN, Double.NaN);
         }
 
         public Setup withModels(List<String> names) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, names, criterion, options, stimulusWidthUm);
+                    sealedEnds, names, criterion, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withOptions(ModelFit.Options newOptions) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, criterion, newOptions, stimulusWidthUm);
+                    sealedEnds, models, criterion, newOptions, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withSealedEnds(boolean sealed) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealed, models, criterion, options, stimulusWidthUm);
+                    sealed, models, criterion, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withFreeStimulus(boolean time, boolean position) {
             return new Setup(stimulusTimeS, stimulusPositionUm, time, position, baselineFrames, sealedEnds, models,
-                    criterion, options, stimulusWidthUm);
+                    criterion, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withCriterion(String name) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, name, options, stimulusWidthUm);
+                    sealedEnds, models, name, options, stimulusWidthUm, residualBleachingFromS);
         }
 
         public Setup withBaselineFrames(int first, int last) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition,
-                    new int[] {first, last}, sealedEnds, models, criterion, options, stimulusWidthUm);
+                    new int[] {first, last}, sealedEnds, models, criterion, options, stimulusWidthUm,
+                    residualBleachingFromS);
+        }
+
+        /**
+         * Fits the residual bleaching with the diffusion-decay model ({@link ResidualBleaching}); for a dF/F0
+         * kymograph whose bleaching was corrected.
+         *
+         * @param baselineMiddleS the middle of the baseline frames, s, where F0 was taken; NaN to switch it off
+         */
+        public Setup withResidualBleaching(double baselineMiddleS) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealedEnds, models, criterion, options, stimulusWidthUm, baselineMiddleS);
         }
 
         public Setup withStimulusWidth(double widthUm) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, criterion, options, widthUm);
+                    sealedEnds, models, criterion, options, widthUm, residualBleachingFromS);
         }
     }
 
@@ -118,11 +133,12 @@ public final class KymographFits {
      * @param noiseSd        noise standard deviation per position used for the weights, signal units
      * @param spread         the model-free measures used for the starting values
      * @param warnings       plain sentences about the data and the comparison (each fit has its own too)
+     * @param noiseModel     the noise variance behind the weights (baseline noise, and its growth with the signal)
      * @param misfits        the residual structure of each converged fit, by model name
      */
     public record Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
                           double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings,
-                          Map<String, Misfit.Result> misfits) {
+                          VarianceModel noiseModel, Map<String, Misfit.Result> misfits) {
         public Outcome {
             fits = List.copyOf(fits);
             warnings = List.copyOf(warnings);
@@ -137,6 +153,13 @@ public final class KymographFits {
         /** True when a fit's residuals show that its model does not describe the data. */
         public boolean isMisfit(String model) {
             return misfit(model).map(m -> m.verdict() == Misfit.Verdict.MISFIT).orElse(false);
+        }
+
+        /** An outcome whose weights came from the baseline noise alone, without residual checks. */
+        public Outcome(List<FitResult> fits, String bestModel, String criterion, Map<String, Double> weights,
+                       double[] noiseSd, SpreadAnalysis.Result spread, List<String> warnings) {
+            this(fits, bestModel, criterion, weights, noiseSd, spread, warnings,
+                    noiseSd == null ? null : VarianceModel.baselineOnly(noiseSd), Map.of());
         }
 
         /** The fit of a model by name. */
@@ -202,7 +225,8 @@ public final class KymographFits {
             warnings.add(String.format(Locale.ROOT, "%d of %d samples are missing (NaN) and were left out of the "
                     + "fits.", k.nanCount(), (long) k.positionCount() * k.frameCount()));
         }
-        FitData data = FitData.of(k, sigma);
+        VarianceModel noiseModel = VarianceModel.estimate(k, sigma, b0, firstAfter);
+        FitData data = noiseModel.fitData(k);
         StartGuess guess = StartGuess.from(k, zeroed, spread, t0, x0, firstAfter, b0);
         List<FitResult> fits = new ArrayList<>();
         FitResult dd = null;
@@ -220,6 +244,9 @@ public final class KymographFits {
                 dd = r;
             } else {
                 r = fitEngine(name, k, data, setup, guess, dd, progress);
+                if (ModelCatalogue.scalar(name).travellingWave()) {
+                    r = withFronts(r, k, sigma, setup, guess, spread, progress);
+                }
             }
             fits.add(r);
         }
@@ -261,7 +288,7 @@ public final class KymographFits {
                     + ": " + pattern.meaning() + "), so no model is reported as best and no fitted constant should be "
                     + "quoted. Look at the residual pictures.");
         }
-        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings, misfits);
+        return new Outcome(ordered, best, criterion, weights, sigma, spread, warnings, noiseModel, misfits);
     }
 
     private static FitResult fitDiffusionDecay(Kymograph k, FitData data, Setup setup, StartGuess g,
@@ -279,6 +306,12 @@ public final class KymographFits {
             double v1 = g.widthUm * g.widthUm;
             double amp = g.peak * Math.exp(kk * g.tau1) * Math.sqrt(v1 + 2 * d * g.tau1) / g.widthUm;
             starts.add(model.pack(d, kk, amp, g.peakPositionUm, g.widthUm, g.baseline, setup.stimulusTimeS()));
+        }
+        if (Double.isFinite(setup.residualBleachingFromS())) {
+            ResidualBleaching bleaching = new ResidualBleaching(model, k.timesS(), k.positionCount(),
+                    setup.residualBleachingFromS());
+            return ModelFit.fit(bleaching, data, starts.stream().map(ResidualBleaching::start).toList(),
+                    setup.options(), progress);
         }
         return ModelFit.fit(model, data, starts, setup.options(), progress);
     }
@@ -358,6 +391,68 @@ public final class KymographFits {
         }
         List<String> all = new ArrayList<>(r.warnings());
         all.addAll(notes);
+        return new FitResult(r.model(), r.converged(), r.reason(), r.parameters(), r.derived(), r.pointsUsed(),
+                r.chiSquare(), r.rmse(), r.aic(), r.aicc(), r.bic(), r.correlation(), r.fitted(), all,
+                r.evaluations());
+    }
+
+    /**
+     * A travelling-wave fit with the speed and width of its fronts fitted directly ({@link FrontFit}). A formed
+     * front fixes its speed c and width w but not D, k and a separately; when the engine fit cannot tell them
+     * apart (singular sensitivities, or a threshold at its bound), the model is still reported, with c and w (and
+     * the speed of each front) from the direct fit and D, k, a marked as not determined, rather than as a fit that
+     * failed. Where the engine fit determines everything, the direct fit adds the speed of each front.
+     */
+    private static FitResult withFronts(FitResult engine, Kymograph k, double[] sigma, Setup setup, StartGuess g,
+                                        SpreadAnalysis.Result spread, Progress progress) {
+        FrontFit.Result fronts = FrontFit.fit(k, sigma, setup.stimulusTimeS(), setup.stimulusPositionUm(),
+                spread == null ? null : spread.front(), 1.1774 * g.widthUm, g.plateau, g.baseline, g.unit,
+                setup.options(), progress);
+        if (!fronts.shared().converged()) {
+            if (engine.converged()) {
+                return engine;
+            }
+            return appendWarnings(engine, List.of("The fronts' speed and width could not be fitted directly either ("
+                    + fronts.shared().reason() + ")."));
+        }
+        List<ParameterEstimate> direct = FrontFit.derived(fronts);
+        List<String> warnings = new ArrayList<>(engine.warnings());
+        if (!fronts.comparison().isEmpty()) {
+            warnings.add(fronts.comparison());
+        }
+        boolean determined = engine.converged() && engine.parameters().stream()
+                .filter(p -> List.of("D", "k", "a").contains(p.name()))
+                .allMatch(p -> p.identifiable() && !p.atBound());
+        List<ParameterEstimate> derived = new ArrayList<>();
+        if (determined) {
+            derived.addAll(engine.derived());
+            direct.stream().filter(e -> e.name().endsWith("_left") || e.name().endsWith("_right"))
+                    .forEach(derived::add);
+            return new FitResult(engine.model(), true, "", engine.parameters(), derived, engine.pointsUsed(),
+                    engine.chiSquare(), engine.rmse(), engine.aic(), engine.aicc(), engine.bic(),
+                    engine.correlation(), engine.fitted(), warnings, engine.evaluations());
+        }
+        List<ParameterEstimate> parameters = new ArrayList<>();
+        for (ParameterEstimate p : engine.parameters()) {
+            boolean shape = List.of("D", "k", "a").contains(p.name());
+            parameters.add(shape ? new ParameterEstimate(p.name(), p.unit(), p.value(), Double.NaN, null, List.of(),
+                    p.atBound(), false) : p);
+        }
+        derived.addAll(direct);
+        warnings.add(String.format(Locale.ROOT, "D, k and a are not separately determined by these data: a front that "
+                + "has formed fixes only its speed c = sqrt(k D / 2)(1 - 2a) and its width w = sqrt(2 D / k). The front "
+                + "speed and width (and each front's speed) are fitted directly to the fronts' shape from %.3g s on, "
+                + "after they formed; D, k and a are shown but are not estimates.", fronts.fromS()));
+        boolean hasLikelihood = Double.isFinite(engine.chiSquare()) && engine.fitted() != null;
+        return new FitResult(engine.model(), true, "", parameters, derived, engine.pointsUsed(), engine.chiSquare(),
+                engine.rmse(), hasLikelihood ? engine.aic() : Double.NaN, hasLikelihood ? engine.aicc() : Double.NaN,
+                hasLikelihood ? engine.bic() : Double.NaN, null, hasLikelihood ? engine.fitted() : null, warnings,
+                engine.evaluations() + fronts.shared().evaluations());
+    }
+
+    private static FitResult appendWarnings(FitResult r, List<String> more) {
+        List<String> all = new ArrayList<>(r.warnings());
+        all.addAll(more);
         return new FitResult(r.model(), r.converged(), r.reason(), r.parameters(), r.derived(), r.pointsUsed(),
                 r.chiSquare(), r.rmse(), r.aic(), r.aicc(), r.bic(), r.correlation(), r.fitted(), all,
                 r.evaluations());
@@ -454,12 +549,6 @@ public final class KymographFits {
 
     /** The Unit for a kymograph's signal unit string. */
     public static Unit unitOf(String signalUnit) {
-        if (Unit.MICROMOLAR.symbol().equals(signalUnit)) {
-            return Unit.MICROMOLAR;
-        }
-        if (Unit.DF_F0.symbol().equals(signalUnit)) {
-            return Unit.DF_F0;
-        }
-        return Unit.DIMENSIONLESS;
+        return Unit.ofSymbol(signalUnit);
     }
 }

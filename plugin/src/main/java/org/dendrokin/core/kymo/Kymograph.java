@@ -124,6 +124,19 @@ public final class Kymograph {
         return f;
     }
 
+    /**
+     * The frames {@code first} (inclusive) to {@code end} (exclusive), same positions and unit.
+     *
+     * @throws IllegalArgumentException for an empty or out-of-range span
+     */
+    public Kymograph frames(int first, int end) {
+        Checks.require(first >= 0 && end <= timesS.length && first < end,
+                "frames " + first + " to " + (end - 1) + " are not within the " + timesS.length + " frames");
+        int nx = distancesUm.length;
+        return new Kymograph(distancesUm, java.util.Arrays.copyOfRange(timesS, first, end),
+                java.util.Arrays.copyOfRange(values, first * nx, end * nx), signalUnit);
+    }
+
     /** Number of NaN values. */
     public long nanCount() {
         long n = 0;

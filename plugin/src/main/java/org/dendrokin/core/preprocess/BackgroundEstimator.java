@@ -1,5 +1,8 @@
 package org.dendrokin.core.preprocess;
 
+import java.util.ArrayList;
+import java.util.List;
+
 import java.util.Locale;
 
 import org.apache.commons.math3.stat.descriptive.rank.Percentile;
@@ -94,5 +97,125 @@ public final class BackgroundEstimator {
         return new Estimate(value, n, frameIndices.length, String.format(Locale.ROOT,
                 "Estimated from the data: the %.0fth percentile of %d pixels more than %.3g pixels from the path, each "
                         + "averaged over %d frames.", PERCENTILE, n, minDistancePx, frameIndices.length));
+    }
+
+    /**
+     * The background beside the path, position by position: for each path sample, the {@value #PERCENTILE}th
+     * percentile of the time-averaged pixels that lie between {@code innerPx} and {@code outerPx} from the path
+     * and whose nearest path sample is within {@code halfWindow} samples of it (pixels nearest to an end sample lie
+     * beyond the path, not beside it, and are left out). Uneven background (a gradient,
+     * out-of-focus structure) then enters each position's dF/F0 with its own level rather than one level for the
+     * whole path, which matters because any error in the background is divided by the bleaching correction and
+     * grows over the movie. Where the background changes along the path, the percentile of a window lies below the
+     * background at the window's middle by about a quarter of the change across the window, so the window should be
+     * short. Positions without enough pixels beside them take the nearest position's value; NaN
+     * everywhere when there are fewer than {@value #MIN_PIXELS} such pixels in all.
+     *
+     * @param frames       the movie channel. Not modified.
+     * @param pathXPx      x of the path samples, ImageJ pixel coordinates. Not modified.
+     * @param pathYPx      y of the path samples. Not modified.
+     * @param innerPx      smallest distance from the path, pixels
+     * @param outerPx      largest distance from the path, pixels
+     * @param halfWindow   path samples on each side whose beside-pixels count for a sample
+     * @param frameIndices frames to average (0-based). Not modified.
+     * @param progress     one report per frame; checked for cancellation
+     * @return the background of each path sample, grey values
+     */
+    public static double[] besidePath(FrameSource frames, double[] pathXPx, double[] pathYPx, double innerPx,
+            double outerPx, int halfWindow, int[] frameIndices, Progress progress) {
+        Checks.sameLength(pathXPx.length, pathYPx);
+        int w = frames.width();
+        int h = frames.height();
+        int samples = pathXPx.length;
+        int x0 = w;
+        int y0 = h;
+        int x1 = -1;
+        int y1 = -1;
+        for (int s = 0; s < samples; s++) {
+            x0 = Math.min(x0, (int) Math.floor(pathXPx[s] - outerPx));
+            y0 = Math.min(y0, (int) Math.floor(pathYPx[s] - outerPx));
+            x1 = Math.max(x1, (int) Math.ceil(pathXPx[s] + outerPx));
+            y1 = Math.max(y1, (int) Math.ceil(pathYPx[s] + outerPx));
+        }
+        x0 = Math.max(0, x0);
+        y0 = Math.max(0, y0);
+        x1 = Math.min(w - 1, x1);
+        y1 = Math.min(h - 1, y1);
+        List<Integer> pixels = new ArrayList<>();
+        List<Integer> nearest = new ArrayList<>();
+        double inner2 = innerPx * innerPx;
+        double outer2 = outerPx * outerPx;
+        for (int j = y0; j <= y1; j++) {
+            for (int i = x0; i <= x1; i++) {
+                double cx = i + 0.5;
+                double cy = j + 0.5;
+                double best = Double.POSITIVE_INFINITY;
+                int at = -1;
+                for (int s = 0; s < samples; s++) {
+                    double dx = cx - pathXPx[s];
+                    double dy = cy - pathYPx[s];
+                    double d2 = dx * dx + dy * dy;
+                    if (d2 < best) {
+                        best = d2;
+                        at = s;
+                    }
+                }
+                // a pixel nearest to an end of the path lies beyond it, not beside it
+                if (best >= inner2 && best <= outer2 && at > 0 && at < samples - 1) {
+                    pixels.add(j * w + i);
+                    nearest.add(at);
+                }
+            }
+        }
+        double[] out = new double[samples];
+        java.util.Arrays.fill(out, Double.NaN);
+        if (pixels.size() < MIN_PIXELS) {
+            return out;
+        }
+        int n = pixels.size();
+        double[] mean = new double[n];
+        float[] buffer = new float[(y1 - y0 + 1) * w];
+        for (int k = 0; k < frameIndices.length; k++) {
+            progress.checkCancelled();
+            frames.readRows(frameIndices[k], y0, y1 - y0 + 1, buffer);
+            for (int q = 0; q < n; q++) {
+                mean[q] += buffer[pixels.get(q) - y0 * w] / frameIndices.length;
+            }
+        }
+        List<List<Double>> bySample = new ArrayList<>();
+        for (int s = 0; s < samples; s++) {
+            bySample.add(new ArrayList<>());
+        }
+        for (int q = 0; q < n; q++) {
+            bySample.get(nearest.get(q)).add(mean[q]);
+        }
+        Percentile percentile = new Percentile(PERCENTILE);
+        for (int s = 0; s < samples; s++) {
+            List<Double> pool = new ArrayList<>();
+            for (int t = Math.max(0, s - halfWindow); t <= Math.min(samples - 1, s + halfWindow); t++) {
+                pool.addAll(bySample.get(t));
+            }
+            if (pool.size() >= MIN_PIXELS) {
+                out[s] = percentile.evaluate(pool.stream().mapToDouble(Double::doubleValue).toArray());
+            }
+        }
+        fillGaps(out);
+        return out;
+    }
+
+    /** Replaces NaN values by the nearest finite value along the array. Modifies {@code v}. */
+    private static void fillGaps(double[] v) {
+        int last = -1;
+        for (int i = 0; i < v.length; i++) {
+            if (Double.isFinite(v[i])) {
+                for (int j = last + 1; j < i; j++) {
+                    v[j] = last < 0 || i - j < j - last ? v[i] : v[last];
+                }
+                last = i;
+            }
+        }
+        for (int j = last + 1; j < v.length && last >= 0; j++) {
+            v[j] = v[last];
+        }
     }
 }

@@ -71,14 +71,25 @@ public final class Preprocessing {
      * @param options    what session.json fixed
      */
     public static Result run(Kymograph raw, double[] background, Options options) {
+        return run(raw, background, null, options);
+    }
+
+    /**
+     * As {@link #run(Kymograph, double[], Options)}, with a background that also varies along the path: the
+     * sample at frame f and position p has background {@code background[f] + alongPath[p]}.
+     *
+     * @param alongPath background added at each position, grey values, or null for none. Not modified.
+     */
+    public static Result run(Kymograph raw, double[] background, double[] alongPath, Options options) {
         int nt = raw.frameCount();
         int nx = raw.positionCount();
         Checks.require(background.length == nt, "one background value per frame is needed");
+        Checks.require(alongPath == null || alongPath.length == nx, "one background value per position is needed");
         List<String> warnings = new ArrayList<>();
         double[] v = raw.values();
         for (int f = 0; f < nt; f++) {
             for (int p = 0; p < nx; p++) {
-                v[f * nx + p] -= background[f];
+                v[f * nx + p] -= background[f] + (alongPath == null ? 0 : alongPath[p]);
             }
         }
         Kymograph subtracted = raw.withValues(v, raw.signalUnit());

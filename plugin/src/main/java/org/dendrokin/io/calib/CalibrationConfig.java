@@ -12,10 +12,13 @@ import java.util.function.Supplier;
 import org.dendrokin.core.calib.Calibration;
 import org.dendrokin.core.calib.DynamicRange;
 import org.dendrokin.core.calib.Hill;
+import org.dendrokin.core.calib.MeanLifetime;
 import org.dendrokin.core.calib.Ratio;
+import org.dendrokin.core.calib.RatioChange;
 import org.dendrokin.core.calib.SaturationLimits;
 import org.dendrokin.core.calib.SingleWavelength;
 import org.dendrokin.core.calib.Standards;
+import org.dendrokin.core.calib.TwoStateLifetime;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.json.JsonFields;
 
@@ -29,9 +32,16 @@ import com.google.gson.JsonObject;
  *     {@code f_max_sd} (hill); {@code kd_uM_sd}, {@code r_min_sd}, {@code r_max_sd}, {@code beta_sd} (ratio);
  *     {@code kd_uM_sd}, {@code rf_sd}, {@code resting_uM_sd}, {@code n_sd} (dynamic-range);</li>
  * <li>{@code n} for the dynamic-range method with a Hill indicator (default 1);</li>
- * <li>ratio: {@code numerator_channel} (default 1), {@code denominator_channel} (default 2),
+ * <li>ratio and ratio-change: {@code numerator_channel} (default 1), {@code denominator_channel} (default 2),
  *     {@code numerator_background}, {@code denominator_background} (fixed values; default: the session's
  *     background handling per channel);</li>
+ * <li>ratio-change (R/R0 without dye constants): {@code output}, {@code "R/R0"} or {@code "dR/R0"} (default);</li>
+ * <li>lifetime: {@code movie} (the mean lifetime per pixel, ns) or {@code lifetime_channel} (the session's movie's
+ *     channel holding it; with {@code movie}, that file's channel, default 1); {@code photons} (photon counts per
+ *     pixel) and/or {@code photon_channel} (their channel, of {@code photons} if given, else of the lifetime's
+ *     movie), neither meaning equal weights; {@code tau_free_ns}, {@code tau_bound_ns} and their {@code _sd};
+ *     {@code output}, {@code "lifetime"} or {@code "fraction-bound"} (default: fraction-bound when both reference
+ *     lifetimes are given, else lifetime);</li>
  * <li>standards: {@code monotone} (true: monotone interpolation instead of the Hill fit), or {@code file}
  *     instead of {@code table}: a calibration file written by {@code calibrate};</li>
  * <li>every method: {@code flag_saturation_above} (default 0.8) and {@code reject_saturation_above}
@@ -51,7 +61,14 @@ public final class CalibrationConfig {
                     "numerator_channel", "denominator_channel", "numerator_background", "denominator_background"),
             "hill", Set.of("k_half_uM", "n", "f_min", "f_max", "k_half_uM_sd", "n_sd", "f_min_sd", "f_max_sd"),
             "standards", Set.of("table", "monotone", "file"),
-            "file", Set.of("file"));
+            "file", Set.of("file"),
+            "ratio-change", Set.of("numerator_channel", "denominator_channel", "numerator_background",
+                    "denominator_background", "output"),
+            "lifetime", Set.of("movie", "lifetime_channel", "photons", "photon_channel", "tau_free_ns", "tau_bound_ns",
+                    "tau_free_ns_sd", "tau_bound_ns_sd", "output"));
+    /** The method names, in the order error messages list them. */
+    public static final List<String> METHODS = List.of("none", "single-wavelength", "dynamic-range", "ratio", "hill",
+            "standards", "file", "ratio-change", "lifetime");
 
     private CalibrationConfig() {
     }
@@ -67,7 +84,7 @@ public final class CalibrationConfig {
         Keys k = new Keys(sessionFile, block);
         String method = k.string("method", true);
         if (!KEYS.containsKey(method)) {
-            throw k.bad("method", "must be one of none, single-wavelength, dynamic-range, ratio, hill, standards");
+            throw k.bad("method", "must be one of " + String.join(", ", METHODS));
         }
         List<String> warnings = new ArrayList<>();
         for (String key : k.names()) {
@@ -110,15 +127,18 @@ public final class CalibrationConfig {
                 double beta = k.positive("beta");
                 Calibration c = k.build(() -> new Ratio(kd, rMin, rMax, beta, k.sd("kd_uM_sd"), k.sd("r_min_sd"),
                         k.sd("r_max_sd"), k.sd("beta_sd")));
-                int num = k.channel("numerator_channel", 1);
-                int den = k.channel("denominator_channel", 2);
-                if (num == den) {
-                    throw k.bad("denominator_channel", "must differ from calibration.numerator_channel (" + num + ")");
-                }
-                CalibrationSetup.RatioChannels ch = new CalibrationSetup.RatioChannels(num, den,
-                        k.optional("numerator_background"), k.optional("denominator_background"));
-                return new CalibrationSetup(c, limits, null, ch, warnings);
+                return new CalibrationSetup(c, limits, null, ratioChannels(k), warnings);
             }
+            case "ratio-change": {
+                String output = k.string("output", false);
+                RatioChange.Output out = output == null ? RatioChange.Output.CHANGE : RatioChange.Output.of(output);
+                if (out == null) {
+                    throw k.bad("output", "must be \"R/R0\" or \"dR/R0\"");
+                }
+                return new CalibrationSetup(new RatioChange(out), limits, null, ratioChannels(k), warnings);
+            }
+            case "lifetime":
+                return lifetime(k, dir, limits, warnings);
             case "dynamic-range": {
                 double kd = k.positive("kd_uM");
                 double rf = k.number("rf");
@@ -137,6 +157,71 @@ public final class CalibrationConfig {
             default:
                 return standards(k, method, dir, limits, warnings);
         }
+    }
+
+    private static CalibrationSetup.RatioChannels ratioChannels(Keys k) {
+        int num = k.channel("numerator_channel", 1);
+        int den = k.channel("denominator_channel", 2);
+        if (num == den) {
+            throw k.bad("denominator_channel", "must differ from calibration.numerator_channel (" + num + ")");
+        }
+        return new CalibrationSetup.RatioChannels(num, den, k.optional("numerator_background"),
+                k.optional("denominator_background"));
+    }
+
+    /** The lifetime method: where its movies are, and the conversion to the fraction bound if asked for. */
+    private static CalibrationSetup lifetime(Keys k, Path dir, SaturationLimits limits, List<String> warnings) {
+        String movie = k.string("movie", false);
+        int lifetimeChannel = k.channel("lifetime_channel", 0);
+        if (movie == null && lifetimeChannel == 0) {
+            throw k.bad("movie", "must name the movie of mean lifetimes (ns per pixel), or calibration.lifetime_channel "
+                    + "the channel of the session's movie that holds them");
+        }
+        if (movie != null) {
+            k.requireFile("movie", dir.resolve(movie));
+        }
+        String photons = k.string("photons", false);
+        if (photons != null) {
+            k.requireFile("photons", dir.resolve(photons));
+        }
+        int photonChannel = k.channel("photon_channel", 0);
+        CalibrationSetup.LifetimeInput input = new CalibrationSetup.LifetimeInput(movie, Math.max(1, lifetimeChannel),
+                photons, photonChannel);
+        String photonFile = photons != null ? photons : movie;
+        boolean sameFile = photonFile == null ? movie == null : photonFile.equals(movie);
+        if (input.weighted() && sameFile && input.photonChannelOrFirst() == input.lifetimeChannel()) {
+            throw k.bad(photonChannel > 0 ? "photon_channel" : "photons", String.format(Locale.ROOT, "must name other "
+                    + "data than the lifetime: both would be channel %d of %s", input.lifetimeChannel(),
+                    movie == null ? "the session's movie" : movie));
+        }
+        Double tauFree = k.lifetime("tau_free_ns");
+        Double tauBound = k.lifetime("tau_bound_ns");
+        String output = k.string("output", false);
+        if (output != null && !output.equals("lifetime") && !output.equals("fraction-bound")) {
+            throw k.bad("output", "must be \"lifetime\" or \"fraction-bound\"");
+        }
+        boolean fraction = output == null ? tauFree != null && tauBound != null : output.equals("fraction-bound");
+        if (!fraction) {
+            for (String key : List.of("tau_free_ns", "tau_bound_ns", "tau_free_ns_sd", "tau_bound_ns_sd")) {
+                if (k.names().contains(key)) {
+                    warnings.add(String.format(Locale.ROOT, "%s: key \"calibration.%s\" is not used when the "
+                            + "lifetime method reports the lifetime itself (set \"output\": \"fraction-bound\" "
+                            + "and give both reference lifetimes to convert it).", k.fileName(), key));
+                }
+            }
+            return new CalibrationSetup(MeanLifetime.INSTANCE, limits, null, null, input, warnings);
+        }
+        if (tauFree == null || tauBound == null) {
+            throw k.bad(tauFree == null ? "tau_free_ns" : "tau_bound_ns", "is needed to convert the lifetime to the "
+                    + "fraction of bound sensor");
+        }
+        if (!(tauBound < tauFree)) {
+            throw k.bad("tau_bound_ns", String.format(Locale.ROOT, "must be shorter than calibration.tau_free_ns (%s), "
+                    + "since the bound (FRET) state of the sensor has the shorter lifetime", k.fields.get("tau_free_ns")));
+        }
+        Calibration c = k.build(() -> new TwoStateLifetime(tauFree, tauBound, k.sd("tau_free_ns_sd"),
+                k.sd("tau_bound_ns_sd")));
+        return new CalibrationSetup(c, limits, null, null, input, warnings);
     }
 
     private static CalibrationSetup standards(Keys k, String method, Path dir, SaturationLimits limits,
@@ -170,7 +255,7 @@ public final class CalibrationConfig {
 
     /** The block's values with the checks calibration needs, naming session.json and the key in every complaint. */
     static final class Keys {
-        private final JsonFields fields;
+        final JsonFields fields;
 
         Keys(Path file, JsonObject block) {
             this.fields = JsonFields.of(file, block, "calibration");
@@ -218,6 +303,15 @@ public final class CalibrationConfig {
             double v = number(key);
             if (!(v >= 0)) {
                 throw bad(key, "must be zero or a positive number");
+            }
+            return v;
+        }
+
+        /** A lifetime in ns, above zero, or null when not given. */
+        Double lifetime(String key) {
+            Double v = optional(key);
+            if (v != null && !(v > 0)) {
+                throw bad(key, "must be a positive number (a lifetime in ns)");
             }
             return v;
         }

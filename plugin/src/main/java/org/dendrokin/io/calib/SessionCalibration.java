@@ -24,7 +24,18 @@ public final class SessionCalibration {
     }
 
     /**
-     * Checks, before any work, that the movie can feed the method: the ratio method needs two channels.
+     * The calibration as the analysis takes it, with the lifetime method's movies.
+     *
+     * @param lifetime the movies opened by {@link SessionLifetime#open}, or null for every other method
+     */
+    public static CalibrationRequest request(CalibrationSetup setup, SessionLifetime lifetime) {
+        CalibrationRequest r = request(setup);
+        return lifetime == null ? r : r.withLifetime(lifetime.request());
+    }
+
+    /**
+     * Checks, before any work, that the movie can feed the method: the ratio and ratio-change methods need the
+     * numerator and denominator channels. The sentence names the method and the channel key at fault.
      *
      * @param setup        the parsed calibration
      * @param sessionFile  session.json, named in the message
@@ -35,12 +46,15 @@ public final class SessionCalibration {
         if (setup.channels() == null) {
             return;
         }
-        int need = Math.max(setup.channels().numerator(), setup.channels().denominator());
+        int num = setup.channels().numerator();
+        int den = setup.channels().denominator();
+        int need = Math.max(num, den);
         if (channelCount < need) {
-            throw new InputException(sessionFile, String.format(Locale.ROOT, "key \"calibration.method\" is \"ratio\", "
-                    + "which needs a movie with %d channels (numerator channel %d over denominator channel %d), but "
-                    + "%s has %d channel%s", need, setup.channels().numerator(), setup.channels().denominator(),
-                    movieFile.getFileName(), channelCount, channelCount == 1 ? "" : "s"));
+            throw new InputException(sessionFile, String.format(Locale.ROOT, "key \"calibration.method\" is \"%s\", "
+                    + "which needs a movie with %d channels (numerator channel %d over denominator channel %d, key "
+                    + "\"calibration.%s\"), but %s has %d channel%s", setup.calibration().method(), need, num, den,
+                    num > den ? "numerator_channel" : "denominator_channel", movieFile.getFileName(), channelCount,
+                    channelCount == 1 ? "" : "s"));
         }
     }
 }

@@ -222,58 +222,153 @@ public final class Movie implements AutoCloseable {
         return warnings;
     }
 
+    /** Focal planes at each time point: more than 1 for a z-stack recorded over time. */
+    public int zSlices() {
+        return layout.zSlices();
+    }
+
     /**
      * The frames of one channel. The source may be used from one thread at a time (compressed movies keep the
-     * last decoded frame); open the movie once per thread for parallel work.
+     * last decoded frame); open the movie once per thread for parallel work. In a z-stack over time this is the
+     * first focal plane.
      *
      * @param channel 0-based channel index
      * @throws IllegalArgumentException if there is no such channel
      */
     public FrameSource channel(int channel) {
-        if (channel < 0 || channel >= channels) {
-            throw new IllegalArgumentException("the movie has " + channels + " channel(s); there is no channel "
-                    + (channel + 1));
+        return slice(channel, 0);
+    }
+
+    /**
+     * The frames of one channel at one focal plane.
+     *
+     * @param channel 0-based channel index
+     * @param slice   0-based focal plane
+     * @throws IllegalArgumentException if there is no such channel or plane
+     */
+    public FrameSource slice(int channel, int slice) {
+        checkChannel(channel);
+        if (slice < 0 || slice >= layout.zSlices()) {
+            throw new IllegalArgumentException("the movie has " + layout.zSlices() + " focal plane(s); there is no "
+                    + "plane " + (slice + 1));
         }
-        return new FrameSource() {
-            @Override
-            public int width() {
-                return width;
-            }
-
-            @Override
-            public int height() {
-                return height;
-            }
-
-            @Override
-            public int frameCount() {
-                return frames;
-            }
-
+        return new Source() {
             @Override
             public float[] readRows(int frame, int firstRow, int rowCount, float[] dst) {
-                checkFrame(frame);
-                if (firstRow < 0 || rowCount < 0 || firstRow + rowCount > height) {
-                    throw new IllegalArgumentException("rows " + firstRow + " to " + (firstRow + rowCount - 1)
-                            + " are outside a frame of " + height + " rows");
-                }
-                planes.readRows(plane(channel, frame), firstRow, rowCount, dst);
+                checkRows(frame, firstRow, rowCount);
+                planes.readRows(layout.storePlane(channel, slice, frame), firstRow, rowCount, dst);
                 return dst;
             }
 
             @Override
             public float[] gather(int frame, int[] pixelIndices, float[] dst) {
                 checkFrame(frame);
-                planes.gather(plane(channel, frame), pixelIndices, dst);
+                planes.gather(layout.storePlane(channel, slice, frame), pixelIndices, dst);
+                return dst;
+            }
+        };
+    }
+
+    /**
+     * The frames of one channel projected over the focal planes at each time point: the largest value of each
+     * pixel ({@code max}) or the mean ({@code mean}). Reads every plane of a frame for each request.
+     *
+     * @param channel    0-based channel index
+     * @param projection "max" or "mean"
+     */
+    public FrameSource projected(int channel, String projection) {
+        checkChannel(channel);
+        boolean max = projection.equals("max");
+        if (!max && !projection.equals("mean")) {
+            throw new IllegalArgumentException("a projection is \"max\" or \"mean\", not " + projection);
+        }
+        int zs = layout.zSlices();
+        return new Source() {
+            private float[] scratch = new float[0];
+
+            @Override
+            public float[] readRows(int frame, int firstRow, int rowCount, float[] dst) {
+                checkRows(frame, firstRow, rowCount);
+                int n = rowCount * width;
+                scratch = scratch.length < n ? new float[n] : scratch;
+                for (int z = 0; z < zs; z++) {
+                    planes.readRows(layout.storePlane(channel, z, frame), firstRow, rowCount, z == 0 ? dst : scratch);
+                    if (z > 0) {
+                        combine(dst, scratch, n, max);
+                    }
+                }
+                finish(dst, n, max, zs);
                 return dst;
             }
 
-            private void checkFrame(int frame) {
-                if (frame < 0 || frame >= frames) {
-                    throw new IllegalArgumentException("frame " + frame + " is outside 0.." + (frames - 1));
+            @Override
+            public float[] gather(int frame, int[] pixelIndices, float[] dst) {
+                checkFrame(frame);
+                int n = pixelIndices.length;
+                scratch = scratch.length < n ? new float[n] : scratch;
+                for (int z = 0; z < zs; z++) {
+                    planes.gather(layout.storePlane(channel, z, frame), pixelIndices, z == 0 ? dst : scratch);
+                    if (z > 0) {
+                        combine(dst, scratch, n, max);
+                    }
                 }
+                finish(dst, n, max, zs);
+                return dst;
             }
         };
+    }
+
+    private static void combine(float[] into, float[] plane, int n, boolean max) {
+        for (int i = 0; i < n; i++) {
+            into[i] = max ? Math.max(into[i], plane[i]) : into[i] + plane[i];
+        }
+    }
+
+    private static void finish(float[] sum, int n, boolean max, int planes) {
+        if (!max) {
+            for (int i = 0; i < n; i++) {
+                sum[i] /= planes;
+            }
+        }
+    }
+
+    private void checkChannel(int channel) {
+        if (channel < 0 || channel >= channels) {
+            throw new IllegalArgumentException("the movie has " + channels + " channel(s); there is no channel "
+                    + (channel + 1));
+        }
+    }
+
+    /** The frame source of this movie's size; subclasses read one plane or combine several. */
+    private abstract class Source implements FrameSource {
+        @Override
+        public int width() {
+            return width;
+        }
+
+        @Override
+        public int height() {
+            return height;
+        }
+
+        @Override
+        public int frameCount() {
+            return frames;
+        }
+
+        void checkRows(int frame, int firstRow, int rowCount) {
+            checkFrame(frame);
+            if (firstRow < 0 || rowCount < 0 || firstRow + rowCount > height) {
+                throw new IllegalArgumentException("rows " + firstRow + " to " + (firstRow + rowCount - 1)
+                        + " are outside a frame of " + height + " rows");
+            }
+        }
+
+        void checkFrame(int frame) {
+            if (frame < 0 || frame >= frames) {
+                throw new IllegalArgumentException("frame " + frame + " is outside 0.." + (frames - 1));
+            }
+        }
     }
 
     @Override

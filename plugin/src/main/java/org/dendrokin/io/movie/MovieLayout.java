@@ -89,9 +89,22 @@ final class MovieLayout {
         return framesInHeader > 1 ? framesInHeader : slices;
     }
 
-    /** The store plane of a channel (0-based) at a time point (0-based). */
+    /** Focal planes at each time point: the slices of a z-stack over time, else 1. */
+    int zSlices() {
+        return framesInHeader > 1 ? slices : 1;
+    }
+
+    /** The store plane of a channel (0-based) at a time point (0-based), in the first focal plane. */
     int storePlane(int channel, int timePoint) {
-        int index = channel + channels * timePoint;
+        return storePlane(channel, 0, timePoint);
+    }
+
+    /**
+     * The store plane of a channel at a focal plane and a time point (all 0-based), in ImageJ's order: channel
+     * fastest, then slice, then time point.
+     */
+    int storePlane(int channel, int slice, int timePoint) {
+        int index = channel + channels * (slice + zSlices() * timePoint);
         return storePlane == null ? index : storePlane[index];
     }
 
@@ -378,11 +391,7 @@ final class MovieLayout {
             slices = ome.sizeZ;
             framesInHeader = ome.sizeT;
         }
-        if (slices > 1 && framesInHeader > 1) {
-            throw new InputException(file, "the movie has " + slices + " z-slices at each of " + framesInHeader
-                    + " time points; save one focal plane (or a projection) as a time series");
-        }
-        if (slices > 1) {
+        if (slices > 1 && framesInHeader == 1) {
             warnings.add("The " + slices + " images of " + file.getFileName() + " are marked as z-slices, "
                     + "not time points; they are read as time points.");
         }
@@ -393,10 +402,14 @@ final class MovieLayout {
         }
         if (ome != null && samples == 1) {
             int timePoints = timePoints();
-            storePlane = new int[channels * timePoints];
+            int zs = zSlices();
+            storePlane = new int[channels * zs * timePoints];
             for (int tp = 0; tp < timePoints; tp++) {
-                for (int c = 0; c < channels; c++) {
-                    storePlane[c + channels * tp] = slices > 1 ? ome.ifdOf(c, tp, 0) : ome.ifdOf(c, 0, tp);
+                for (int z = 0; z < zs; z++) {
+                    for (int c = 0; c < channels; c++) {
+                        storePlane[c + channels * (z + zs * tp)] = zs == 1 && slices > 1 ? ome.ifdOf(c, tp, 0)
+                                : ome.ifdOf(c, z, tp);
+                    }
                 }
             }
         }

@@ -9,6 +9,8 @@ import java.util.stream.Stream;
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
+import org.dendrokin.core.analysis.MotionMode;
+import org.dendrokin.core.analysis.Normalisation;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.calib.Calibration;
 import org.dendrokin.core.calib.CalibrationSummary;
@@ -78,6 +80,8 @@ public final class ReportHtml {
                 + " um long; averaged over a band " + number(movie.pathWidthUm()) + " um wide; "
                 + signal.positionCount() + " positions every " + number(signal.distanceStepUm())
                 + " um from the first vertex");
+        row(h, "Channels", channelsSentence(in, a));
+        row(h, "Motion", motionSentence(a.motion()));
         row(h, "Background", String.format(Locale.ROOT, "%.1f", a.background().value()) + " grey values. "
                 + esc(a.background().description()));
         Preprocessing.Stimulus s = pre.stimulus();
@@ -178,6 +182,36 @@ public final class ReportHtml {
         AtomicFiles.writeString(target, h.toString());
     }
 
+    private static String channelsSentence(SessionInputs in, AnalysisResult a) {
+        SessionConfig.Acquisition acq = in.config().acquisition();
+        int signal = acq.channel() > 0 ? acq.channel()
+                : in.calibration().channels() != null ? in.calibration().channels().numerator() : 1;
+        StringBuilder b = new StringBuilder(String.format(Locale.ROOT, "signal in channel %d of %d", signal,
+                in.channelCount()));
+        if (acq.structuralChannel() > 0) {
+            b.append(String.format(Locale.ROOT, "; structural dye in channel %d", acq.structuralChannel()));
+        }
+        if (a.normalisation() != Normalisation.NONE) {
+            b.append("; the signal is normalised as ").append(a.normalisation().key())
+                    .append(a.normalisation() == Normalisation.G_OVER_R ? " (signal over structural intensity)"
+                            : " ((G - G0) / R, G0 the baseline of the signal)");
+        }
+        return esc(b.toString());
+    }
+
+    private static String motionSentence(AnalysisResult.Motion m) {
+        if (m.mode() == MotionMode.OFF) {
+            return "not measured (switched off in session.json)";
+        }
+        if (m.trace() == null) {
+            return "not measured (see the warnings)";
+        }
+        return esc(String.format(Locale.ROOT, "measured against %s: largest shift %s um, RMS %s um; %s",
+                m.trace().reference().describe(), number(m.trace().maxShiftUm()), number(m.trace().rmsShiftUm()),
+                m.corrected() ? "the path was moved with the shift of each frame" : "not corrected (\"motion\": "
+                        + "\"measure\")"));
+    }
+
     /** One sentence for the report: the calibration method, its constants, and what was flagged. */
     public static String calibrationSentence(CalibrationSetup setup, CalibrationStage.Calibrated applied) {
         Calibration cal = setup.calibration();
@@ -197,6 +231,9 @@ public final class ReportHtml {
             b.append(applied.propagated()
                     ? " The calibration's own uncertainty was propagated to a per-sample SD (concentration_sd.csv)."
                     : " No uncertainty of the calibration constants was given, so none was propagated.");
+        } else if (applied.propagated()) {
+            b.append(" A per-sample SD, from the signal's own precision and the uncertainty of the method's constants, "
+                    + "was propagated (concentration_sd.csv).");
         }
         return b.toString();
     }

@@ -8,6 +8,7 @@ import java.util.stream.Stream;
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
+import org.dendrokin.core.analysis.ResolvedStimulus;
 import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.calib.Calibration;
@@ -18,8 +19,10 @@ import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.fit.Misfit;
+import org.dendrokin.core.fit.VarianceModel;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.core.spread.SpreadAnalysis;
@@ -105,6 +108,13 @@ public final class ResultsJson {
         root.add("bleach_correction", bleach);
         root.add("baseline_noise_sd_dF_F0", finiteOrNull(a.preprocessing().deltaF().typicalNoiseSd()));
         root.add("calibration", calibration(in.calibration(), a.calibrated()));
+        root.add("channels", channels(in, a));
+        root.add("motion", motion(a.motion()));
+        JsonArray stimuli = new JsonArray();
+        for (AnalysisResult.StimulusOutcome o : a.stimuli()) {
+            stimuli.add(stimulusOutcome(o));
+        }
+        root.add("stimuli", stimuli);
         JsonArray w = new JsonArray();
         Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text).forEach(w::add);
         root.add("warnings", w);
@@ -214,6 +224,63 @@ public final class ResultsJson {
         return stim;
     }
 
+    /** Which channel and focal planes were analysed, and any normalisation by a structural channel. */
+    private static JsonObject channels(SessionInputs in, AnalysisResult a) {
+        SessionConfig.Acquisition acq = in.config().acquisition();
+        JsonObject o = new JsonObject();
+        o.addProperty("in_movie", in.channelCount());
+        int signal = acq.channel() > 0 ? acq.channel()
+                : in.calibration().channels() != null ? in.calibration().channels().numerator() : 1;
+        o.addProperty("signal", signal);
+        o.add("structural", acq.structuralChannel() > 0 ? new JsonPrimitive(acq.structuralChannel()) : JsonNull.INSTANCE);
+        o.addProperty("normalisation", a.normalisation().key());
+        return o;
+    }
+
+    /** What was done about motion, and the measured shifts in summary (frame by frame in motion.csv). */
+    private static JsonObject motion(AnalysisResult.Motion m) {
+        JsonObject o = new JsonObject();
+        o.addProperty("mode", m.mode().key());
+        MotionTrace t = m.trace();
+        o.addProperty("measured", t != null);
+        o.addProperty("corrected", m.corrected());
+        if (t != null) {
+            o.addProperty("reference", t.reference().describe());
+            o.add("max_shift_um", number(t.maxShiftUm()));
+            o.add("rms_shift_um", number(t.rmsShiftUm()));
+            o.add("warning_threshold_um", number(t.warningThresholdUm()));
+            o.addProperty("exceeds_threshold", t.exceedsThreshold());
+            o.add("median_peak_height", number(t.medianPeakHeight()));
+            o.addProperty("frames_at_search_limit", t.framesAtLimit());
+            o.addProperty("file", SessionOutputs.MOTION_CSV);
+        }
+        return o;
+    }
+
+    /** One stimulus with the spread measured over its own window. */
+    private static JsonObject stimulusOutcome(AnalysisResult.StimulusOutcome o) {
+        ResolvedStimulus s = o.stimulus();
+        JsonObject j = new JsonObject();
+        j.add("time_s", number(s.timeS()));
+        j.add("position_um", number(s.positionUm()));
+        j.add("off_path_um", number(s.offPathUm()));
+        j.addProperty("pulses", s.pulses());
+        j.add("last_pulse_s", number(s.lastPulseS()));
+        JsonArray frames = new JsonArray();
+        frames.add(o.firstFrame());
+        frames.add(o.endFrame() - 1);
+        j.add("frames", frames);
+        SpreadAnalysis.Result r = o.spread();
+        JsonObject sp = new JsonObject();
+        sp.add("front_speed", estimate(r == null ? null : r.frontSpeed()));
+        sp.add("peak_decay_length", estimate(r == null ? null : r.peakDecayLength()));
+        sp.add("decay_time", estimate(r == null ? null : r.decayTime()));
+        sp.add("apparent_D", estimate(r == null ? null : r.apparentD()));
+        sp.add("front", front(r));
+        j.add("spread", sp);
+        return j;
+    }
+
     /**
      * The {@code calibration} object: method, description, constants, source file, the limits with their reason,
      * counts and fractions of flagged and NaN samples, and whether an uncertainty was propagated (the per-sample
@@ -224,11 +291,7 @@ public final class ResultsJson {
         JsonObject o = new JsonObject();
         o.addProperty("method", cal.method());
         o.addProperty("description", cal.description());
-        o.addProperty("signal_in", switch (cal.input()) {
-            case INTENSITY -> "background-subtracted intensity";
-            case RATIO -> "ratio of background-subtracted channels";
-            case DF_F0 -> "dF/F0";
-        });
+        o.addProperty("signal_in", cal.input().phrase());
         o.addProperty("unit", cal.outputUnit().symbol());
         JsonObject constants = new JsonObject();
         for (Map.Entry<String, Double> e : cal.constants().entrySet()) {
@@ -241,6 +304,16 @@ public final class ResultsJson {
             ch.addProperty("numerator_channel", setup.channels().numerator());
             ch.addProperty("denominator_channel", setup.channels().denominator());
             o.add("channels", ch);
+        }
+        if (setup.lifetime() != null) {
+            CalibrationSetup.LifetimeInput in = setup.lifetime();
+            JsonObject lt = new JsonObject();
+            lt.add("movie", in.movie() == null ? JsonNull.INSTANCE : new JsonPrimitive(in.movie()));
+            lt.addProperty("lifetime_channel", in.lifetimeChannel());
+            lt.add("photons", in.photons() == null ? JsonNull.INSTANCE : new JsonPrimitive(in.photons()));
+            lt.add("photon_channel", in.weighted() ? new JsonPrimitive(in.photonChannelOrFirst()) : JsonNull.INSTANCE);
+            lt.addProperty("photon_weighted", in.weighted());
+            o.add("lifetime", lt);
         }
         if (applied.summary() != null) {
             CalibrationSummary s = applied.summary();
@@ -261,6 +334,8 @@ public final class ResultsJson {
             o.addProperty("fraction_flagged", s.fractionFlagged());
             o.addProperty("fraction_nan", s.fractionNan());
             o.addProperty("uncertainty_propagated", applied.propagated());
+        } else if (applied.sdMicromolar() != null) {
+            o.addProperty("uncertainty_propagated", applied.propagated());
         }
         JsonArray w = new JsonArray();
         applied.warnings().forEach(w::add);
@@ -280,6 +355,9 @@ public final class ResultsJson {
             JsonObject o = fit(f);
             o.add("akaike_weight", number(f.converged() ? weights.getOrDefault(f.model(), Double.NaN) : Double.NaN));
             o.addProperty("weight_criterion", outcome.criterion());
+            if (outcome.noiseModel() != null) {
+                o.add("noise_model", noiseModel(outcome.noiseModel()));
+            }
             outcome.misfit(f.model()).ifPresent(m -> o.add("misfit", misfit(m, f.model())));
             return o;
         }).toList();
@@ -311,6 +389,16 @@ public final class ResultsJson {
         return o;
     }
 
+    /** The weights' noise model: the signal-dependent gain g with its standard error, and a sentence. */
+    private static JsonObject noiseModel(VarianceModel m) {
+        JsonObject o = new JsonObject();
+        o.addProperty("signal_dependent", m.signalDependent());
+        o.add("signal_gain", number(m.gain()));
+        o.add("signal_gain_se", number(m.gainStandardError()));
+        o.addProperty("description", m.describe());
+        return o;
+    }
+
     /** The lack-of-fit figure with its threshold and verdict. */
     private static JsonObject misfit(Misfit.Result m, String model) {
         JsonObject o = new JsonObject();
@@ -338,6 +426,9 @@ public final class ResultsJson {
             p.addProperty("unit", e.unit().symbol());
             p.add("ci95", interval(e.ci95()));
             p.add("ci_method", e.ci95() == null ? JsonNull.INSTANCE : new JsonPrimitive(e.ci95().method()));
+            if (e.ci95() != null && !e.ci95().note().isEmpty()) {
+                p.addProperty("ci_note", e.ci95().note());
+            }
             p.add("standard_error", number(e.standardError()));
             p.addProperty("identifiable", e.identifiable());
             if (e.atBound()) {
@@ -349,6 +440,9 @@ public final class ResultsJson {
                     JsonObject io = new JsonObject();
                     io.add("ci95", interval(i));
                     io.addProperty("ci_method", i.method());
+                    if (!i.note().isEmpty()) {
+                        io.addProperty("ci_note", i.note());
+                    }
                     others.add(io);
                 }
                 p.add("other_intervals", others);

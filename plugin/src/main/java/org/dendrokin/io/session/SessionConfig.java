@@ -7,6 +7,10 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Set;
 
+import org.dendrokin.core.analysis.AnalysisRequest;
+import org.dendrokin.core.analysis.MotionMode;
+import org.dendrokin.core.analysis.Normalisation;
+import org.dendrokin.core.analysis.StimulusSpec;
 import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.json.JsonFields;
@@ -39,25 +43,52 @@ import com.google.gson.JsonObject;
  * @param bleachCorrection   false when {@code "bleach_correction": false}
  * @param fit                how the models are fitted ({@link FitSettings#DEFAULT} when absent)
  * @param warnings           sentences about keys that were ignored
+ * @param stimuli            every stimulus as given ({@code stimulus} or {@code stimuli}); one entry with nothing
+ *                           given when the stimulus is to be detected. The first is the one of
+ *                           {@code stimulusTimeS} and {@code stimulusPositionUm}.
+ * @param acquisition        channels, z-slices, motion and the train gap
  */
 public record SessionConfig(String movie, String path, String pathRoiName, double pathWidthUm, Double pixelSizeUm,
         Double frameIntervalS, Double stimulusTimeS, Double stimulusPositionUm, int[] baselineFrames,
         Double backgroundValue, String backgroundRoi, JsonObject calibration, List<String> models,
-        boolean bleachCorrection, FitSettings fit, List<String> warnings) {
+        boolean bleachCorrection, FitSettings fit, List<String> warnings, List<StimulusSpec> stimuli,
+        Acquisition acquisition) {
+
+    /**
+     * Which parts of the movie are analysed, and how.
+     *
+     * @param channel           signal channel, counted from 1, or 0 when not given (the first, or the ratio
+     *                          method's numerator)
+     * @param structuralChannel structural channel counted from 1, or 0 for none
+     * @param normalisation     normalisation by the structural channel
+     * @param motion            what to do about motion (default: correct)
+     * @param zSlice            z-slice to analyse, counted from 1, or 0 to project
+     * @param zProjection       "max" or "mean", the projection over slices when {@code zSlice} is 0
+     * @param trainGapS         largest gap between pulses of one train, s
+     */
+    public record Acquisition(int channel, int structuralChannel, Normalisation normalisation, MotionMode motion,
+                              int zSlice, String zProjection, double trainGapS) {
+        /** Nothing given. */
+        public static final Acquisition DEFAULT = new Acquisition(0, 0, Normalisation.NONE, MotionMode.CORRECT, 0,
+                "max", AnalysisRequest.DEFAULT_TRAIN_GAP_S);
+    }
 
     /** The name of the file that marks a session folder. */
     public static final String FILE_NAME = "session.json";
 
     /** The calibration methods of the contract. */
     public static final List<String> CALIBRATION_METHODS =
-            List.of("none", "single-wavelength", "dynamic-range", "ratio", "hill", "standards", "file");
+            List.of("none", "single-wavelength", "dynamic-range", "ratio", "hill", "standards", "file", "ratio-change",
+                    "lifetime");
 
     private static final Set<String> KEYS = Set.of("movie", "path", "path_roi_name", "path_width_um", "pixel_size_um",
-            "frame_interval_s", "stimulus", "baseline_frames", "background", "calibration", "models",
-            "bleach_correction", "fit", "description", "notes", "group");
+            "frame_interval_s", "stimulus", "stimuli", "train_gap_s", "baseline_frames", "background", "calibration",
+            "models", "bleach_correction", "fit", "description", "notes", "group", "channel", "structural_channel",
+            "normalisation", "motion", "z");
     private static final Set<String> FIT_KEYS = Set.of("criterion", "profiles", "bootstrap_replicates", "seed",
             "free_stimulus", "sealed_ends");
-    private static final Set<String> STIMULUS_KEYS = Set.of("time_s", "position_um");
+    private static final Set<String> STIMULUS_KEYS = Set.of("time_s", "position_um", "x_px", "y_px");
+    private static final Set<String> Z_KEYS = Set.of("slice", "projection");
     /** The names {@code models} may hold: the models the session analysis can fit. */
     private static final List<String> FITTABLE_MODELS = ModelCatalogue.scalarNames();
 
@@ -66,6 +97,7 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
         calibration = calibration == null ? null : calibration.deepCopy();
         models = models == null ? null : List.copyOf(models);
         warnings = List.copyOf(warnings);
+        stimuli = List.copyOf(stimuli);
     }
 
     @Override
@@ -103,14 +135,9 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
         Double width = root.optionalNonNegative("path_width_um");
         Double pixel = root.optionalPositive("pixel_size_um");
         Double interval = root.optionalPositive("frame_interval_s");
-        Double stimTime = null;
-        Double stimPos = null;
-        if (root.get("stimulus") != null) {
-            JsonFields s = root.object("stimulus");
-            ignored(s, STIMULUS_KEYS, warnings);
-            stimTime = s.optionalNonNegative("time_s");
-            stimPos = s.optionalNonNegative("position_um");
-        }
+        List<StimulusSpec> stimuli = stimuli(root, warnings);
+        Double stimTime = stimuli.get(0).timeS();
+        Double stimPos = stimuli.get(0).positionUm();
         int[] baseline = null;
         if (root.get("baseline_frames") != null) {
             baseline = frameRange(root);
@@ -158,8 +185,100 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
         if (root.get("fit") != null) {
             fit = fitSettings(root.object("fit"), warnings);
         }
+        Acquisition acquisition = acquisition(root, warnings);
+        if (acquisition.normalisation() != Normalisation.NONE && !"none".equals(calibration.get("method")
+                .getAsString())) {
+            throw root.bad("normalisation", "cannot be combined with a calibration: give \"normalisation\": \""
+                    + acquisition.normalisation().key() + "\" or a calibration method, not both");
+        }
         return new SessionConfig(movie, path, pathRoiName, width == null ? 1.0 : width, pixel, interval, stimTime,
-                stimPos, baseline, bgValue, bgRoi, calibration, models, bleach, fit, warnings);
+                stimPos, baseline, bgValue, bgRoi, calibration, models, bleach, fit, warnings, stimuli, acquisition);
+    }
+
+    /**
+     * {@code stimulus} (one) or {@code stimuli} (a list), each with {@code time_s} and either {@code position_um}
+     * along the path or a spot {@code x_px}, {@code y_px} of the image.
+     */
+    private static List<StimulusSpec> stimuli(JsonFields root, List<String> warnings) {
+        if (root.get("stimulus") != null && root.get("stimuli") != null) {
+            throw root.bad("stimuli", "cannot be given together with \"stimulus\": list every stimulus in "
+                    + "\"stimuli\"");
+        }
+        if (root.get("stimuli") != null) {
+            List<JsonFields> list = root.objects("stimuli");
+            if (list.isEmpty()) {
+                throw root.bad("stimuli", "must list at least one stimulus");
+            }
+            List<StimulusSpec> out = new ArrayList<>();
+            for (JsonFields s : list) {
+                out.add(stimulus(s, warnings));
+            }
+            return out;
+        }
+        if (root.get("stimulus") != null) {
+            return List.of(stimulus(root.object("stimulus"), warnings));
+        }
+        return List.of(StimulusSpec.DETECT);
+    }
+
+    private static StimulusSpec stimulus(JsonFields s, List<String> warnings) {
+        ignored(s, STIMULUS_KEYS, warnings);
+        Double time = s.optionalNonNegative("time_s");
+        Double position = s.optionalNonNegative("position_um");
+        Double x = s.optionalNumber("x_px");
+        Double y = s.optionalNumber("y_px");
+        if ((x == null) != (y == null)) {
+            throw s.bad(x == null ? "x_px" : "y_px", "must be given together with \"" + (x == null ? "y_px" : "x_px")
+                    + "\": a stimulation spot needs both coordinates");
+        }
+        if (x != null && position != null) {
+            throw s.bad("position_um", "cannot be given together with a spot (x_px, y_px): give one of them");
+        }
+        return new StimulusSpec(time, position, x, y);
+    }
+
+    /** Channels, normalisation, motion, z-slices and the train gap. */
+    private static Acquisition acquisition(JsonFields root, List<String> warnings) {
+        Acquisition d = Acquisition.DEFAULT;
+        int channel = (int) root.wholeNumber("channel", 1, 1000, d.channel());
+        int structural = (int) root.wholeNumber("structural_channel", 1, 1000, d.structuralChannel());
+        if (structural != 0 && structural == channel) {
+            throw root.bad("structural_channel", "must differ from \"channel\" (" + channel + ")");
+        }
+        String n = root.optionalString("normalisation");
+        Normalisation normalisation = n == null ? d.normalisation() : Normalisation.of(n);
+        if (normalisation == null) {
+            throw root.bad("normalisation", "must be \"none\", \"G/R\" or \"dG/R\"");
+        }
+        if (normalisation != Normalisation.NONE && structural == 0) {
+            throw root.bad("normalisation", "needs \"structural_channel\": the channel of the structural dye");
+        }
+        String m = root.optionalString("motion");
+        MotionMode motion = m == null ? d.motion() : MotionMode.of(m);
+        if (motion == null) {
+            throw root.bad("motion", "must be \"correct\", \"measure\" or \"off\"");
+        }
+        int slice = d.zSlice();
+        String projection = d.zProjection();
+        if (root.get("z") != null) {
+            JsonFields z = root.object("z");
+            ignored(z, Z_KEYS, warnings);
+            if ((z.get("slice") == null) == (z.get("projection") == null)) {
+                throw root.bad("z", "must hold exactly one of \"slice\" (a slice number counted from 1) or "
+                        + "\"projection\" (\"max\" or \"mean\")");
+            }
+            if (z.get("slice") != null) {
+                slice = (int) z.wholeNumber("slice", 1, 100_000, 0);
+            } else {
+                projection = z.string("projection");
+                if (!projection.equals("max") && !projection.equals("mean")) {
+                    throw z.bad("projection", "must be \"max\" or \"mean\"");
+                }
+            }
+        }
+        Double gap = root.optionalNonNegative("train_gap_s");
+        return new Acquisition(channel, structural, normalisation, motion, slice, projection,
+                gap == null ? d.trainGapS() : gap);
     }
 
     /** Adds a warning for each key of {@code o} that Dendrokin does not read. */

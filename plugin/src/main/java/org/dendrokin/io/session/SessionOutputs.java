@@ -1,15 +1,24 @@
 package org.dendrokin.io.session;
 
 import java.io.IOException;
+import java.io.OutputStreamWriter;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.motion.MotionTrace;
+import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.KymographCsv;
 import org.dendrokin.io.plot.Picture;
+import org.dendrokin.io.text.Numbers;
+
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVPrinter;
 
 /**
  * Writes the outputs of one analysis into its output folder, each from the one typed result:
@@ -23,8 +32,27 @@ public final class SessionOutputs {
     public static final String SD_CSV = "concentration_sd.csv";
     /** The report. */
     public static final String REPORT_HTML = "report.html";
+    /** The measured shift of every frame. */
+    public static final String MOTION_CSV = "motion.csv";
 
     private SessionOutputs() {
+    }
+
+    /** One line a frame: time, the shift in um along x and y, and the correlation peak's height. */
+    private static void writeMotion(MotionTrace t, double frameIntervalS, Path target) {
+        AtomicFiles.write(target, out -> {
+            Writer w = new OutputStreamWriter(out, StandardCharsets.UTF_8);
+            try (CSVPrinter csv = new CSVPrinter(w, CSVFormat.DEFAULT.builder().setRecordSeparator('\n').get())) {
+                csv.printRecord("frame", "time_s", "dx_um", "dy_um", "peak_height");
+                double[] dx = t.dxUm();
+                double[] dy = t.dyUm();
+                double[] peaks = t.peakHeights();
+                for (int f = 0; f < dx.length; f++) {
+                    csv.printRecord(f, Numbers.forFile(f * frameIntervalS), Numbers.forFile(dx[f]),
+                            Numbers.forFile(dy[f]), Numbers.forFile(peaks[f]));
+                }
+            }
+        });
     }
 
     /**
@@ -46,6 +74,9 @@ public final class SessionOutputs {
         KymographCsv.write(a.signal(), outDir.resolve(KYMOGRAPH_CSV));
         if (a.calibrated().propagated()) {
             KymographCsv.write(a.calibrated().sdMicromolar(), outDir.resolve(SD_CSV));
+        }
+        if (a.motion().trace() != null) {
+            writeMotion(a.motion().trace(), a.movie().frameIntervalS(), outDir.resolve(MOTION_CSV));
         }
         double saturation = in.bitDepth() == 8 || in.bitDepth() == 16 ? (1 << in.bitDepth()) - 1 : Double.NaN;
         List<Picture> pictures = SessionPictures.writeAll(outDir, a, saturation);

@@ -16,6 +16,7 @@ import java.util.Locale;
 
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.kymo.Kymograph;
+import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.core.preprocess.Robust;
 import org.dendrokin.core.spread.SpreadAnalysis;
@@ -62,6 +63,22 @@ public final class SessionPictures {
         out.add(new Picture("kymograph-raw.png", "Raw kymograph",
                 "The movie's intensity averaged over the band, before background subtraction and bleach correction. "
                         + rawMap.scaleSentence(rawLabelled)));
+        MotionTrace motion = a.motion().trace();
+        if (motion != null) {
+            double[] t = new double[motion.frameCount()];
+            for (int f = 0; f < t.length; f++) {
+                t[f] = f * a.movie().frameIntervalS();
+            }
+            LinePlot p = new LinePlot("Motion of the specimen", "time (s)", "shift (um)")
+                    .line("x (across the image)", t, motion.dxUm()).line("y (down the image)", t, motion.dyUm());
+            Pictures.savePng(p.render(W, H), outDir.resolve("motion.png"));
+            out.add(new Picture("motion.png", "Motion", String.format(Locale.ROOT, "The shift of every frame "
+                    + "against the mean of the baseline frames, measured by phase correlation (largest %s um, RMS %s "
+                    + "um; a quarter of the band width, %s um, is where a warning starts). %s", fmt(motion.maxShiftUm()),
+                    fmt(motion.rmsShiftUm()), fmt(motion.warningThresholdUm()), a.motion().corrected()
+                            ? "The path was moved with these shifts frame by frame when the kymograph was taken."
+                            : "The kymograph was taken along the path as drawn (motion measured, not corrected).")));
+        }
         if (pre.bleach().applied() || hasFinite(pre.bleach().trace())) {
             LinePlot bleach = new LinePlot("Photobleaching", "time (s)", "normalised intensity")
                     .points("quiet samples", pre.bleach().traceTimesS(), pre.bleach().trace());

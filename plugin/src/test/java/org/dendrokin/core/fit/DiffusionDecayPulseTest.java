@@ -127,6 +127,43 @@ class DiffusionDecayPulseTest {
     }
 
     @Test
+    void rangesAgreeWithTheWholeGrid() {
+        double[] even = grid(0, 20, 81);
+        double[] uneven = even.clone();
+        for (int c = 0; c < uneven.length; c++) {
+            uneven[c] += 0.03 * Math.sin(c);
+        }
+        double[] t = grid(0, 12, 25);
+        for (double[] x : new double[][] {even, uneven}) {
+            for (double[] walls : new double[][] {null, {0, 20}}) {
+                for (double t0 : new double[] {1.7, Double.NaN}) {
+                    DiffusionDecayPulse m = new DiffusionDecayPulse(x, t, t0, Double.NaN, walls, Unit.DF_F0);
+                    int np = m.parameters().size();
+                    double[] p = m.pack(0.8, 0.07, 1.3, 6.5, 0.9, 0.1, 1.7);
+                    double[] values = new double[m.size()];
+                    double[] jac = new double[m.size() * np];
+                    m.evaluate(p, values, jac);
+                    // whole frames, and ranges that start and end inside frames
+                    for (int[] r : new int[][] {{0, m.size()}, {81 * 3, 81 * 4}, {40, 81 * 7 + 13}, {500, 501}}) {
+                        double[] v = new double[r[1] - r[0]];
+                        double[] j = new double[v.length * np];
+                        m.evaluateRange(p, r[0], r[1], v, j);
+                        for (int i = r[0]; i < r[1]; i++) {
+                            // REF: the same closed form through its exact Gaussians and through the recurrence [common practice]
+                            assertEquals(values[i], v[i - r[0]], 1e-12 * (1 + Math.abs(values[i])), "value " + i);
+                            for (int a = 0; a < np; a++) {
+                                double want = jac[i * np + a];
+                                assertEquals(want, j[(i - r[0]) * np + a], 1e-10 * (1 + Math.abs(want)),
+                                        "d value " + i + " / d " + m.parameters().get(a).name());
+                            }
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    @Test
     void onePassSumsDoNotDependOnHowTheBlocksAreScheduled() {
         // enough frames for several blocks summed in parallel; the blocks are added in a fixed order
         double[] x = grid(0, 40, 161);

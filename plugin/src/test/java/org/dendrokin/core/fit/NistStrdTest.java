@@ -280,13 +280,4 @@ class NistStrdTest {
         assertCertified(set, fit(set, LANCZOS, true, set.start1()), "start 1", 1e-9, 5e-3, 5e-3);
         assertCertified(set, fit(set, LANCZOS, true, set.start2()), "start 2", 1e-9, 5e-3, 5e-3);
     }
-
-    @Test
-    void studentQuantilesMatchTables() {
-        // REF: t(0.975, df) tables, Abramowitz & Stegun ch. 26 [published: standard tables]; sheet s8.2
-        assertEquals(12.70620, ModelFit.tQuantile(1), 1e-5);
-        assertEquals(2.570582, ModelFit.tQuantile(5), 1e-6);
-        assertEquals(2.228139, ModelFit.tQuantile(10), 1e-6);
-        assertEquals(2.048407, ModelFit.tQuantile(28), 1e-6);
-    }
 }

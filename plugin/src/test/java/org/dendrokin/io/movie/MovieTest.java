@@ -1,5 +1,6 @@
 package org.dendrokin.io.movie;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -155,13 +156,36 @@ class MovieTest {
         InputException e = assertThrows(InputException.class, () -> Movie.open(colour, 0.2, 0.1));
         assertTrue(e.getMessage().startsWith(colour.toString()) && e.getMessage().contains("colour"), e.getMessage());
 
+    }
+
+    @Test
+    void aZStackOverTimeGivesEachPlaneAndTheProjections() {
         ImagePlus zt = TestMovies.stack(16, 6, 6, 3 * 4);
         zt.setDimensions(1, 3, 4);
         zt.setOpenAsHyperStack(true);
         Path fourD = TestMovies.save(zt, dir.resolve("zt.tif"));
-        e = assertThrows(InputException.class, () -> Movie.open(fourD, 0.2, 0.1));
-        assertTrue(e.getMessage().startsWith(fourD.toString()) && e.getMessage().contains("z-slices at each of 4"),
-                e.getMessage());
+        try (Movie movie = Movie.open(fourD, 0.2, 0.1)) {
+            assertEquals(3, movie.zSlices(), "focal planes");
+            assertEquals(4, movie.frameCount(), "time points");
+            float[] plane = new float[36];
+            float[] max = movie.projected(0, "max").readRows(2, 0, 6, new float[36]);
+            float[] mean = movie.projected(0, "mean").readRows(2, 0, 6, new float[36]);
+            float[] expectedMax = new float[36];
+            float[] expectedMean = new float[36];
+            java.util.Arrays.fill(expectedMax, Float.NEGATIVE_INFINITY);
+            for (int z = 0; z < 3; z++) {
+                // REF: ImageJ's own stack order, channel fastest, then slice, then frame (ImagePlus.getStackIndex) [common practice]
+                ij.process.ImageProcessor ip = zt.getStack().getProcessor(zt.getStackIndex(1, z + 1, 3));
+                movie.slice(0, z).readRows(2, 0, 6, plane);
+                for (int i = 0; i < 36; i++) {
+                    assertEquals(ip.getf(i), plane[i], 0, "plane " + z + " pixel " + i);
+                    expectedMax[i] = Math.max(expectedMax[i], ip.getf(i));
+                    expectedMean[i] += ip.getf(i) / 3f;
+                }
+            }
+            assertArrayEquals(expectedMax, max, 0f, "maximum projection");
+            assertArrayEquals(expectedMean, mean, 1e-3f, "mean projection");
+        }
     }
 
     @Test

@@ -6,10 +6,11 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
 
+import org.apache.commons.math3.stat.descriptive.rank.Percentile;
 import org.dendrokin.core.Progress;
 import org.junit.jupiter.api.Test;
 
-class BootstrapTest {
+class ParametricBootstrapTest {
     @Test
     void parametricBootstrapIntervalsMatchTheCertifiedSpreadOnMgh17() {
         ModelFit.Options options = ModelFit.Options.defaults().withProfiles(false).withTolerance(1e-12)
@@ -29,6 +30,16 @@ class BootstrapTest {
             assertEquals(2 * 1.96 * set.certifiedSd()[j], boot.width(), 0.25 * 2 * 1.96 * set.certifiedSd()[j],
                     "bootstrap interval width of b" + (j + 1));
             assertTrue(boot.contains(set.certified()[j]), "holds the certified value");
+        }
+    }
+
+    @Test
+    void percentilesInterpolateLikeCommonsMathTypeSeven() {
+        double[] v = {0.3, 1.1, 1.7, 2.0, 2.9, 3.4, 4.4, 5.0, 6.2, 7.7, 8.1};
+        for (double q : new double[] {0.025, 0.5, 0.975}) {
+            // REF: type 7 sample quantile (Hyndman & Fan 1996 Am Stat 50:361), as Commons Math Percentile R_7 [from memory: Hyndman & Fan 1996; sure]
+            double expected = new Percentile().withEstimationType(Percentile.EstimationType.R_7).evaluate(v, 100 * q);
+            assertEquals(expected, ParametricBootstrap.quantile(v, q), 1e-12, "quantile " + q);
         }
     }
 }
