@@ -13,8 +13,10 @@ import org.dendrokin.core.analysis.AnalysisInputException;
 import org.dendrokin.core.analysis.AnalysisRequest;
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.BackgroundRequest;
+import org.dendrokin.core.analysis.BranchedPaths;
 import org.dendrokin.core.analysis.FitRequest;
 import org.dendrokin.core.analysis.SessionAnalysis;
+import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.kymo.FrameSource;
 import org.dendrokin.core.path.DendritePath;
@@ -31,6 +33,7 @@ import org.dendrokin.io.session.ResultsJson;
 import org.dendrokin.io.session.SessionConfig;
 import org.dendrokin.io.session.SessionInputs;
 import org.dendrokin.io.session.SessionOutputs;
+import org.dendrokin.io.session.TreeSession;
 
 import ij.gui.Roi;
 import ij.io.RoiDecoder;
@@ -116,13 +119,18 @@ public final class SessionRunner {
             throw new InputException(sessionFile,
                     "key \"movie\" names " + config.movie() + ", which is not in the session folder");
         }
-        Path pathFile = config.path() != null ? sessionDir.resolve(config.path()) : onlyFile(sessionDir, "path",
-                "an ImageJ .roi path", config.backgroundRoi(), ".roi");
+        TreeSession.Lines lines = TreeSession.read(sessionDir, config,
+                config.path() == null ? null : sessionDir.resolve(config.path()));
+        Path pathFile = lines != null ? lines.files().values().iterator().next()
+                : config.path() != null ? sessionDir.resolve(config.path()) : onlyFile(sessionDir, "path",
+                        "an ImageJ .roi path", config.backgroundRoi(), ".roi");
         if (!Files.isRegularFile(pathFile)) {
             throw new InputException(sessionFile,
                     "key \"path\" names " + config.path() + ", which is not in the session folder");
         }
-        DendritePath path = PathFiles.read(pathFile, config.pathRoiName());
+        DendritePath path = lines != null ? lines.paths().values().iterator().next()
+                : PathFiles.read(pathFile, config.pathRoiName());
+        TreeSessionAnalysis.Result tree = null;
         SessionInputs inputs;
         AnalysisResult analysis;
         try (Movie movie = Movie.open(movieFile, config.pixelSizeUm(), config.frameIntervalS())) {
@@ -166,15 +174,19 @@ public final class SessionRunner {
                     background(config, sessionDir, frames), SessionCalibration.request(calibration, lifetime),
                     config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
                     acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()));
+            BranchedPaths layout = lines == null ? null : TreeSession.join(lines, movie.pixelSizeUm());
             try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {
                 Path file = e.subject() == AnalysisInputException.Subject.PATH ? pathFile : sessionFile;
                 throw new InputException(file, e.getMessage(), e);
             }
+            if (layout != null) {
+                tree = TreeSession.analyse(lines, layout, frames, config, analysis, progress);
+            }
         }
         progress.checkCancelled();
-        Path report = SessionOutputs.write(outDir, inputs, analysis, progress);
+        Path report = SessionOutputs.write(outDir, inputs, analysis, tree, progress);
         return new Result(inputs, analysis, outDir, report);
     }
 

@@ -45,6 +45,16 @@ public final class ReportHtml {
      * @param pictures the pictures beside the report, in the order shown
      */
     public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures) {
+        write(target, in, a, pictures, "");
+    }
+
+    /**
+     * Writes the report with an extra section (HTML) after the fits, e.g. a branched session's tree.
+     *
+     * @param extraHtml inserted before the warnings; empty for none
+     */
+    public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures,
+                             String extraHtml) {
         String session = in.sessionName();
         Kymograph signal = a.signal();
         Preprocessing.Result pre = a.preprocessing();
@@ -139,6 +149,7 @@ public final class ReportHtml {
         h.append("</table>\n");
 
         h.append(FitReportHtml.section(a.fits(), a.skipped()));
+        h.append(extraHtml);
 
         h.append("<h2>Warnings</h2>\n");
         List<String> warnings = Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text)

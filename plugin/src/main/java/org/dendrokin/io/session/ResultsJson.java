@@ -10,6 +10,7 @@ import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
 import org.dendrokin.core.analysis.ResolvedStimulus;
 import org.dendrokin.core.analysis.SkippedModel;
+import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.calib.Calibration;
 import org.dendrokin.core.calib.CalibrationSummary;
@@ -64,6 +65,16 @@ public final class ResultsJson {
      * @param kymographFile file name of the kymograph CSV beside it
      */
     public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile) {
+        return build(in, a, kymographFile, null);
+    }
+
+    /**
+     * The whole document, with a {@code "tree"} section last for a branched session ({@link TreeSessionOutputs}).
+     *
+     * @param tree the branched part, or null for a single-path session (no section)
+     */
+    public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile,
+                                   TreeSessionAnalysis.Result tree) {
         Kymograph signal = a.signal();
         JsonObject root = new JsonObject();
         root.addProperty("tool_version", ToolVersion.get());
@@ -118,6 +129,9 @@ public final class ResultsJson {
         JsonArray w = new JsonArray();
         Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text).forEach(w::add);
         root.add("warnings", w);
+        if (tree != null) {
+            root.add(TreeSession.KEY, TreeSessionOutputs.json(tree));
+        }
         return root;
     }
 

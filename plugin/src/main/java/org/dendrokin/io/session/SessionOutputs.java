@@ -6,10 +6,12 @@ import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.List;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
@@ -65,6 +67,16 @@ public final class SessionOutputs {
      * @return the report file
      */
     public static Path write(Path outDir, SessionInputs in, AnalysisResult a, Progress progress) {
+        return write(outDir, in, a, null, progress);
+    }
+
+    /**
+     * Writes every output, with those of a branched session's tree ({@link TreeSessionOutputs}) when there is one.
+     *
+     * @param tree the branched part, or null for a single-path session
+     */
+    public static Path write(Path outDir, SessionInputs in, AnalysisResult a, TreeSessionAnalysis.Result tree,
+                             Progress progress) {
         progress.report("writing results", 0, 1);
         try {
             Files.createDirectories(outDir);
@@ -79,10 +91,13 @@ public final class SessionOutputs {
             writeMotion(a.motion().trace(), a.movie().frameIntervalS(), outDir.resolve(MOTION_CSV));
         }
         double saturation = in.bitDepth() == 8 || in.bitDepth() == 16 ? (1 << in.bitDepth()) - 1 : Double.NaN;
-        List<Picture> pictures = SessionPictures.writeAll(outDir, a, saturation);
-        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV), outDir.resolve(ResultsJson.FILE_NAME));
+        List<Picture> pictures = new ArrayList<>(SessionPictures.writeAll(outDir, a, saturation));
+        if (tree != null) {
+            pictures.addAll(TreeSessionOutputs.write(outDir, tree));
+        }
+        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV, tree), outDir.resolve(ResultsJson.FILE_NAME));
         Path report = outDir.resolve(REPORT_HTML);
-        ReportHtml.write(report, in, a, pictures);
+        ReportHtml.write(report, in, a, pictures, tree == null ? "" : TreeSessionOutputs.html(tree));
         progress.report("writing results", 1, 1);
         return report;
     }
