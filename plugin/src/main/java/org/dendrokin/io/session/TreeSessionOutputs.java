@@ -67,10 +67,11 @@ public final class TreeSessionOutputs {
         String origin = t.stimulus() != null ? t.stimulus().branch() : tree.branchNames().get(0);
         double originUm = t.stimulus() != null ? t.stimulus().stimulus().positionUm() : 0;
         Pictures.savePng(TreePlot.render(tree, origin, originUm, positions, values,
-                "Peak dF/F0 on the tree", "dF/F0", false), outDir.resolve(TREE_PNG));
+                "Peak dF/F0 on the tree", "dF/F0", true), outDir.resolve(TREE_PNG));
         return List.of(new Picture(TREE_PNG, "The tree", "Peak dF/F0 over the movie at each position of every "
                 + "branch, the branches laid out by distance from the stimulus along the tree (across) and labelled "
-                + "by name; each line's own kymograph is in kymograph-LINE.csv."));
+                + "by name, coloured on a logarithmic scale over two decades below the largest peak; each line's own "
+                + "kymograph is in kymograph-LINE.csv."));
     }
 
     /** The {@code "tree"} section of results.json. */
