@@ -40,8 +40,9 @@ import org.dendrokin.core.units.Unit;
  * <p>
  * The signal that entered a line is its dF/F0 above the fitted baseline summed along the line (dF/F0 um), over time.
  * The model's value is the same sum of the engine's prediction scaled by the amplitude of the branch that holds the
- * stimulus; their ratio is the least-squares scale of the one time course to the other: a dye that fills the cell evenly has one amplitude everywhere in dF/F0, so
- * a ratio far from 1 says that more or less entered the side branch than diffusion through the tree carries there.
+ * stimulus; their ratio is the least-squares scale of the one time course to the other. A dye that fills the cell
+ * evenly has one amplitude everywhere in dF/F0, so a ratio far from 1 says that more or less entered the side branch
+ * than diffusion through the tree carries there.
  */
 public final class TreeSessionAnalysis {
     /** The model fitted on the tree. */

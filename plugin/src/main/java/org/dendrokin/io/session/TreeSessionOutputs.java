@@ -148,9 +148,9 @@ public final class TreeSessionOutputs {
         h.append("<table>\n<tr><th>Branch point (x, y in pixels)</th><th>Lines that meet there</th>"
                 + "<th>Largest gap, um</th></tr>\n");
         for (BranchedPaths.BranchPoint p : layout.branchPoints()) {
-            h.append("<tr><td>").append(String.format(Locale.ROOT, "%.1f, %.1f", p.xPx(), p.yPx())).append("</td><td>")
-                    .append(esc(String.join("; ", p.members()))).append("</td><td>").append(TreeSession.number(p.gapUm()))
-                    .append("</td></tr>\n");
+            h.append("<tr><td>").append(String.format(Locale.ROOT, "%.1f, %.1f", p.xPx(), p.yPx()))
+                    .append("</td><td>").append(esc(String.join("; ", p.members()))).append("</td><td>")
+                    .append(TreeSession.number(p.gapUm())).append("</td></tr>\n");
         }
         h.append("</table>\n");
         if (t.fit() != null && t.fit().converged()) {
@@ -179,8 +179,8 @@ public final class TreeSessionOutputs {
                     + "<th>Data, dF/F0 um</th><th>Model, dF/F0 um</th><th>Data / model</th><th>Model's peak at, s"
                     + "</th></tr>\n");
             for (TreeSessionAnalysis.Entered e : t.entered()) {
-                h.append("<tr><td>").append(esc(e.line())).append("</td><td>").append(TreeSession.number(e.distanceUm()))
-                        .append("</td><td>").append(TreeSession.number(e.dataPeak())).append("</td><td>")
+                h.append("<tr><td>").append(esc(e.line())).append("</td><td>")
+                        .append(TreeSession.number(e.distanceUm())).append("</td><td>").append(TreeSession.number(e.dataPeak())).append("</td><td>")
                         .append(TreeSession.number(e.modelPeak())).append("</td><td>")
                         .append(TreeSession.number(e.ratio())).append("</td><td>")
                         .append(TreeSession.number(e.peakTimeS())).append("</td></tr>\n");

@@ -72,7 +72,8 @@ public final class DemoTreeSessionGenerator {
     private DemoTreeSessionGenerator() {
     }
 
-    private static Map<String, double[]> lines() {
+    /** The lines, in image pixels (pixel centres at half-integers): name to {x0, y0, x1, y1}, the trunk first. */
+    public static Map<String, double[]> lines() {
         Map<String, double[]> m = new LinkedHashMap<>();
         m.put("trunk", new double[] {8, 48, 120, 48});
         m.put("side_a", new double[] {72, 48, 112, 8});
@@ -133,7 +134,9 @@ public final class DemoTreeSessionGenerator {
         AtomicFiles.write(dir.resolve("branches.zip"), o -> o.write(bytes));
         AtomicFiles.writeString(dir.resolve("session.json"), String.format(Locale.ROOT, """
                 {
-                  "description": "Synthetic branched demo: focal release on a trunk with three side branches, spreading by diffusion with decay through the tree; made by org.dendrokin.io.demo.DemoTreeSessionGenerator",
+                  "description": "Synthetic branched demo: focal release on a trunk with three side branches, \
+                spreading by diffusion with decay through the tree; made by \
+                org.dendrokin.io.demo.DemoTreeSessionGenerator",
                   "movie": "branches.tif",
                   "path": "branches.zip",
                   "path_width_um": 1.0,
