@@ -39,11 +39,11 @@ public class CompareWithModelCommand extends ModelParameters {
     @Parameter(type = ItemIO.OUTPUT, label = "Simulated front speed (um/s)")
     private double simulatedFrontSpeedUmPerS = Double.NaN;
 
-    @Parameter(type = ItemIO.OUTPUT, label = "Measured length constant (um)")
-    private double measuredLengthConstantUm = Double.NaN;
+    @Parameter(type = ItemIO.OUTPUT, label = "Measured peak decay length (um)")
+    private double measuredPeakDecayLengthUm = Double.NaN;
 
-    @Parameter(type = ItemIO.OUTPUT, label = "Simulated length constant (um)")
-    private double simulatedLengthConstantUm = Double.NaN;
+    @Parameter(type = ItemIO.OUTPUT, label = "Simulated peak decay length (um)")
+    private double simulatedPeakDecayLengthUm = Double.NaN;
 
     @Override
     public void run() {
@@ -60,10 +60,10 @@ public class CompareWithModelCommand extends ModelParameters {
                 simulatedFrontSpeedUmPerS = c.simulatedSpread().frontSpeed().value();
             }
             if (c.measuredSpread().peakDecayLength() != null) {
-                measuredLengthConstantUm = c.measuredSpread().peakDecayLength().value();
+                measuredPeakDecayLengthUm = c.measuredSpread().peakDecayLength().value();
             }
             if (c.simulatedSpread().peakDecayLength() != null) {
-                simulatedLengthConstantUm = c.simulatedSpread().peakDecayLength().value();
+                simulatedPeakDecayLengthUm = c.simulatedSpread().peakDecayLength().value();
             }
         } catch (RuntimeException e) {
             cancel(Commands.sentence(e));

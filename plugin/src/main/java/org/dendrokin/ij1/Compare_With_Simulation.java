@@ -26,7 +26,7 @@ import org.dendrokin.io.plot.ColourScale;
 /**
  * Plugins > Dendrokin > Compare with Simulation: puts a model with the user's own parameters (no fitting)
  * beside the measured kymograph. Opens one stack (measured, simulated, measured minus simulated) on one
- * colour scale, a table with the residual norm and the front speed and length constant of each, and a plot
+ * colour scale, a table with the residual norm and the front speed and peak decay length of each, and a plot
  * of profiles at a few times.
  */
 public class Compare_With_Simulation implements PlugIn {
@@ -52,6 +52,7 @@ public class Compare_With_Simulation implements PlugIn {
             ModelComparison.Settings model = ModelSettings.read(d);
             String folder = d.nextText();
             Comparison c = ModelComparison.compare(measured, model, progress);
+            c.mismatches().forEach(w -> IJ.log(COMMAND + ": " + w));
             ImagePlus stack = stack(c, current.getShortTitle() + " vs " + model.model() + " (" + measured.signalUnit()
                     + ")");
             ResultsTable table = table(c, model);
@@ -92,7 +93,7 @@ public class Compare_With_Simulation implements PlugIn {
         return image;
     }
 
-    /** The numbers a user compares: residual norm, front speed and length constant of each. */
+    /** The numbers a user compares: residual norm, front speed and peak decay length of each. */
     static ResultsTable table(Comparison c, ModelComparison.Settings model) {
         ResultsTable t = Tables.quantities();
         String unit = c.measured().signalUnit();
@@ -103,7 +104,7 @@ public class Compare_With_Simulation implements PlugIn {
         for (int i = 0; i < 2; i++) {
             String why = String.join(" ", results[i].warnings());
             Tables.add(t, sources[i], "front speed", "um/s", results[i].frontSpeed(), why);
-            Tables.add(t, sources[i], "length constant", "um", results[i].peakDecayLength(), why);
+            Tables.add(t, sources[i], "peak decay length", "um", results[i].peakDecayLength(), why);
             Tables.add(t, sources[i], "decay time", "s", results[i].decayTime(), why);
         }
         double[] p = model.parameters();

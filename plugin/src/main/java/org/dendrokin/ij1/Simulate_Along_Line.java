@@ -1,5 +1,7 @@
 package org.dendrokin.ij1;
 
+import java.util.Arrays;
+
 import ij.IJ;
 import ij.ImagePlus;
 import ij.WindowManager;
@@ -10,7 +12,7 @@ import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.kymo.KymographExtractor;
 import org.dendrokin.core.path.DendritePath;
 import org.dendrokin.core.preprocess.BackgroundEstimator;
-import org.dendrokin.core.preprocess.DeltaF;
+import org.dendrokin.core.preprocess.Preprocessing;
 import org.dendrokin.io.compare.ModelComparison;
 import org.dendrokin.io.movie.ImagePlusFrames;
 
@@ -47,7 +49,7 @@ public class Simulate_Along_Line implements PlugIn {
             if (!folder.isEmpty()) {
                 Compare_With_Simulation.saveKymograph(image, simulated, java.nio.file.Path.of(folder));
             }
-            ImagePlus measured = current.getStackSize() > 1 ? measured(current, model.stimulusTimeS(), progress) : null;
+            ImagePlus measured = current.getStackSize() > 1 ? measured(current, model.stimulusTimeS(), model.stimulusUm(), progress) : null;
             if (measured != null) {
                 // the measured dF/F0 beside the model, both on the model's display range for a fair look
                 measured.setDisplayRange(image.getDisplayRangeMin(), image.getDisplayRangeMax());
@@ -92,11 +94,12 @@ public class Simulate_Along_Line implements PlugIn {
 
     /**
      * The measured kymograph along the movie's line, on the simulation's grid (one sample per pixel along the
-     * line, a band as wide as the line), as dF/F0: background from pixels away from the line subtracted, F0 the
-     * median of the frames before the stimulus. Null, with a line in the Log, when no frame precedes the stimulus
+     * line, a band as wide as the line), as dF/F0 corrected as {@code analyze} corrects it: background from
+     * pixels away from the line subtracted, bleaching fitted on the frames before the stimulus and removed, F0
+     * from those frames. Null, with a line in the Log, when no frame precedes the stimulus
      * (then there is no F0 to compare with).
      */
-    static ImagePlus measured(ImagePlus movie, double stimulusTimeS, IjProgress progress) {
+    static ImagePlus measured(ImagePlus movie, double stimulusTimeS, double stimulusUm, IjProgress progress) {
         ImageSettings cal = ImageSettings.of(movie);
         double px = cal.pixelSizeUm();
         int before = (int) Math.ceil(stimulusTimeS / cal.frameIntervalS()) - 1;
@@ -118,14 +121,18 @@ public class Simulate_Along_Line implements PlugIn {
         BackgroundEstimator.Estimate bg = BackgroundEstimator.fromFarPixels(frames, e.xPx(), e.yPx(),
                 (bandUm / 2 + 3.0) / px, picks, progress);
         double background = Double.isFinite(bg.value()) ? bg.value() : 0;
-        double[] v = e.kymograph().values();
-        for (int i = 0; i < v.length; i++) {
-            v[i] -= background;
-        }
-        Kymograph intensity = e.kymograph().withValues(v, e.kymograph().signalUnit());
-        Kymograph dff = DeltaF.compute(intensity, 0, Math.min(before, intensity.frameCount() - 1)).kymograph();
+        double[] perFrame = new double[e.kymograph().frameCount()];
+        Arrays.fill(perFrame, background);
+        // The same correction as analyze: background, bleaching fitted on the baseline and removed, then dF/F0.
+        Preprocessing.Result corrected = Preprocessing.run(e.kymograph(), perFrame,
+                new Preprocessing.Options(stimulusTimeS, stimulusUm, null, true));
+        Kymograph dff = corrected.deltaF().kymograph();
         IJ.log(COMMAND + ": measured dF/F0 along the line, background " + String.format(java.util.Locale.ROOT,
-                "%.4g", background) + " (" + bg.description() + "), F0 from frames 0-" + before + ".");
+                "%.4g", background) + " (" + bg.description() + "), F0 from frames " + corrected.baselineFirst() + "-"
+                + corrected.baselineLast() + (corrected.bleach().applied() && corrected.bleach().timeConstant() != null
+                ? String.format(java.util.Locale.ROOT, ", bleaching corrected (time constant %.3g s)",
+                        corrected.bleach().timeConstant().value()) : ", no bleaching correction") + ".");
+        corrected.warnings().forEach(w -> IJ.log(COMMAND + ": " + w));
         return KymographImage.toImage(dff, movie.getShortTitle() + " measured (dF/F0)");
     }
 

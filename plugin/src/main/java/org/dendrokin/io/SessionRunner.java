@@ -173,7 +173,8 @@ public final class SessionRunner {
                     movie.pixelSizeUm(), movie.frameIntervalS(), config.pathWidthUm(),
                     background(config, sessionDir, frames), SessionCalibration.request(calibration, lifetime),
                     config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
-                    acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()));
+                    acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()),
+                    acq.linePeriodS(movie.frameIntervalS()));
             BranchedPaths layout = lines == null ? null : TreeSession.join(lines, movie.pixelSizeUm());
             try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);

@@ -116,4 +116,43 @@ class AcquisitionTest {
         assertEquals(s.offPathUm(), r.analysis().stimuli().get(0).stimulus().offPathUm(), px / 2, "distance off "
                 + "the path, um");
     }
+
+    @Test
+    void twoStimuliAtDifferentTimesAndPlacesAreBothFoundAndMeasured() throws IOException {
+        // Two pulses on one dendrite (superposed: diffusion with decay is linear), the second 30 s after the first
+        // and about a third of the path away; session.json gives both as spots in pixels with their times.
+        SessionSpec base = SessionSpec.realistic(24);
+        SessionSpec.GaussianPulse first = (SessionSpec.GaussianPulse) base.signal();
+        SessionSpec.GaussianPulse second = new SessionSpec.GaussianPulse(first.dUm2PerS(), first.kPerS(),
+                first.sigma0Um(), first.amplitude(), first.timeS() + 30, first.positionFraction() > 0.5 ? 0.15 : 0.85);
+        SessionSpec spec = base.withSignal(new SessionSpec.PulsePair(first, second));
+        SessionGenerator.Written w = SessionGenerator.write(spec, dir.resolve("two"));
+        Truth.Stimulus a = w.truth().stimulus();
+        Truth.Stimulus b = w.truth().laterStimuli().get(0);
+        Path json = dir.resolve("two").resolve("session.json");
+        Files.writeString(json, Files.readString(json).replaceAll("\"stimulus\"\\s*:\\s*\\{[^}]*\\}", String.format(
+                java.util.Locale.ROOT, "\"stimuli\": [{\"time_s\": %s, \"x_px\": %s, \"y_px\": %s}, "
+                        + "{\"time_s\": %s, \"x_px\": %s, \"y_px\": %s}]", a.timeS(), a.xPx(), a.yPx(), b.timeS(),
+                b.xPx(), b.yPx())));
+        SessionRunner.Result r = SessionRunner.analyze(dir.resolve("two"), dir.resolve("two-out"), Progress.NONE);
+        double px = r.analysis().movie().pixelSizeUm();
+        assertEquals(2, r.analysis().stimuli().size(), "both stimuli are analysed");
+        Truth.Stimulus[] truth = {a, b};
+        for (int i = 0; i < 2; i++) {
+            var outcome = r.analysis().stimuli().get(i);
+            // REF: the generator's own projection of each true spot onto the drawn path [common practice]
+            assertEquals(truth[i].pathPositionUm(), outcome.stimulus().positionUm(), px / 2, "stimulus " + i);
+            assertEquals(truth[i].timeS(), outcome.stimulus().timeS(), 1e-9, "stimulus " + i + " time");
+            assertNotNull(outcome.spread(), "the spread of stimulus " + i + " is measured");
+            double[] d = outcome.spread().peakDistanceUm();
+            double[] amp = outcome.spread().peakAmplitude();
+            int top = 0;
+            for (int j = 1; j < amp.length; j++) {
+                top = amp[j] > amp[top] ? j : top;
+            }
+            assertTrue(amp.length > 0 && Math.abs(d[top]) < 2.0, "stimulus " + i + ": the largest peak lies "
+                    + (amp.length > 0 ? d[top] : Double.NaN) + " um from its own site");
+            assertNotNull(outcome.spread().peakDecayLength(), "stimulus " + i + ": its peak decay length");
+        }
+    }
 }

@@ -44,6 +44,9 @@ final class Scene {
     final double[] drawnAxisRangeUm;
     final double stimulusAxisUm;
     final double[] stimulusPx;
+    /** The second pulse's place on the axis (um) and in the image (pixels), or NaN and null for one stimulus. */
+    final double secondAxisUm;
+    final double[] secondPx;
     final List<SpineGeometry> spines;
     final IntruderGeometry intruder;
     final double[][] blobs;
@@ -126,11 +129,21 @@ final class Scene {
         double fraction = 0;
         if (spec.signal() instanceof SessionSpec.GaussianPulse p) {
             fraction = p.positionFraction();
+        } else if (spec.signal() instanceof SessionSpec.PulsePair pair) {
+            fraction = pair.first().positionFraction();
         } else if (spec.signal() instanceof SessionSpec.NagumoKick k) {
             fraction = k.positionFraction();
         }
         this.stimulusAxisUm = drawnAxisRangeUm[0] + fraction * (drawnAxisRangeUm[1] - drawnAxisRangeUm[0]);
         this.stimulusPx = axis.point(stimulusAxisUm / px);
+        if (spec.signal() instanceof SessionSpec.PulsePair pair) {
+            this.secondAxisUm = drawnAxisRangeUm[0]
+                    + pair.second().positionFraction() * (drawnAxisRangeUm[1] - drawnAxisRangeUm[0]);
+            this.secondPx = axis.point(secondAxisUm / px);
+        } else {
+            this.secondAxisUm = Double.NaN;
+            this.secondPx = null;
+        }
 
         this.spines = spines(spec.spines(), stream("spines"));
         this.intruder = spec.intruder().enabled() ? intruder(spec.intruder(), stream("intruder")) : null;
@@ -491,6 +504,15 @@ final class Scene {
             return new SignalField.Pulse(p.dUm2PerS(), p.kPerS(), p.sigma0Um(), p.amplitude(), p.timeS(),
                     stimulusAxisUm);
         }
+        if (s instanceof SessionSpec.PulsePair pair) {
+            SessionSpec.GaussianPulse a = pair.first();
+            SessionSpec.GaussianPulse b = pair.second();
+            SignalField one = new SignalField.Pulse(a.dUm2PerS(), a.kPerS(), a.sigma0Um(), a.amplitude(), a.timeS(),
+                    stimulusAxisUm);
+            SignalField two = new SignalField.Pulse(b.dUm2PerS(), b.kPerS(), b.sigma0Um(), b.amplitude(), b.timeS(),
+                    secondAxisUm);
+            return (sUm, tS) -> one.value(sUm, tS) + two.value(sUm, tS);
+        }
         if (s instanceof SessionSpec.NagumoFront f) {
             return new SignalField.Front(f.dUm2PerS(), f.kPerS(), f.a(), f.amplitude(), f.timeS(),
                     drawnAxisRangeUm[0]);
@@ -500,6 +522,9 @@ final class Scene {
 
     /** The signal's own decay rate, used inside spine heads too (0 for the bistable models). */
     double headDecayPerS() {
+        if (spec.signal() instanceof SessionSpec.PulsePair pair) {
+            return pair.first().kPerS();
+        }
         return spec.signal() instanceof SessionSpec.GaussianPulse p ? p.kPerS() : 0;
     }
 

@@ -243,11 +243,12 @@ public final class SessionGenerator {
                 spec.channels().structuralChannel(), slices % 2 == 1 ? (slices - 1) / 2 : -1);
 
         Truth.Signal signal;
-        if (spec.signal() instanceof SessionSpec.GaussianPulse p) {
+        SessionSpec.Signal sig = spec.signal() instanceof SessionSpec.PulsePair pair ? pair.first() : spec.signal();
+        if (sig instanceof SessionSpec.GaussianPulse p) {
             signal = new Truth.Signal(p.name(), p.dUm2PerS(), p.kPerS(), Double.NaN, p.amplitude(), p.sigma0Um(),
                     Double.NaN, Double.NaN, 1 / p.kPerS(), Math.sqrt(p.dUm2PerS() / p.kPerS()),
                     scene.headDecayPerS());
-        } else if (spec.signal() instanceof SessionSpec.NagumoFront f) {
+        } else if (sig instanceof SessionSpec.NagumoFront f) {
             signal = front(f.name(), f.dUm2PerS(), f.kPerS(), f.a(), f.amplitude());
         } else {
             SessionSpec.NagumoKick k = (SessionSpec.NagumoKick) spec.signal();
@@ -339,10 +340,16 @@ public final class SessionGenerator {
             intruder = new Truth.Intruder(scene.intruder.axisUm(), base[0] * px, ix, iy, off, spec.intruder());
         }
 
+        List<Truth.Stimulus> later = new ArrayList<>();
+        if (spec.signal() instanceof SessionSpec.PulsePair pair) {
+            double[] second = scene.drawn.nearest(scene.secondPx[0], scene.secondPx[1]);
+            later.add(new Truth.Stimulus(pair.second().timeS(), scene.secondAxisUm, second[0] * px, scene.secondPx[0],
+                    scene.secondPx[1], Math.abs(second[1]) * px, -1));
+        }
         return new Truth("org.dendrokin.synth.SessionGenerator", spec.seed(), Truth.UNITS, movie, signal, stimulus,
                 path, dendrite, spines, motion, spec.optics(), spec.camera(),
                 new Truth.Bleaching(spec.bleaching(), spec.channels().structuralBleachS()), spec.background(),
-                intruder);
+                intruder, later);
     }
 
     private static Truth.Signal front(String name, double d, double k, double a, double amplitude) {

@@ -584,7 +584,7 @@ public record SessionSpec(long seed, Imaging imaging, Dendrite dendrite, Spines 
     }
 
     /** What the indicator reports along the dendrite: dF/F0 as a function of arc length along the true axis. */
-    public sealed interface Signal permits GaussianPulse, NagumoFront, NagumoKick {
+    public sealed interface Signal permits GaussianPulse, NagumoFront, NagumoKick, PulsePair {
         /** Stimulus time, s. */
         double timeS();
 
@@ -627,6 +627,30 @@ public record SessionSpec(long seed, Imaging imaging, Dendrite dendrite, Spines 
         @Override
         public String name() {
             return kPerS == 0 ? "diffusion" : "diffusion-decay";
+        }
+    }
+
+    /**
+     * Two stimuli at different times and places: the sum of two Gaussian pulses, which is exact for a linear model
+     * such as diffusion with decay (superposition). session.json gives the first; the second is in truth.json's
+     * {@code later_stimuli}.
+     *
+     * @param first  the first pulse (its time and place are the session's stimulus)
+     * @param second the second pulse, later than the first
+     */
+    public record PulsePair(GaussianPulse first, GaussianPulse second) implements Signal {
+        public PulsePair {
+            Checks.require(second.timeS() > first.timeS(), "the second pulse comes after the first");
+        }
+
+        @Override
+        public double timeS() {
+            return first.timeS();
+        }
+
+        @Override
+        public String name() {
+            return first.name();
         }
     }
 

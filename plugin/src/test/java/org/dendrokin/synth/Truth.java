@@ -38,15 +38,17 @@ import com.google.gson.stream.JsonWriter;
  * @param bleaching  bleaching of both dyes
  * @param background the background's parts
  * @param intruder   the moving bright spine, or null
+ * @param laterStimuli the stimuli after the first, when the signal has several (empty otherwise)
  */
 public record Truth(String generator, long seed, Map<String, String> units, Movie movie, Signal signal,
         Stimulus stimulus, DrawnPath path, Dendrite dendrite, List<Spine> spines, Motion motion,
         SessionSpec.Optics optics, SessionSpec.Camera camera, Bleaching bleaching, SessionSpec.Background background,
-        Intruder intruder) {
+        Intruder intruder, List<Stimulus> laterStimuli) {
 
     public Truth {
         units = Map.copyOf(units);
         spines = List.copyOf(spines);
+        laterStimuli = List.copyOf(laterStimuli);
     }
 
     /** The units of the name suffixes used in truth.json. */

@@ -29,16 +29,29 @@ import org.dendrokin.core.path.DendritePath;
  * @param motion          what to do about motion
  * @param normalisation   normalisation by the structural channel
  * @param fits            the models to fit
+ * @param linePeriodS     time between the scan lines of a raster scan, s (a sample on image row y of frame f was
+ *                        taken at t_f + y * linePeriodS), or 0 to take every pixel of a frame at the frame's time
  */
 public record AnalysisRequest(FrameSource signal, FrameSource denominator, FrameSource structural,
                               DendritePath path, double pixelSizeUm, double frameIntervalS, double pathWidthUm,
                               BackgroundRequest background, CalibrationRequest calibration, List<StimulusSpec> stimuli,
                               double trainGapS, int[] baselineFrames, boolean bleachCorrection, MotionMode motion,
-                              Normalisation normalisation, FitRequest fits) {
+                              Normalisation normalisation, FitRequest fits, double linePeriodS) {
     /** Default largest gap between the pulses of one train, s. */
     public static final double DEFAULT_TRAIN_GAP_S = 2.0;
 
+    /** A request whose frames count as taken at one instant each. */
+    public AnalysisRequest(FrameSource signal, FrameSource denominator, FrameSource structural, DendritePath path,
+                           double pixelSizeUm, double frameIntervalS, double pathWidthUm, BackgroundRequest background,
+                           CalibrationRequest calibration, List<StimulusSpec> stimuli, double trainGapS,
+                           int[] baselineFrames, boolean bleachCorrection, MotionMode motion,
+                           Normalisation normalisation, FitRequest fits) {
+        this(signal, denominator, structural, path, pixelSizeUm, frameIntervalS, pathWidthUm, background,
+                calibration, stimuli, trainGapS, baselineFrames, bleachCorrection, motion, normalisation, fits, 0);
+    }
+
     public AnalysisRequest {
+        Checks.nonNegativeFinite(linePeriodS, "line period (s)");
         Checks.require(signal != null, "an analysis needs the movie's signal channel");
         Checks.require(path != null, "an analysis needs a path");
         Checks.positiveFinite(pixelSizeUm, "pixel size (um)");

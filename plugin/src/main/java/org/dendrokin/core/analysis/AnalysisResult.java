@@ -78,9 +78,16 @@ public record AnalysisResult(Movie movie, Extraction extraction, Background back
      * @param frameIntervalS frame interval used, s
      * @param pathLengthUm   length of the path, um
      * @param pathWidthUm    width of the band averaged across the path, um
+     * @param linePeriodS    time between scan lines of a raster scan, s, or 0 when every pixel of a frame counts as
+     *                       taken at the frame's time
      */
     public record Movie(int widthPx, int heightPx, int frameCount, double pixelSizeUm, double frameIntervalS,
-                        double pathLengthUm, double pathWidthUm) {
+                        double pathLengthUm, double pathWidthUm, double linePeriodS) {
+        /** A movie whose frames count as taken at one instant each. */
+        public Movie(int widthPx, int heightPx, int frameCount, double pixelSizeUm, double frameIntervalS,
+                     double pathLengthUm, double pathWidthUm) {
+            this(widthPx, heightPx, frameCount, pixelSizeUm, frameIntervalS, pathLengthUm, pathWidthUm, 0);
+        }
     }
 
     /**

@@ -9,6 +9,7 @@ import org.dendrokin.core.Progress;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.kymo.Extraction;
+import org.dendrokin.core.kymo.LineTiming;
 import org.dendrokin.core.kymo.FrameSource;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.BuiltInModel;
@@ -93,7 +94,13 @@ public final class SessionAnalysis {
                     progress);
         }
         calibrated.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.CALIBRATION, w)));
-        Kymograph signal = calibrated.signal();
+        double[] delays;
+        try {
+            delays = LineTiming.delays(request.linePeriodS(), frames.height(), dt, extraction.yPx());
+        } catch (IllegalArgumentException e) {
+            throw new AnalysisInputException(AnalysisInputException.Subject.SETTINGS, e.getMessage(), e);
+        }
+        Kymograph signal = calibrated.signal().withSampleDelays(delays);
         progress.checkCancelled();
 
         Preprocessing.Stimulus stimulus = pre.stimulus();
@@ -102,6 +109,7 @@ public final class SessionAnalysis {
         Kymograph fitted = signal;
         if (stimulus.known()) {
             BaselineChange.Result change = BaselineChange.of(signal, pre.baselineFirst(), pre.baselineLast());
+            change = new BaselineChange.Result(change.kymograph().withSampleDelays(delays), change.noiseSd());
             int end = stimuli.size() > 1 ? signal.firstFrameAtOrAfter(stimuli.get(1).timeS()) : signal.frameCount();
             Kymograph window = end < signal.frameCount() && end > 0 ? change.kymograph().frames(0, end)
                     : change.kymograph();
@@ -123,7 +131,7 @@ public final class SessionAnalysis {
         Headline headline = Headline.choose(spread, fits, warnings);
 
         AnalysisResult.Movie movie = new AnalysisResult.Movie(frames.width(), frames.height(), frames.frameCount(),
-                px, dt, request.path().lengthPx() * px, request.pathWidthUm());
+                px, dt, request.path().lengthPx() * px, request.pathWidthUm(), request.linePeriodS());
         return new AnalysisResult(movie, extraction, background, reference, pre, calibrated, spread, fits, skipped,
                 headline, new AnalysisResult.Motion(request.motion(), motion.trace()), request.normalisation(),
                 outcomes, warnings);

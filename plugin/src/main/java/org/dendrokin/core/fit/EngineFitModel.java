@@ -138,6 +138,12 @@ public final class EngineFitModel implements FitModel {
         return domain;
     }
 
+    /**
+     * Steps per frame at which a line-timed fit reads the model ({@link LineTimedModel}): a front that moves two of
+     * its widths per frame is then interpolated within a few percent.
+     */
+    public static final int LINE_STEPS = 4;
+
     /** Frames after the first stimulus that the first window of {@link #fitInStages} holds at least. */
     static final int MIN_WINDOW_FRAMES = 48;
     /** Relative tolerance of the windows before the last (their optimum is only a start). */
@@ -160,14 +166,33 @@ public final class EngineFitModel implements FitModel {
      * @param progress as for {@link ModelFit#fit} (reported for the last window)
      */
     public FitResult fitInStages(FitData data, List<double[]> starts, ModelFit.Options options, Progress progress) {
-        Checks.require(data.size() == size(), "the data do not lie on this model's grid");
-        int frames = outputTimesS.length;
+        return fitInStages(data, starts, options, progress, null);
+    }
+
+    /**
+     * As {@link #fitInStages(FitData, List, ModelFit.Options, Progress)} for a raster-scanned kymograph: this
+     * model is built on {@code LineTimedModel.extendedTimes(frame times, LINE_STEPS)}, and every window is read at
+     * each sample's own time through {@link LineTimedModel}.
+     *
+     * @param delaysS each position's delay after its frame's time, s, or null for none (then as above)
+     */
+    public FitResult fitInStages(FitData data, List<double[]> starts, ModelFit.Options options, Progress progress,
+                                 double[] delaysS) {
+        // with line timing this model predicts LINE_STEPS times per frame and one time after the last frame
+        int k = delaysS == null ? 1 : LINE_STEPS;
+        int frames = delaysS == null ? outputTimesS.length : (outputTimesS.length - 1) / k;
+        Checks.require(data.size() == frames * outputPositionsUm.length
+                && (delaysS == null || outputTimesS.length == frames * k + 1), "the data do not lie on this model's grid");
+        double[] frameTimes = new double[frames];
+        for (int f = 0; f < frames; f++) {
+            frameTimes[f] = outputTimesS[f * k];
+        }
         double first = Double.POSITIVE_INFINITY;
         for (Stimulus st : stimuli) {
             first = Math.min(first, st.timeS());
         }
         int before = 0;
-        while (before < frames && outputTimesS[before] < first) {
+        while (before < frames && frameTimes[before] < first) {
             before++;
         }
         List<Integer> windows = new ArrayList<>();
@@ -183,9 +208,11 @@ public final class EngineFitModel implements FitModel {
         int positions = outputPositionsUm.length;
         for (int count : windows) {
             progress.checkCancelled();
-            double[] times = java.util.Arrays.copyOf(outputTimesS, count);
-            EngineFitModel part = new EngineFitModel(model.name(), domain, times, outputPositionsUm, stimuli,
+            double[] times = java.util.Arrays.copyOf(outputTimesS, delaysS == null ? count : count * k + 1);
+            EngineFitModel engine = new EngineFitModel(model.name(), domain, times, outputPositionsUm, stimuli,
                     fixedStepS, signalUnit);
+            FitModel part = delaysS == null ? engine
+                    : new LineTimedModel(engine, java.util.Arrays.copyOf(frameTimes, count), delaysS, k);
             FitData partData = new FitData(java.util.Arrays.copyOf(data.values(), count * positions),
                     java.util.Arrays.copyOf(data.sigmas(), count * positions));
             List<double[]> next = new ArrayList<>();
@@ -196,7 +223,8 @@ public final class EngineFitModel implements FitModel {
             }
             current = next;
         }
-        FitResult r = ModelFit.fit(this, data, current, options, progress);
+        FitModel whole = delaysS == null ? this : new LineTimedModel(this, frameTimes, delaysS, k);
+        FitResult r = ModelFit.fit(whole, data, current, options, progress);
         if (extra == 0) {
             return r;
         }

@@ -84,7 +84,10 @@ public final class FrontFit {
             return new Result(FitResult.failed(TravellingFronts.NAME, "too few frames after the fronts formed",
                     List.of()), null, from, "");
         }
-        TravellingFronts shared = new TravellingFronts(k.distancesUm(), k.timesS(), x0, t0, left, right, true, unit);
+        // a raster scan: the fronts are evaluated at each sample's own time
+        double[] delays = k.hasSampleDelays() ? k.sampleDelaysS() : null;
+        TravellingFronts shared = new TravellingFronts(k.distancesUm(), k.timesS(), delays, x0, t0, left, right, true,
+                unit);
         List<double[]> starts = new ArrayList<>();
         for (double f : new double[] {1, 0.5, 2}) {
             starts.add(shared.pack(speed, speed, f * widthGuess, stimulusWidthUm, stimulusWidthUm, plateau,
@@ -94,7 +97,7 @@ public final class FrontFit {
         if (!(left && right) || !one.converged()) {
             return new Result(one, null, from, "");
         }
-        TravellingFronts separate = new TravellingFronts(k.distancesUm(), k.timesS(), x0, t0, true, true, false,
+        TravellingFronts separate = new TravellingFronts(k.distancesUm(), k.timesS(), delays, x0, t0, true, true, false,
                 unit);
         double c = one.estimate("front_speed").orElseThrow().value();
         double w = one.estimate("front_width").orElseThrow().value();

@@ -295,9 +295,13 @@ public final class KymographFits {
                                                Progress progress) {
         double[] walls = setup.sealedEnds() ? new double[] {k.distanceUm(0), k.distanceUm(k.positionCount() - 1)}
                 : null;
-        DiffusionDecayPulse model = new DiffusionDecayPulse(k.distancesUm(), k.timesS(),
+        boolean lineTimed = k.hasSampleDelays() && k.frameCount() >= 2;
+        DiffusionDecayPulse model = new DiffusionDecayPulse(k.distancesUm(),
+                lineTimed ? LineTimedModel.extendedTimes(k.timesS()) : k.timesS(),
                 setup.fitStimulusTime() ? Double.NaN : setup.stimulusTimeS(),
                 setup.fitStimulusPosition() ? Double.NaN : setup.stimulusPositionUm(), walls, g.unit);
+        // a raster scan: the model is read at each sample's own time
+        FitModel timed = lineTimed ? new LineTimedModel(model, k.timesS(), k.sampleDelaysS()) : model;
         List<double[]> starts = new ArrayList<>();
         double[][] factors = {{1, 1}, {0.3, 1}, {3, 1}, {1, 0.3}, {1, 3}};
         for (double[] f : factors) {
@@ -308,12 +312,12 @@ public final class KymographFits {
             starts.add(model.pack(d, kk, amp, g.peakPositionUm, g.widthUm, g.baseline, setup.stimulusTimeS()));
         }
         if (Double.isFinite(setup.residualBleachingFromS())) {
-            ResidualBleaching bleaching = new ResidualBleaching(model, k.timesS(), k.positionCount(),
+            ResidualBleaching bleaching = new ResidualBleaching(timed, k.timesS(), k.positionCount(),
                     setup.residualBleachingFromS());
             return ModelFit.fit(bleaching, data, starts.stream().map(ResidualBleaching::start).toList(),
                     setup.options(), progress);
         }
-        return ModelFit.fit(model, data, starts, setup.options(), progress);
+        return ModelFit.fit(timed, data, starts, setup.options(), progress);
     }
 
     private static FitResult fitEngine(String name, Kymograph k, FitData data, Setup setup, StartGuess g,
@@ -365,10 +369,13 @@ public final class KymographFits {
         for (int i = 0; i < positions.length; i++) {
             positions[i] -= xFirst;
         }
+        // a raster scan: the model is read at each sample's own time
+        boolean lineTimed = k.hasSampleDelays() && k.frameCount() >= 2;
         EngineFitModel model;
         try {
             Domain domain = new Domain(lengthUm, h, Boundary.NO_FLUX);
-            model = new EngineFitModel(name, domain, k.timesS(), positions,
+            model = new EngineFitModel(name, domain, lineTimed
+                    ? LineTimedModel.extendedTimes(k.timesS(), EngineFitModel.LINE_STEPS) : k.timesS(), positions,
                     List.of(Stimulus.pulse(Math.max(0, t0), Math.min(Math.max(x0 - xFirst, 0), lengthUm),
                             Math.max(width, h), 1.0)), dt, g.unit);
         } catch (IllegalArgumentException e) {
@@ -379,13 +386,14 @@ public final class KymographFits {
         // Each evaluation is a full simulation: fewer evaluations per start, and profiles only on small kymographs
         // (elsewhere the Student t intervals are reported and say so in ci_method).
         ModelFit.Options options = setup.options().withMaxEvaluations(Math.min(setup.options().maxEvaluations(), 200));
-        if (model.size() > ENGINE_PROFILE_LIMIT) {
+        if ((long) k.positionCount() * k.frameCount() > ENGINE_PROFILE_LIMIT) {
             options = options.withProfiles(false);
         }
-        FitResult r = model.fitInStages(data, starts, options, progress);
+        FitResult r = model.fitInStages(data, starts, options, progress, lineTimed ? k.sampleDelaysS() : null);
         if (!setup.sealedEnds()) {
             notes.add("The " + name + " model was simulated with sealed ends at the ends of the path.");
         }
+
         if (notes.isEmpty()) {
             return r;
         }

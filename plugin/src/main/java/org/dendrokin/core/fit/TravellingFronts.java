@@ -26,6 +26,7 @@ public final class TravellingFronts implements FitModel {
 
     private final double[] positionsUm;
     private final double[] timesS;
+    private final double[] delaysS;
     private final double x0;
     private final double t0;
     private final boolean left;
@@ -46,9 +47,22 @@ public final class TravellingFronts implements FitModel {
      */
     public TravellingFronts(double[] positionsUm, double[] timesS, double stimulusUm, double stimulusS, boolean left,
                             boolean right, boolean sharedSpeed, Unit unit) {
+        this(positionsUm, timesS, null, stimulusUm, stimulusS, left, right, sharedSpeed, unit);
+    }
+
+    /**
+     * As above for a raster-scanned kymograph: the sample at frame f and position q was taken at
+     * {@code timesS[f] + delaysS[q]}, and the fronts are evaluated exactly there.
+     *
+     * @param delaysS each position's delay after its frame's time, s, or null for none. Not modified.
+     */
+    public TravellingFronts(double[] positionsUm, double[] timesS, double[] delaysS, double stimulusUm,
+                            double stimulusS, boolean left, boolean right, boolean sharedSpeed, Unit unit) {
         Checks.require(left || right, "a front on at least one side is needed");
+        Checks.require(delaysS == null || delaysS.length == positionsUm.length, "one delay per position is needed");
         this.positionsUm = positionsUm.clone();
         this.timesS = timesS.clone();
+        this.delaysS = delaysS == null ? new double[positionsUm.length] : delaysS.clone();
         this.x0 = stimulusUm;
         this.t0 = stimulusS;
         this.left = left;
@@ -165,10 +179,10 @@ public final class TravellingFronts implements FitModel {
         int iCr = sharedSpeed ? 0 : right ? (left ? 1 : 0) : -1;
         int nx = positionsUm.length;
         for (int f = 0; f < timesS.length; f++) {
-            double tau = timesS[f] - t0;
-            double xl = x0 - sl - cl * tau;
-            double xr = x0 + sr + cr * tau;
             for (int q = 0; q < nx; q++) {
+                double tau = timesS[f] + delaysS[q] - t0;
+                double xl = x0 - sl - cl * tau;
+                double xr = x0 + sr + cr * tau;
                 double x = positionsUm[q];
                 double zl = (x - xl) / w;
                 double zr = (xr - x) / w;

@@ -14,6 +14,7 @@ public final class Kymograph {
     private final double[] timesS;
     private final double[] values;
     private final String signalUnit;
+    private final double[] sampleDelaysS;
 
     /**
      * @param distancesUm distance of each column from the path's first vertex, um, increasing
@@ -30,6 +31,15 @@ public final class Kymograph {
         this.timesS = timesS.clone();
         this.values = values.clone();
         this.signalUnit = signalUnit;
+        this.sampleDelaysS = null;
+    }
+
+    private Kymograph(double[] distancesUm, double[] timesS, double[] values, String signalUnit, double[] delaysS) {
+        this.distancesUm = distancesUm;
+        this.timesS = timesS;
+        this.values = values;
+        this.signalUnit = signalUnit;
+        this.sampleDelaysS = delaysS;
     }
 
     /** Builds a kymograph from rows, {@code rows[frame][position]}. */
@@ -104,9 +114,44 @@ public final class Kymograph {
         return timesS.length > 1 ? (timesS[timesS.length - 1] - timesS[0]) / (timesS.length - 1) : 0;
     }
 
-    /** The same grid with other values (row-major) and unit. */
+    /** The same grid (and sample delays) with other values (row-major) and unit. */
     public Kymograph withValues(double[] newValues, String newUnit) {
-        return new Kymograph(distancesUm, timesS, newValues, newUnit);
+        Checks.require(newValues.length == values.length,
+                "kymograph has " + newValues.length + " values, expected " + values.length);
+        return new Kymograph(distancesUm, timesS, newValues.clone(), newUnit, sampleDelaysS);
+    }
+
+    /**
+     * The same kymograph with each position sampled {@code delaysS[p]} after its frame's time: a raster scan takes a
+     * frame line by line, so the sample at frame f and position p was taken at {@code timeS(f) + delaysS[p]}.
+     *
+     * @param delaysS delay of each position, s, each at least 0 and shorter than the frame interval; null for none.
+     *                Not modified.
+     */
+    public Kymograph withSampleDelays(double[] delaysS) {
+        if (delaysS != null) {
+            Checks.require(delaysS.length == distancesUm.length, "one sample delay per position is needed");
+            for (double d : delaysS) {
+                Checks.require(d >= 0 && (timesS.length < 2 || d < timeStepS()),
+                        "sample delays must lie between 0 and the frame interval");
+            }
+        }
+        return new Kymograph(distancesUm, timesS, values, signalUnit, delaysS == null ? null : delaysS.clone());
+    }
+
+    /** True when the positions were sampled at their own delays after the frame times. */
+    public boolean hasSampleDelays() {
+        return sampleDelaysS != null;
+    }
+
+    /** When position {@code p} was sampled after its frame's time, s (0 without sample delays). */
+    public double sampleDelayS(int position) {
+        return sampleDelaysS == null ? 0 : sampleDelaysS[position];
+    }
+
+    /** The sample delay of every position, s (zeros without sample delays). */
+    public double[] sampleDelaysS() {
+        return sampleDelaysS == null ? new double[distancesUm.length] : sampleDelaysS.clone();
     }
 
     /**
@@ -133,8 +178,8 @@ public final class Kymograph {
         Checks.require(first >= 0 && end <= timesS.length && first < end,
                 "frames " + first + " to " + (end - 1) + " are not within the " + timesS.length + " frames");
         int nx = distancesUm.length;
-        return new Kymograph(distancesUm, java.util.Arrays.copyOfRange(timesS, first, end),
-                java.util.Arrays.copyOfRange(values, first * nx, end * nx), signalUnit);
+        return new Kymograph(distancesUm, Arrays.copyOfRange(timesS, first, end),
+                Arrays.copyOfRange(values, first * nx, end * nx), signalUnit, sampleDelaysS);
     }
 
     /** Number of NaN values. */

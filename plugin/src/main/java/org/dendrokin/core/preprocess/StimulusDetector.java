@@ -55,6 +55,22 @@ public final class StimulusDetector {
      * @return the detection; {@code found} is false for fewer than 2 w + 1 frames or no clear rise
      */
     public static Detection detect(Kymograph signal) {
+        return detect(signal, true);
+    }
+
+    /**
+     * Detects the stimulus in a kymograph that is already a change from rest or a concentration (dF/F0, dR/R0,
+     * uM), as {@code analyze} writes it: the same step score, on the values as they are instead of divided by
+     * each position's median (which is near zero, or carries no meaning, for such a signal).
+     *
+     * @param change the kymograph. Not modified.
+     * @return the detection; {@code found} is false for fewer than 2 w + 1 frames or no clear rise
+     */
+    public static Detection detectInChange(Kymograph change) {
+        return detect(change, false);
+    }
+
+    private static Detection detect(Kymograph signal, boolean relative) {
         int nt = signal.frameCount();
         int nx = signal.positionCount();
         double dt = signal.timeStepS();
@@ -64,7 +80,7 @@ public final class StimulusDetector {
         double[][] r = new double[nt][nx];
         for (int p = 0; p < nx; p++) {
             double[] col = signal.column(p);
-            double med = Robust.median(col);
+            double med = relative ? Robust.median(col) : 1;
             for (int f = 0; f < nt; f++) {
                 r[f][p] = med != 0 && Double.isFinite(med) ? col[f] / Math.abs(med) : Double.NaN;
             }

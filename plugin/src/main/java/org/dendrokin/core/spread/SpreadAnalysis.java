@@ -210,6 +210,8 @@ public final class SpreadAnalysis {
                     } else {
                         t = signal.timeS(f);
                     }
+                    // a raster scan samples each position later than its frame's time
+                    t += signal.sampleDelayS(p);
                     arrivals.add(new double[] {d, Math.max(0, t - stimulusTimeS), peak[p]});
                     break;
                 }

@@ -1,7 +1,9 @@
 package org.dendrokin.io.compare;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
+import java.util.Locale;
 
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.Progress;
@@ -15,6 +17,7 @@ import org.dendrokin.core.model.ScalarRun;
 import org.dendrokin.core.model.SolverSettings;
 import org.dendrokin.core.model.Stimulus;
 import org.dendrokin.core.preprocess.Robust;
+import org.dendrokin.core.preprocess.StimulusDetector;
 import org.dendrokin.core.spread.SpreadAnalysis;
 
 /**
@@ -107,10 +110,33 @@ public final class ModelComparison {
         }
     }
 
-    /** What a comparison produced; {@code noiseSd} is the baseline noise used to read the spread measures. */
+    /**
+     * When and where the data's own stimulus was, and how that was learnt: the measured spread is timed from
+     * it, whatever model is set beside the data.
+     *
+     * @param timeS      stimulus time on the kymograph's clock, s
+     * @param positionUm stimulus position, um along the path (the kymograph's distances)
+     * @param source     how it was learnt, a phrase for the report ("results.json beside the kymograph", ...)
+     */
+    public record DataStimulus(double timeS, double positionUm, String source) {
+        public DataStimulus {
+            Checks.finite(timeS, "stimulus time (s)");
+            Checks.finite(positionUm, "stimulus position (um)");
+        }
+    }
+
+    /**
+     * What a comparison produced. The measured spread depends on the data alone (timed from {@code data}, with
+     * the data's own baseline); the simulated spread is timed from the model's first stimulus. {@code noiseSd}
+     * is the data's baseline noise, used to read both; {@code mismatches} says, one sentence each, where the
+     * model's stimulus or extent does not match the data's.
+     */
     public record Comparison(Kymograph measured, Kymograph simulated, Kymograph residual, double rmse,
             double residualNorm, SpreadAnalysis.Result measuredSpread, SpreadAnalysis.Result simulatedSpread,
-            double noiseSd) {
+            double noiseSd, DataStimulus data, List<String> mismatches) {
+        public Comparison {
+            mismatches = List.copyOf(mismatches);
+        }
     }
 
     /** As {@link #simulateOn(Kymograph, GivenModel, Progress)} for the commands' one-pulse settings. */
@@ -160,11 +186,22 @@ public final class ModelComparison {
         return compare(measured, given(s), progress);
     }
 
+    /** As {@link #compare(Kymograph, GivenModel, DataStimulus, Progress)}, the data's stimulus found in the data. */
+    public static Comparison compare(Kymograph measured, GivenModel g, Progress progress) {
+        return compare(measured, g, detectStimulus(measured), progress);
+    }
+
     /**
      * Simulates on the measured grid, takes the residual (measured - simulated) and reads the same model-free
-     * spread measures off both, relative to the model's baseline and timed from its first stimulus.
+     * spread measures off both. The measured ones are made once from the data alone: timed from the data's own
+     * stimulus, relative to each position's median over the frames before it, with the data's baseline noise;
+     * so two models set beside the same kymograph leave them unchanged. The simulated ones are timed from the
+     * model's first stimulus, relative to the model's baseline.
+     *
+     * @param data the data's stimulus, e.g. from the results.json of the analysis that wrote the kymograph,
+     *             or {@link #detectStimulus(Kymograph)}
      */
-    public static Comparison compare(Kymograph measured, GivenModel g, Progress progress) {
+    public static Comparison compare(Kymograph measured, GivenModel g, DataStimulus data, Progress progress) {
         Kymograph simulated = simulateOn(measured, g, progress);
         double[] m = measured.values();
         double[] sim = simulated.values();
@@ -179,12 +216,59 @@ public final class ModelComparison {
             }
         }
         Kymograph residual = measured.withValues(r, measured.signalUnit());
+        double noise = baselineNoise(measured, data.timeS());
+        SpreadAnalysis.Result ms = measure(fromRest(measured, data.timeS()), data.timeS(), data.positionUm(), noise);
         Stimulus first = g.stimuli().get(0);
-        double noise = baselineNoise(measured, first.timeS());
-        SpreadAnalysis.Result ms = measure(shift(measured, -g.baseline()), first, noise);
-        SpreadAnalysis.Result ss = measure(shift(simulated, -g.baseline()), first, noise);
+        SpreadAnalysis.Result ss = measure(shift(simulated, -g.baseline()), first.timeS(), first.positionUm(), noise);
         return new Comparison(measured, simulated, residual, n > 0 ? Math.sqrt(sum / n) : Double.NaN,
-                Math.sqrt(sum), ms, ss, noise);
+                Math.sqrt(sum), ms, ss, noise, data, mismatches(measured, first, data));
+    }
+
+    /**
+     * The data's stimulus found in the kymograph itself ({@link StimulusDetector#detectInChange}: the strongest
+     * step up, in noise standard deviations).
+     *
+     * @throws IllegalArgumentException when no clear rise is found (the message says so and what to give instead)
+     */
+    public static DataStimulus detectStimulus(Kymograph measured) {
+        StimulusDetector.Detection d = StimulusDetector.detectInChange(measured);
+        Checks.require(d.found(), String.format(Locale.ROOT, "no clear rise was found in the kymograph (the "
+                + "strongest step is %.1f noise standard deviations, %.0f needed), so the data's stimulus time and "
+                + "position must be given", d.strength(), StimulusDetector.MIN_STRENGTH));
+        return new DataStimulus(d.timeS(), d.positionUm(), String.format(Locale.ROOT,
+                "found in the kymograph (a rise of %.0f noise standard deviations)", d.strength()));
+    }
+
+    /**
+     * One sentence for each way the model's first stimulus does not match the data's: more than one frame
+     * interval apart in time, farther apart along the path than both two distance steps and the pulse's width,
+     * or outside the kymograph's extent.
+     */
+    static List<String> mismatches(Kymograph measured, Stimulus model, DataStimulus data) {
+        List<String> out = new ArrayList<>();
+        double dt = measured.timeStepS();
+        double first = measured.distanceUm(0);
+        double last = measured.distanceUm(measured.positionCount() - 1);
+        double end = measured.timeS(measured.frameCount() - 1);
+        if (model.positionUm() < first || model.positionUm() > last) {
+            out.add(String.format(Locale.ROOT, "The model's stimulus at %.3g um lies outside the kymograph (%.3g to "
+                    + "%.3g um along the path).", model.positionUm(), first, last));
+        } else if (Math.abs(model.positionUm() - data.positionUm())
+                > Math.max(2 * measured.distanceStepUm(), model.widthUm())) {
+            out.add(String.format(Locale.ROOT, "The model's stimulus at %.3g um is %.3g um from the data's (%.3g um, "
+                    + "%s): the simulated spread starts elsewhere than the measured one.", model.positionUm(),
+                    Math.abs(model.positionUm() - data.positionUm()), data.positionUm(), data.source()));
+        }
+        if (model.timeS() > end) {
+            out.add(String.format(Locale.ROOT, "The model's stimulus at t = %.3g s comes after the kymograph's last "
+                    + "frame (t = %.3g s).", model.timeS(), end));
+        } else if (Math.abs(model.timeS() - data.timeS()) > dt) {
+            out.add(String.format(Locale.ROOT, "The model's stimulus at t = %.3g s is %.3g s from the data's (t = "
+                    + "%.3g s, %s), more than one frame interval (%.3g s): the model's time course is shifted against "
+                    + "the data, which inflates the residual.", model.timeS(), Math.abs(model.timeS() - data.timeS()),
+                    data.timeS(), data.source(), dt));
+        }
+        return out;
     }
 
     /** The parameter names of a built-in scalar model, in the order its parameters are given. */
@@ -205,15 +289,41 @@ public final class ModelComparison {
     }
 
     /** The spread measures, or an empty result whose warning says why they could not be made. */
-    static SpreadAnalysis.Result measure(Kymograph k, Stimulus first, double noise) {
+    static SpreadAnalysis.Result measure(Kymograph k, double stimulusTimeS, double stimulusUm, double noise) {
         try {
-            return SpreadAnalysis.measure(k, first.timeS(), first.positionUm(), noise);
+            return SpreadAnalysis.measure(k, stimulusTimeS, stimulusUm, noise);
         } catch (IllegalArgumentException e) {
             double[] none = new double[0];
             return new SpreadAnalysis.Result(null, null, null, null, none, none, none, none, none, none, none, none,
                     null, none, SpreadAnalysis.Front.absent(SpreadAnalysis.FrontVerdict.TOO_FEW_POSITIONS, e.getMessage()),
                     List.of("The spread could not be measured: " + e.getMessage() + "."));
         }
+    }
+
+    /**
+     * The kymograph relative to rest: each position minus its median over the frames before the stimulus (left
+     * as it is when fewer than three frames precede the stimulus, as for a kymograph that starts at it).
+     */
+    static Kymograph fromRest(Kymograph k, double stimulusTimeS) {
+        int before = 0;
+        while (before < k.frameCount() && k.timeS(before) < stimulusTimeS) {
+            before++;
+        }
+        if (before < 3) {
+            return k;
+        }
+        double[] v = k.values();
+        int nx = k.positionCount();
+        for (int p = 0; p < nx; p++) {
+            double[] col = k.column(p);
+            double rest = Robust.median(Arrays.copyOf(col, before));
+            if (Double.isFinite(rest)) {
+                for (int f = 0; f < k.frameCount(); f++) {
+                    v[f * nx + p] -= rest;
+                }
+            }
+        }
+        return k.withValues(v, k.signalUnit());
     }
 
     /**

@@ -86,6 +86,11 @@ public final class ReportHtml {
         row(h, "Pixel size", number(movie.pixelSizeUm()) + " um" + source(in.config().pixelSizeUm() != null));
         row(h, "Frame interval", number(movie.frameIntervalS()) + " s" + source(in.config().frameIntervalS() != null)
                 + "; frame i is at time i x " + number(movie.frameIntervalS()) + " s");
+        if (movie.linePeriodS() > 0) {
+            row(h, "Scan lines", number(movie.linePeriodS()) + " s per line (session.json): a sample on image row y "
+                    + "was taken y x " + number(movie.linePeriodS()) + " s after its frame's time; the arrival times "
+                    + "and every model fit use those times");
+        }
         row(h, "Path", esc(in.relative(in.pathFile())) + ", " + number(movie.pathLengthUm())
                 + " um long; averaged over a band " + number(movie.pathWidthUm()) + " um wide; "
                 + signal.positionCount() + " positions every " + number(signal.distanceStepUm())

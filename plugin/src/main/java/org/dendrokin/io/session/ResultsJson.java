@@ -213,6 +213,9 @@ public final class ResultsJson {
         movie.addProperty("bit_depth", in.bitDepth());
         movie.addProperty("pixel_size_um", m.pixelSizeUm());
         movie.addProperty("frame_interval_s", m.frameIntervalS());
+        if (m.linePeriodS() > 0) {
+            movie.addProperty("line_period_s", m.linePeriodS());
+        }
         return movie;
     }
 

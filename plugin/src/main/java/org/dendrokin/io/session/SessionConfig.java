@@ -65,12 +65,21 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
      * @param zSlice            z-slice to analyse, counted from 1, or 0 to project
      * @param zProjection       "max" or "mean", the projection over slices when {@code zSlice} is 0
      * @param trainGapS         largest gap between pulses of one train, s
+     * @param linePeriodS       time between scan lines, s ({@code line_period_s}, or the frame interval over
+     *                          {@code lines_per_frame}), or 0 when not given
+     * @param linesPerFrame     {@code lines_per_frame} as given, or 0
      */
     public record Acquisition(int channel, int structuralChannel, Normalisation normalisation, MotionMode motion,
-                              int zSlice, String zProjection, double trainGapS) {
+                              int zSlice, String zProjection, double trainGapS, double linePeriodS,
+                              int linesPerFrame) {
         /** Nothing given. */
         public static final Acquisition DEFAULT = new Acquisition(0, 0, Normalisation.NONE, MotionMode.CORRECT, 0,
-                "max", AnalysisRequest.DEFAULT_TRAIN_GAP_S);
+                "max", AnalysisRequest.DEFAULT_TRAIN_GAP_S, 0, 0);
+
+        /** The line period for a movie of the given frame interval, s (0 for none). */
+        public double linePeriodS(double frameIntervalS) {
+            return linesPerFrame > 0 ? frameIntervalS / linesPerFrame : linePeriodS;
+        }
     }
 
     /** The name of the file that marks a session folder. */
@@ -84,7 +93,7 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
     private static final Set<String> KEYS = Set.of("movie", "path", "path_roi_name", "path_width_um", "pixel_size_um",
             "frame_interval_s", "stimulus", "stimuli", "train_gap_s", "baseline_frames", "background", "calibration",
             "models", "bleach_correction", "fit", "description", "notes", "group", "channel", "structural_channel",
-            "normalisation", "motion", "z", "tree");
+            "normalisation", "motion", "z", "line_period_s", "lines_per_frame", "tree");
     private static final Set<String> FIT_KEYS = Set.of("criterion", "profiles", "bootstrap_replicates", "seed",
             "free_stimulus", "sealed_ends");
     private static final Set<String> STIMULUS_KEYS = Set.of("time_s", "position_um", "x_px", "y_px");
@@ -277,8 +286,13 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
             }
         }
         Double gap = root.optionalNonNegative("train_gap_s");
+        Double line = root.optionalPositive("line_period_s");
+        int lines = root.has("lines_per_frame") ? (int) root.wholeNumber("lines_per_frame", 1, 1_000_000, 0) : 0;
+        if (line != null && lines > 0) {
+            throw root.bad("lines_per_frame", "cannot be given with \"line_period_s\"; give one of them");
+        }
         return new Acquisition(channel, structural, normalisation, motion, slice, projection,
-                gap == null ? d.trainGapS() : gap);
+                gap == null ? d.trainGapS() : gap, line == null ? 0 : line, lines);
     }
 
     /** Adds a warning for each key of {@code o} that Dendrokin does not read. */

@@ -93,9 +93,14 @@ public final class SessionPictures {
         if (spread != null) {
             out.addAll(spreadPictures(outDir, signal, spread));
         }
-        a.bestFit().ifPresent(best -> out.addAll(FitPictures.write(outDir, "fit-" + best.model(),
-                best.model() + " fit", signal, spread, FitPictures.simulated(signal, best), a.stimulus().timeS(),
-                a.stimulus().positionUm(), Robust.median(a.fits().noiseSd()))));
+        a.bestFit().ifPresent(best -> {
+            // with several stimuli the models were fitted to the frames up to the second one
+            Kymograph fitted = best.fitted().length == signal.positionCount() * signal.frameCount() ? signal
+                    : signal.frames(0, best.fitted().length / signal.positionCount());
+            out.addAll(FitPictures.write(outDir, "fit-" + best.model(), best.model() + " fit", fitted, spread,
+                    FitPictures.simulated(fitted, best), a.stimulus().timeS(), a.stimulus().positionUm(),
+                    Robust.median(a.fits().noiseSd())));
+        });
         return out;
     }
 

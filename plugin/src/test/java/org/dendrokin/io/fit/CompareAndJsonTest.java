@@ -89,6 +89,62 @@ class CompareAndJsonTest {
     }
 
     @Test
+    void theMeasuredNumbersDependOnTheDataAloneNotOnTheModelSetBesideThem(@TempDir Path dir) throws Exception {
+        KymographCsv.write(nagumoKymograph(0.05), dir.resolve("kymograph.csv"));
+        // Two models that disagree in everything, including where and when their stimulus was.
+        Files.writeString(dir.resolve("a.json"), "{\"model\": \"nagumo\", \"parameters\": {\"D\": 1, \"k\": 0.5, "
+                + "\"a\": 0.2}, \"stimuli\": [{\"time_s\": 3, \"position_um\": 4, \"width_um\": 2, \"amount\": 1}], "
+                + "\"amplitude\": 1.5, \"dx_um\": 0.25}");
+        Files.writeString(dir.resolve("b.json"), "{\"model\": \"diffusion-decay\", \"parameters\": {\"D\": 3, "
+                + "\"k\": 0.2}, \"stimuli\": [{\"time_s\": 8, \"position_um\": 15, \"width_um\": 1, \"amount\": 2}], "
+                + "\"dx_um\": 0.25}");
+        ModelComparisonRun.Result a = ModelComparisonRun.run(dir.resolve("kymograph.csv"), dir.resolve("a.json"),
+                "dF/F0", dir.resolve("out-a"));
+        ModelComparisonRun.Result b = ModelComparisonRun.run(dir.resolve("kymograph.csv"), dir.resolve("b.json"),
+                "dF/F0", dir.resolve("out-b"));
+        assertEquals(a.measuredSpeed().value(), b.measuredSpeed().value(), 0, "measured front speed");
+        assertEquals(a.measuredSpeed().lo95(), b.measuredSpeed().lo95(), 0);
+        assertEquals(a.dataStimulus(), b.dataStimulus());
+        // REF: the data were made with a pulse at t = 3 s, 4 um; the detector times the stimulus half a frame
+        // before the first raised frame, so within one frame (0.5 s) and a pulse width (2 um) [common practice]
+        assertEquals(3.0, a.dataStimulus().timeS(), 0.5);
+        assertEquals(4.0, a.dataStimulus().positionUm(), 2.0);
+        assertTrue(a.warnings().stream().noneMatch(w -> w.startsWith("The model's stimulus")), a.warnings().toString());
+        assertTrue(b.warnings().stream().anyMatch(w -> w.contains("from the data's (t =")), b.warnings().toString());
+        assertTrue(b.warnings().stream().anyMatch(w -> w.contains("from the data's (") && w.contains(" um ")),
+                b.warnings().toString());
+    }
+
+    @Test
+    void theDataStimulusComesFromTheAnalysisResultsBesideTheKymographOrTheCommandLine(@TempDir Path dir)
+            throws Exception {
+        KymographCsv.write(nagumoKymograph(0.05), dir.resolve("kymograph.csv"));
+        Files.writeString(dir.resolve("results.json"), "{\"stimulus\": {\"time_s\": 2.75, \"position_um\": 4.5}}");
+        Files.writeString(dir.resolve("model.json"), "{\"model\": \"nagumo\", \"parameters\": {\"D\": 1, \"k\": "
+                + "0.5, \"a\": 0.2}, \"stimuli\": [{\"time_s\": 3, \"position_um\": 4, \"width_um\": 2, \"amount\": 1}],"
+                + " \"domain\": {\"length_um\": 50}, \"time\": {\"duration_s\": 39.5}}");
+        ModelComparisonRun.Result beside = ModelComparisonRun.run(dir.resolve("kymograph.csv"),
+                dir.resolve("model.json"), "dF/F0", dir.resolve("out"));
+        assertEquals(2.75, beside.dataStimulus().timeS(), 0);
+        assertEquals(4.5, beside.dataStimulus().positionUm(), 0);
+        assertTrue(beside.warnings().stream().anyMatch(w -> w.contains("domain is 50.00 um long")),
+                beside.warnings().toString());
+        assertTrue(beside.warnings().stream().noneMatch(w -> w.contains("runs for")), "39.5 s is the data's span");
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        int status = Main.run(new String[] {"compare", dir.resolve("kymograph.csv").toString(),
+            dir.resolve("model.json").toString(), "--stimulus", "3.25,4", "--out", dir.resolve("cli").toString()},
+                new PrintStream(out, true, StandardCharsets.UTF_8), new PrintStream(new ByteArrayOutputStream()));
+        assertEquals(0, status);
+        JsonObject c = JsonParser.parseString(Files.readString(dir.resolve("cli/comparison.json"))).getAsJsonObject();
+        assertEquals(3.25, c.getAsJsonObject("data_stimulus").get("time_s").getAsDouble(), 0);
+        assertEquals("given on the command line", c.getAsJsonObject("data_stimulus").get("source").getAsString());
+        int bad = Main.run(new String[] {"compare", dir.resolve("kymograph.csv").toString(),
+            dir.resolve("model.json").toString(), "--stimulus", "3.25", "--out", dir.resolve("cli2").toString()},
+                new PrintStream(new ByteArrayOutputStream()), new PrintStream(new ByteArrayOutputStream()));
+        assertEquals(Main.BAD_INPUT, bad);
+    }
+
+    @Test
     void compareWithABadModelFileExitsWithStatus2(@TempDir Path dir) throws Exception {
         KymographCsv.write(nagumoKymograph(0.05), dir.resolve("kymograph.csv"));
         Files.writeString(dir.resolve("model.json"), "{\"model\": \"nagumo\", \"parameters\": {\"D\": 1, \"k\": 0.5}, "
