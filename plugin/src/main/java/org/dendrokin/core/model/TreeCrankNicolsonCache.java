@@ -67,11 +67,6 @@ final class TreeCrankNicolsonCache {
         return f;
     }
 
-    /** Solves A x = P v for the factors f, forming P v inside the elimination; x must not be v. */
-    void solveProduct(Factors f, double[] v, double[] work, double[] x) {
-        system.solveProduct(f.implicit, f.explicit, v, work, x);
-    }
-
     /** Solves A x = r for the factors f. {@code rhs} is overwritten; x may be rhs. */
     void solve(Factors f, double[] rhs, double[] x) {
         system.solve(f.implicit, rhs, x);

@@ -117,13 +117,11 @@ final class TreeStepper implements Stepper {
         double tau = 0.5 * dt;
         if (!damped && !withSens) {
             model.react(p, tau, u, stage, n);
+            f.explicit.apply(stage, rhs);
             if (sourceActive) {
-                f.explicit.apply(stage, rhs);
                 addScaled(source, dt, rhs, n);
-                cache.solve(f, rhs, u);
-            } else {
-                cache.solveProduct(f, stage, rhs, u);
             }
+            cache.solve(f, rhs, u);
             model.react(p, tau, u, u, n);
         } else {
             react(tau);
