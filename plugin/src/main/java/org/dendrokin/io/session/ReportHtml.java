@@ -270,6 +270,13 @@ public final class ReportHtml {
             return "not applied (see the warnings)";
         }
         Estimate tau = b.timeConstant();
+        if (b.fastPhase() != null) {
+            double f = b.fastPhase().fraction();
+            return "applied in two phases: intensity divided by " + number(f) + " exp(-t / "
+                    + number(b.fastPhase().timeConstant().value()) + " s) + " + number(1 - f) + " exp(-t / "
+                    + number(tau.value()) + " s), fitted on " + b.quietPositions()
+                    + " positions outside the response after the stimulus and on every position before it";
+        }
         return "applied: intensity divided by exp(-t / " + number(tau.value()) + " s), fitted on " + b.quietPositions()
                 + " positions outside the response after the stimulus and on every position before it";
     }

@@ -116,6 +116,13 @@ public final class ResultsJson {
         bleach.addProperty("requested", in.config().bleachCorrection());
         bleach.addProperty("applied", a.preprocessing().bleach().applied());
         bleach.add("time_constant", estimate(a.preprocessing().bleach().timeConstant()));
+        if (a.preprocessing().bleach().fastPhase() != null) {
+            // two phases: time_constant is the slow one's
+            JsonObject fast = new JsonObject();
+            fast.addProperty("fraction", a.preprocessing().bleach().fastPhase().fraction());
+            fast.add("time_constant", estimate(a.preprocessing().bleach().fastPhase().timeConstant()));
+            bleach.add("fast_phase", fast);
+        }
         root.add("bleach_correction", bleach);
         root.add("baseline_noise_sd_dF_F0", finiteOrNull(a.preprocessing().deltaF().typicalNoiseSd()));
         root.add("calibration", calibration(in.calibration(), a.calibrated()));
