@@ -123,9 +123,9 @@ public final class TreeSessionAnalysis {
                     + "beside the path, %.1f grey values, at every position.", bg.value()));
         }
         // Bleaching is a property of the dye and the light, the same on every line: each line is corrected with the
-        // main line's fitted time constant (a side line's own fit would rest on its baseline frames alone).
+        // main line's fitted bleaching (a side line's own fit would rest on its baseline frames alone).
         BleachCorrection.Result mainBleach = main.preprocessing().bleach();
-        double tau = bleach && mainBleach.applied() ? mainBleach.timeConstant().value() : Double.POSITIVE_INFINITY;
+        BleachCorrection.Result used = bleach && mainBleach.applied() ? mainBleach : null;
         int b0 = main.preprocessing().baselineFirst();
         int b1 = main.preprocessing().baselineLast();
         Map<String, Kymograph> kymos = new LinkedHashMap<>();
@@ -134,7 +134,7 @@ public final class TreeSessionAnalysis {
             progress.checkCancelled();
             Extraction e = KymographExtractor.extract(frames, paths.get(line), pixelSizeUm, frameIntervalS, widthUm,
                     pixelSizeUm, progress);
-            DeltaF.Result pre = DeltaF.compute(bleachCorrected(e.kymograph(), perFrame, tau), b0, b1);
+            DeltaF.Result pre = DeltaF.compute(bleachCorrected(e.kymograph(), perFrame, used), b0, b1);
             kymos.put(line, pre.kymograph());
             noise.put(line, pre.typicalNoiseSd());
         }
@@ -203,7 +203,7 @@ public final class TreeSessionAnalysis {
         FitResult fit;
         TreeFitModel model;
         double[] pointTimes;
-        boolean residual = tau < Double.POSITIVE_INFINITY;
+        boolean residual = used != null;
         double baselineMidS = 0.5 * (first.timeS(b0) + first.timeS(b1));
         try {
             model = new TreeFitModel(MODEL, new TreeDomain(tree, h), first.timesS(), positions, List.of(stimulus), dt,
@@ -264,12 +264,20 @@ public final class TreeSessionAnalysis {
         return out;
     }
 
-    /** Intensity minus the background of each frame, divided by exp(-(t - t_first) / tau) (tau infinite: none). */
-    private static Kymograph bleachCorrected(Kymograph raw, double[] background, double tau) {
+    /**
+     * Intensity minus the background of each frame, divided by the main line's bleaching b(t): exp(-(t - t_first) /
+     * tau), or f exp(-(t - t_first) / tau1) + (1 - f) exp(-(t - t_first) / tau2) when it was corrected in two phases;
+     * none when {@code bleach} is null.
+     */
+    private static Kymograph bleachCorrected(Kymograph raw, double[] background, BleachCorrection.Result bleach) {
         int nx = raw.positionCount();
         double[] v = raw.values();
         for (int f = 0; f < raw.frameCount(); f++) {
-            double b = Math.exp(-(raw.timeS(f) - raw.timeS(0)) / tau);
+            double u = raw.timeS(f) - raw.timeS(0);
+            double b = bleach == null ? 1 : bleach.fastPhase() == null
+                    ? Math.exp(-u / bleach.timeConstant().value())
+                    : bleach.fastPhase().fraction() * Math.exp(-u / bleach.fastPhase().timeConstant().value())
+                            + (1 - bleach.fastPhase().fraction()) * Math.exp(-u / bleach.timeConstant().value());
             for (int p = 0; p < nx; p++) {
                 v[f * nx + p] = (v[f * nx + p] - background[f]) / b;
             }
