@@ -4,9 +4,3 @@ csv = "concentration_uM,intensity\n0,212\n0,205\n0.05,331\n0.05,322\n0.1,452\n0.
 File.saveString(csv, tmp + "standards.csv");
 run("Calibration from Standards...", "standards=table table=[" + tmp + "standards.csv] concentrations=[] background=0"
     + " save=[" + tmp + "indicator.json]");
-selectWindow("Calibration from standards.csv");
-setLocation(10, 120);
-selectWindow("Residuals of the calibration");
-setLocation(10, 600);
-selectWindow("Dendrokin calibration");
-setLocation(720, 120);

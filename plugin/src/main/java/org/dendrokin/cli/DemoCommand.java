@@ -18,6 +18,7 @@ import org.dendrokin.core.spread.Estimate;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.SessionRunner;
+import org.dendrokin.io.session.SessionOverrides;
 import org.dendrokin.io.text.Numbers;
 
 import picocli.CommandLine.Command;
@@ -64,9 +65,14 @@ final class DemoCommand implements Callable<Integer> {
 
     /** Runs one analysis with a progress line on {@code err}. */
     static SessionRunner.Result run(Path session, Path out, PrintWriter err) {
+        return run(session, out, SessionOverrides.NONE, err);
+    }
+
+    /** Runs one analysis with settings given over session.json, with a progress line on {@code err}. */
+    static SessionRunner.Result run(Path session, Path out, SessionOverrides overrides, PrintWriter err) {
         TerminalProgress progress = new TerminalProgress(err);
         try {
-            return SessionRunner.analyze(session, out, progress);
+            return SessionRunner.analyze(session, out, overrides, progress);
         } finally {
             progress.finish();
         }

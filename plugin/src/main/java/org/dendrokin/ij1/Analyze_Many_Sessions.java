@@ -54,7 +54,7 @@ public class Analyze_Many_Sessions implements PlugIn {
                 ResultsTable summary = ResultsTable.open2(outcome.summary().toString());
                 if (summary != null) {
                     logFailures(summary);
-                    Tables.show(summary, "Dendrokin summary");
+                    Tables.show(summary, "Dendrokin summary", Display.anchor());
                 }
             }
             if (open && outcome.index() != null && !OptionsDialog.headless()) {

@@ -1,14 +1,21 @@
 package org.dendrokin.ij1;
 
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.List;
+import java.util.Locale;
 
 import ij.IJ;
 import ij.ImagePlus;
+import ij.WindowManager;
+import ij.gui.PointRoi;
+import ij.gui.Roi;
+import ij.process.FloatPolygon;
 import ij.measure.ResultsTable;
 import ij.plugin.PlugIn;
 
 import org.dendrokin.core.analysis.Headline;
+import org.dendrokin.core.analysis.MotionMode;
 import org.dendrokin.core.analysis.SkippedModel;
 import org.dendrokin.core.fit.FitResult;
 import org.dendrokin.core.fit.Interval;
@@ -17,15 +24,27 @@ import org.dendrokin.core.fit.Misfit;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.spread.SpreadAnalysis;
+import org.dendrokin.io.InputException;
 import org.dendrokin.io.SessionRunner;
+import org.dendrokin.io.path.PathFiles;
+import org.dendrokin.io.session.SessionOverrides;
 
 /**
  * Plugins > Dendrokin > Analyze Session Folder: runs the same analysis as the command line's {@code analyze}
  * on one session folder (session.json, movie, path), writes results.json, kymograph.csv, the pictures and
- * report.html to the output folder, and shows the analysed kymograph, the measured spread and the fits.
+ * report.html to the output folder, and shows the analysed kymograph, the measured spread and the fits. The
+ * signal channel, structural channel, motion handling and stimulus spot (filled from a point selection on the
+ * current image) may be set for this run over session.json; they are recorded in macros as {@code channel=},
+ * {@code structural=}, {@code motion=} and {@code stimulus=}.
  */
 public class Analyze_Session_Folder implements PlugIn {
     static final String COMMAND = "Analyze Session Folder";
+    /** The choice that keeps session.json's setting. */
+    static final String FROM_SESSION = "as in session.json";
+    static final String NO_CHANNEL = "none";
+    private static final String[] MOTION = {FROM_SESSION, "correct", "measure", "off"};
+    /** Channels offered; a hyperstack with more is set in session.json. */
+    private static final int MAX_CHANNEL_CHOICE = 8;
 
     @Override
     public void run(String arg) {
@@ -34,6 +53,16 @@ public class Analyze_Session_Folder implements PlugIn {
             OptionsDialog d = new OptionsDialog(COMMAND, "session");
             d.folder("Session folder (holds session.json)", "");
             d.folder("Output folder (empty: beside it, with -results)", "");
+            d.message("For this run only, over session.json (the folder is not changed):");
+            // not remembered: a setting for one run must not carry over to the next session unseen
+            d.choice("Channel (signal)", channels(false), FROM_SESSION, false);
+            d.choice("Structural channel", channels(true), FROM_SESSION, false);
+            d.choice("Motion", MOTION, FROM_SESSION, false);
+            String spot = pointSelection(WindowManager.getCurrentImage());
+            d.text("Stimulus spot (x,y in pixels; empty: from session.json)", spot == null ? "" : spot, 14, false);
+            d.message(spot == null ? "A point selection on the movie fills the stimulus spot."
+                    : "The stimulus spot is the point selection on " + WindowManager.getCurrentImage().getTitle()
+                            + ".");
             if (!d.show()) {
                 return;
             }
@@ -42,18 +71,76 @@ public class Analyze_Session_Folder implements PlugIn {
             if (session.isEmpty()) {
                 throw new IllegalArgumentException("choose the session folder, the one that holds session.json");
             }
+            SessionOverrides overrides = overrides(d.nextChoice(), d.nextChoice(), d.nextChoice(), d.nextText());
             Path sessionDir = Path.of(session);
             Path outDir = output.isEmpty() ? defaultOutput(sessionDir) : Path.of(output);
-            SessionRunner.Result result = SessionRunner.analyze(sessionDir, outDir, progress);
+            SessionRunner.Result result = SessionRunner.analyze(sessionDir, outDir, overrides, progress);
+            if (!overrides.isEmpty()) {
+                IJ.log(COMMAND + " (" + result.session() + "): " + overrides.sentence());
+            }
             result.warnings().forEach(w -> IJ.log(COMMAND + " (" + result.session() + "): " + w));
             Kymograph k = result.analysis().signal();
             ImagePlus image = KymographImage.toImage(k, result.session());
             Display.showKymograph(image);
-            Tables.show(table(result), "Dendrokin session " + result.session());
+            Tables.show(table(result), "Dendrokin session " + result.session(), image.getWindow());
             progress.finish(COMMAND + ": results in " + outDir);
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
         }
+    }
+
+    /** The dialog's overrides: each choice either keeps session.json's setting or names one. */
+    static SessionOverrides overrides(String channel, String structural, String motion, String spot) {
+        Integer signal = FROM_SESSION.equals(channel) ? null : Integer.valueOf(channel);
+        Integer reference = FROM_SESSION.equals(structural) ? null : NO_CHANNEL.equals(structural) ? 0
+                : Integer.valueOf(structural);
+        MotionMode mode = FROM_SESSION.equals(motion) ? null : MotionMode.of(motion);
+        Double x = null;
+        Double y = null;
+        if (!spot.isBlank()) {
+            double[] xy = SessionOverrides.spot(spot);
+            if (xy == null) {
+                throw new InputException(null, "the stimulus spot must be two numbers x,y in pixels, such as "
+                        + "120.5,40, not \"" + spot + "\"");
+            }
+            x = xy[0];
+            y = xy[1];
+        }
+        return new SessionOverrides(signal, reference, mode, x, y, SessionOverrides.Origin.DIALOG);
+    }
+
+    /**
+     * The first point of the image's point selection as {@code x,y} in our pixel convention (ImageJ puts a
+     * clicked point at whole-number coordinates meaning the pixel's centre, as for lines, so
+     * {@link PathFiles#LINE_ROI_SHIFT} is added), or null without one.
+     */
+    static String pointSelection(ImagePlus image) {
+        Roi roi = image == null ? null : image.getRoi();
+        if (!(roi instanceof PointRoi)) {
+            return null;
+        }
+        FloatPolygon p = roi.getFloatPolygon();
+        if (p.npoints == 0) {
+            return null;
+        }
+        return String.format(Locale.ROOT, "%s,%s", plain(p.xpoints[0] + PathFiles.LINE_ROI_SHIFT),
+                plain(p.ypoints[0] + PathFiles.LINE_ROI_SHIFT));
+    }
+
+    private static String plain(double v) {
+        String s = String.format(Locale.ROOT, "%.2f", v);
+        return s.replaceAll("\\.?0+$", "");
+    }
+
+    private static String[] channels(boolean withNone) {
+        List<String> items = new ArrayList<>(List.of(FROM_SESSION));
+        if (withNone) {
+            items.add(NO_CHANNEL);
+        }
+        for (int c = 1; c <= MAX_CHANNEL_CHOICE; c++) {
+            items.add(Integer.toString(c));
+        }
+        return items.toArray(String[]::new);
     }
 
     /** The sibling folder {@code <session>-results}: outputs never go into the session folder. */

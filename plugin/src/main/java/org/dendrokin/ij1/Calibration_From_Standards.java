@@ -1,6 +1,7 @@
 package org.dendrokin.ij1;
 
 import java.awt.Color;
+import java.awt.Window;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -81,15 +82,14 @@ public class Calibration_From_Standards implements PlugIn {
                         target.resolveSibling(png));
                 IJ.showStatus(COMMAND + ": saved " + target);
             }
-            Tables.show(table(built), "Dendrokin calibration");
+            Window curve = null;
             if (!OptionsDialog.headless()) {
-                Plot curve = curvePlot(standards, built, sourceName);
-                curve.show();
+                curve = Display.showPlot(curvePlot(standards, built, sourceName), Display.anchor());
                 if (built.fit() != null) {
-                    Plot residuals = residualPlot(standards, built.calibration());
-                    residuals.show();
+                    Display.showPlot(residualPlot(standards, built.calibration()), curve);
                 }
             }
+            Tables.show(table(built), "Dendrokin calibration", curve);
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
         }
@@ -229,6 +229,14 @@ public class Calibration_From_Standards implements PlugIn {
         plot.add("circle", c, r);
         plot.setColor(Color.GRAY);
         plot.add("line", new double[] {0, max(c)}, new double[] {0, 0});
+        // a margin, so that no standard sits on the frame where it is half hidden
+        double rMax = 0;
+        for (double v : r) {
+            rMax = Math.max(rMax, Math.abs(v));
+        }
+        double xPad = 0.05 * Math.max(max(c), 1e-9);
+        double yPad = 1.15 * Math.max(rMax, 1e-9);
+        plot.setLimits(-xPad, max(c) + xPad, -yPad, yPad);
         plot.setFrameSize(520, 200);
         return plot;
     }

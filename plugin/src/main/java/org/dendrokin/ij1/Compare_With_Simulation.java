@@ -1,10 +1,7 @@
 package org.dendrokin.ij1;
 
-import java.awt.Color;
 import java.nio.file.Path;
-import java.util.ArrayList;
 import java.util.Arrays;
-import java.util.List;
 import java.util.Locale;
 
 import ij.IJ;
@@ -53,8 +50,7 @@ public class Compare_With_Simulation implements PlugIn {
             String folder = d.nextText();
             Comparison c = ModelComparison.compare(measured, model, progress);
             c.mismatches().forEach(w -> IJ.log(COMMAND + ": " + w));
-            ImagePlus stack = stack(c, current.getShortTitle() + " vs " + model.model() + " (" + measured.signalUnit()
-                    + ")");
+            ImagePlus stack = stack(c, Titles.derived(current, "vs " + model.model(), measured.signalUnit()));
             ResultsTable table = table(c, model);
             if (!folder.isEmpty()) {
                 Path dir = Path.of(folder);
@@ -63,10 +59,10 @@ public class Compare_With_Simulation implements PlugIn {
                 Kymograph_Along_Line.saveTiff(stack, dir.resolve(stem(stack) + ".tif"));
                 Tables.saveCsv(table, dir.resolve(stem(stack) + ".csv"));
             }
-            Display.showKymograph(stack);
-            Tables.show(table, "Dendrokin comparison");
+            Display.showKymograph(stack, current);
+            Tables.show(table, "Dendrokin comparison", stack.getWindow());
             if (!OptionsDialog.headless()) {
-                profilePlot(c, model).show();
+                Display.showPlot(profilePlot(c, model), stack.getWindow());
             }
             progress.finish(COMMAND + String.format(Locale.ROOT, ": RMSE %.4g %s.", c.rmse(), measured.signalUnit()));
         } catch (RuntimeException e) {
@@ -116,33 +112,10 @@ public class Compare_With_Simulation implements PlugIn {
         return t;
     }
 
-    /** Profiles along the path at four times after the stimulus: measured as points, simulated as lines. */
+    /** Profiles along the path at a few times after the stimulus: measured as points, simulated as lines. */
     static Plot profilePlot(Comparison c, ModelComparison.Settings model) {
-        Kymograph m = c.measured();
-        Plot plot = new Plot("Profiles: measured (points) and " + model.model() + " (lines)",
-                "distance along the path (um)", "signal (" + m.signalUnit() + ")");
-        Color[] colours = {new Color(30, 90, 170), new Color(210, 90, 30), new Color(40, 150, 80),
-            new Color(150, 50, 150)};
-        int first = 0;
-        while (first < m.frameCount() - 1 && m.timeS(first) < model.stimulusTimeS()) {
-            first++;
-        }
-        int span = m.frameCount() - 1 - first;
-        List<String> legend = new ArrayList<>();
-        double[] x = m.distancesUm();
-        for (int i = 0; i < 4; i++) {
-            int f = first + (int) Math.round(span * (i + 1) / 5.0);
-            plot.setColor(colours[i]);
-            plot.add("circle", x, c.measured().row(f));
-            plot.add("line", x, c.simulated().row(f));
-            String when = String.format(Locale.ROOT, "t = %.3g s", m.timeS(f));
-            legend.add(when + " measured");
-            legend.add(when + " simulated");
-        }
-        plot.setColor(Color.BLACK);
-        plot.addLegend(String.join("\n", legend));
-        plot.setFrameSize(520, 300);
-        return plot;
+        return ProfilePlot.of("Profiles: measured (points) and " + model.model() + " (lines)", c.measured(),
+                c.simulated(), model.stimulusTimeS());
     }
 
     static void saveKymograph(ImagePlus image, Kymograph k, Path folder) {

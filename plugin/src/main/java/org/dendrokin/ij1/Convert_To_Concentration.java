@@ -61,9 +61,10 @@ public class Convert_To_Concentration implements PlugIn {
                 result = convertMovie(image, setup, limits, background, progress);
             }
             if (kymograph) {
-                Display.showKymograph(result);
+                Display.showKymograph(result, image);
             } else {
                 result.show();
+                Display.place(result.getWindow(), image.getWindow());
             }
             progress.finish(COMMAND + ": " + result.getTitle() + " made.");
         } catch (RuntimeException e) {
@@ -188,7 +189,7 @@ public class Convert_To_Concentration implements PlugIn {
         }
         Calibrator.CalibratedKymograph c = Calibrator.apply(calibration, limits, k.withValues(v, k.signalUnit()));
         log(c.summary(), calibration, image.getTitle());
-        ImagePlus out = KymographImage.toImage(c.values(), image.getShortTitle() + " concentration");
+        ImagePlus out = KymographImage.toImage(c.values(), Titles.stem(image));
         out.setProp("dendrokin.calibration", calibration.description());
         return out;
     }
@@ -206,7 +207,7 @@ public class Convert_To_Concentration implements PlugIn {
             progress.report("checking the calibrated range", t, stack.getSize());
         }
         log(summary, setup.calibration(), movie.getTitle());
-        ImagePlus out = new ImagePlus(movie.getShortTitle() + " uM", stack);
+        ImagePlus out = new ImagePlus(Titles.derived(movie, "", "uM"), stack);
         Calibration cal = movie.getCalibration().copy();
         cal.disableDensityCalibration();
         cal.setValueUnit("uM");

@@ -1,6 +1,5 @@
 package org.dendrokin.ij1;
 
-import java.awt.Color;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -92,7 +91,7 @@ public class Fit_Spread_Models implements PlugIn {
             FitResult best = outcome.best().orElse(null);
             if (best != null && best.fitted() != null) {
                 Kymograph fitted = k.withValues(best.fitted(), k.signalUnit());
-                stack = stack(k, fitted, current.getShortTitle() + " fit " + best.model() + " (" + k.signalUnit() + ")");
+                stack = stack(k, fitted, Titles.derived(current, "fit " + best.model(), k.signalUnit()));
                 profiles = profiles(k, fitted, best.model(), t0);
             }
             if (!folder.isEmpty()) {
@@ -104,13 +103,13 @@ public class Fit_Spread_Models implements PlugIn {
                     Kymograph_Along_Line.saveTiff(stack, dir.resolve(current.getShortTitle() + "_fit.tif"));
                 }
             }
-            Tables.show(table, "Dendrokin fits");
             if (stack != null) {
-                Display.showKymograph(stack);
+                Display.showKymograph(stack, current);
                 if (!OptionsDialog.headless()) {
-                    profiles.show();
+                    Display.showPlot(profiles, stack.getWindow());
                 }
             }
+            Tables.show(table, "Dendrokin fits", stack != null ? stack.getWindow() : current.getWindow());
             progress.finish(COMMAND + ": " + (best == null ? "no model converged." : "best model " + best.model()
                     + " by " + outcome.criterion().toUpperCase(Locale.ROOT) + "."));
         } catch (RuntimeException e) {
@@ -181,30 +180,8 @@ public class Fit_Spread_Models implements PlugIn {
         return image;
     }
 
-    /** Profiles at four times after the stimulus (points: data, lines: model) and, below, the residuals. */
+    /** Profiles at a few times after the stimulus: data as points, the model as lines. */
     static Plot profiles(Kymograph m, Kymograph fitted, String model, double stimulusTimeS) {
-        Plot plot = new Plot("Fit of " + model + ": profiles (points: data, lines: model)",
-                "distance along the path (um)", "signal (" + m.signalUnit() + ")");
-        Color[] colours = {new Color(30, 90, 170), new Color(210, 90, 30), new Color(40, 150, 80),
-            new Color(150, 50, 150)};
-        int first = 0;
-        while (first < m.frameCount() - 1 && m.timeS(first) < stimulusTimeS) {
-            first++;
-        }
-        int span = m.frameCount() - 1 - first;
-        StringBuilder legend = new StringBuilder();
-        double[] x = m.distancesUm();
-        for (int i = 0; i < 4; i++) {
-            int f = first + (int) Math.round(span * (i + 1) / 5.0);
-            plot.setColor(colours[i]);
-            plot.add("circle", x, m.row(f));
-            plot.add("line", x, fitted.row(f));
-            String when = String.format(Locale.ROOT, "t = %.3g s", m.timeS(f));
-            legend.append(when).append(" data\n").append(when).append(" model\n");
-        }
-        plot.setColor(Color.BLACK);
-        plot.addLegend(legend.toString().trim());
-        plot.setFrameSize(520, 300);
-        return plot;
+        return ProfilePlot.of("Fit of " + model + ": profiles (points: data, lines: model)", m, fitted, stimulusTimeS);
     }
 }

@@ -24,7 +24,10 @@ public final class KymographImage {
     private KymographImage() {
     }
 
-    /** The kymograph as a calibrated 32-bit image with our sequential colour table and a robust range. */
+    /**
+     * The kymograph as a calibrated 32-bit image with our sequential colour table and a robust range, titled
+     * {@code name (unit)}.
+     */
     public static ImagePlus toImage(Kymograph k, String title) {
         return toImage(k, title, ColourScale.SEQUENTIAL, displayRange(k.values()));
     }
@@ -59,7 +62,7 @@ public final class KymographImage {
         FloatProcessor fp = new FloatProcessor(w, h, pixels);
         fp.setLut(lut(scale));
         fp.setMinAndMax(range[0], range[1]);
-        ImagePlus image = new ImagePlus(title + " (" + (k.signalUnit().isEmpty() ? "no unit" : k.signalUnit()) + ")", fp);
+        ImagePlus image = new ImagePlus(Titles.withUnit(title, k.signalUnit()), fp);
         image.setCalibration(calibration(k));
         image.setProp(PROPERTY, "distance (um) across, time (s) down, values in " + k.signalUnit());
         return image;

@@ -181,8 +181,8 @@ public class Kymograph_Along_Line implements PlugIn {
     }
 
     static String title(ImagePlus movie, LineSelection line, int count) {
-        String base = movie.getShortTitle();
-        return count == 1 ? base + " kymograph" : base + " kymograph (" + line.name() + ")";
+        String stem = Titles.stem(movie);
+        return count == 1 ? stem + " kymograph" : stem + " " + line.name() + " kymograph";
     }
 
     /** Writes the kymograph as the contract's CSV and as a calibrated TIFF, each through a temporary name. */

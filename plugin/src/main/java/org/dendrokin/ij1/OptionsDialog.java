@@ -34,7 +34,10 @@ public final class OptionsDialog {
 
     private enum Kind { NUMBER, TEXT, CHOICE, CHECK }
 
-    private record Field(Kind kind, String key, String fallback) {
+    private record Field(Kind kind, String key, String fallback, boolean remembered) {
+        Field(Kind kind, String key, String fallback) {
+            this(kind, key, fallback, true);
+        }
     }
 
     /**
@@ -71,7 +74,7 @@ public final class OptionsDialog {
     public OptionsDialog number(String label, double defaultValue, int digits, boolean remembered) {
         String key = key(label);
         double shown = fromMacro() || !remembered ? defaultValue : Prefs.get(prefix + key, defaultValue);
-        fields.add(new Field(Kind.NUMBER, key, Double.toString(defaultValue)));
+        fields.add(new Field(Kind.NUMBER, key, Double.toString(defaultValue), remembered));
         if (dialog != null) {
             dialog.addNumericField(label, shown, digits);
         }
@@ -80,9 +83,17 @@ public final class OptionsDialog {
 
     /** A text field. */
     public OptionsDialog text(String label, String defaultValue, int columns) {
+        return text(label, defaultValue, columns, true);
+    }
+
+    /**
+     * A text field that offers the last confirmed value only when {@code remembered}; a setting meant for one run
+     * (such as a stimulus spot) is not remembered, so that it cannot carry over to the next session unseen.
+     */
+    public OptionsDialog text(String label, String defaultValue, int columns, boolean remembered) {
         String key = key(label);
-        String shown = fromMacro() ? defaultValue : Prefs.get(prefix + key, defaultValue);
-        fields.add(new Field(Kind.TEXT, key, defaultValue));
+        String shown = fromMacro() || !remembered ? defaultValue : Prefs.get(prefix + key, defaultValue);
+        fields.add(new Field(Kind.TEXT, key, defaultValue, remembered));
         if (dialog != null) {
             dialog.addStringField(label, shown, columns);
         }
@@ -113,12 +124,17 @@ public final class OptionsDialog {
 
     /** A drop-down list. */
     public OptionsDialog choice(String label, String[] items, String defaultItem) {
+        return choice(label, items, defaultItem, true);
+    }
+
+    /** A drop-down list that offers the last confirmed item only when {@code remembered}. */
+    public OptionsDialog choice(String label, String[] items, String defaultItem, boolean remembered) {
         String key = key(label);
-        String shown = fromMacro() ? defaultItem : Prefs.get(prefix + key, defaultItem);
+        String shown = fromMacro() || !remembered ? defaultItem : Prefs.get(prefix + key, defaultItem);
         if (!List.of(items).contains(shown)) {
             shown = defaultItem;
         }
-        fields.add(new Field(Kind.CHOICE, key, defaultItem));
+        fields.add(new Field(Kind.CHOICE, key, defaultItem, remembered));
         if (dialog != null) {
             dialog.addChoice(label, items, shown);
         }
@@ -183,7 +199,7 @@ public final class OptionsDialog {
         } else {
             v = parse(Macro.getValue(options, f.key, f.fallback), f.key);
         }
-        remember(f.key, Double.toString(v));
+        remember(f, Double.toString(v));
         return v;
     }
 
@@ -191,7 +207,7 @@ public final class OptionsDialog {
     public String nextText() {
         Field f = take(Kind.TEXT);
         String v = dialog != null ? dialog.getNextString() : Macro.getValue(options, f.key, f.fallback);
-        remember(f.key, v);
+        remember(f, v);
         return v.trim();
     }
 
@@ -199,7 +215,7 @@ public final class OptionsDialog {
     public String nextChoice() {
         Field f = take(Kind.CHOICE);
         String v = dialog != null ? dialog.getNextChoice() : Macro.getValue(options, f.key, f.fallback);
-        remember(f.key, v);
+        remember(f, v);
         return v;
     }
 
@@ -207,7 +223,7 @@ public final class OptionsDialog {
     public boolean nextCheck() {
         Field f = take(Kind.CHECK);
         boolean v = dialog != null ? dialog.getNextBoolean() : hasFlag(options, f.key);
-        remember(f.key, Boolean.toString(v));
+        remember(f, Boolean.toString(v));
         return v;
     }
 
@@ -236,9 +252,9 @@ public final class OptionsDialog {
         throw new IllegalStateException("no more " + kind.name().toLowerCase(Locale.ROOT) + " fields");
     }
 
-    private void remember(String key, String value) {
-        if (!fromMacro() && dialog != null) {
-            Prefs.set(prefix + key, value);
+    private void remember(Field f, String value) {
+        if (f.remembered && !fromMacro() && dialog != null) {
+            Prefs.set(prefix + f.key, value);
         }
     }
 

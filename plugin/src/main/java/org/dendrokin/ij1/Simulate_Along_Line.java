@@ -44,7 +44,7 @@ public class Simulate_Along_Line implements PlugIn {
             ModelComparison.Settings model = ModelSettings.read(d);
             String folder = d.nextText();
             Kymograph simulated = ModelComparison.simulateOn(grid, model, progress);
-            ImagePlus image = KymographImage.toImage(simulated, current.getShortTitle() + " simulated " + model.model());
+            ImagePlus image = KymographImage.toImage(simulated, Titles.stem(current) + " simulated " + model.model());
             image.setProp("dendrokin.model", model.toString());
             if (!folder.isEmpty()) {
                 Compare_With_Simulation.saveKymograph(image, simulated, java.nio.file.Path.of(folder));
@@ -53,10 +53,10 @@ public class Simulate_Along_Line implements PlugIn {
             if (measured != null) {
                 // the measured dF/F0 beside the model, both on the model's display range for a fair look
                 measured.setDisplayRange(image.getDisplayRangeMin(), image.getDisplayRangeMax());
-                Display.showKymograph(measured);
+                Display.showKymograph(measured, current);
                 Display.showKymograph(image, measured);
             } else {
-                Display.showKymograph(image);
+                Display.showKymograph(image, current);
             }
             progress.finish(COMMAND + ": " + model.model() + " simulated on " + grid.positionCount() + " positions x "
                     + grid.frameCount() + " frames" + (measured != null ? ", beside the measured dF/F0." : "."));
@@ -133,7 +133,7 @@ public class Simulate_Along_Line implements PlugIn {
                 ? String.format(java.util.Locale.ROOT, ", bleaching corrected (time constant %.3g s)",
                         corrected.bleach().timeConstant().value()) : ", no bleaching correction") + ".");
         corrected.warnings().forEach(w -> IJ.log(COMMAND + ": " + w));
-        return KymographImage.toImage(dff, movie.getShortTitle() + " measured (dF/F0)");
+        return KymographImage.toImage(dff, Titles.stem(movie) + " measured");
     }
 
     /** A sensible default stimulus time: a tenth of the way through the recording. */

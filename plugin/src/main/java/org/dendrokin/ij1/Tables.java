@@ -1,9 +1,12 @@
 package org.dendrokin.ij1;
 
+import java.awt.Window;
 import java.io.OutputStreamWriter;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 
+import ij.IJ;
+import ij.WindowManager;
 import ij.measure.ResultsTable;
 
 import org.apache.commons.csv.CSVFormat;
@@ -17,6 +20,9 @@ import org.dendrokin.core.spread.Estimate;
  * that a user can copy them into a spreadsheet and sort or plot them.
  */
 final class Tables {
+    /** Width of a new quantity table's window, pixels: wide enough for the value, unit and interval. */
+    private static final int WIDE_TABLE_PX = 900;
+
     private Tables() {
     }
 
@@ -29,17 +35,26 @@ final class Tables {
         return table;
     }
 
-    /** Adds one quantity; NaN bounds show as empty cells. */
+    /** Adds one quantity; NaN numbers show as empty cells. */
     static void add(ResultsTable table, String source, String quantity, double value, String unit, double lo95,
             double hi95, String note) {
         table.incrementCounter();
         table.addValue("source", source);
         table.addValue("quantity", quantity);
-        table.addValue("value", value);
+        number(table, "value", value);
         table.addValue("unit", unit);
-        table.addValue("ci95_low", lo95);
-        table.addValue("ci95_high", hi95);
+        number(table, "ci95_low", lo95);
+        number(table, "ci95_high", hi95);
         table.addValue("note", note == null ? "" : note);
+    }
+
+    /** A number, or for NaN an empty cell: the number stays NaN for getResult(), the window shows nothing. */
+    private static void number(ResultsTable table, String column, double value) {
+        if (Double.isNaN(value)) {
+            table.addValue(column, "");
+        } else {
+            table.addValue(column, value);
+        }
     }
 
     /** Adds a measured estimate, or an empty row saying why there is none. */
@@ -51,12 +66,26 @@ final class Tables {
         }
     }
 
-    /** Shows the table under {@code title}; without a display it becomes the Results table a macro reads. */
-    static void show(ResultsTable table, String title) {
+    /**
+     * Shows the table under {@code title}, a new window beside {@code anchor} and clear of the other windows (a
+     * table window already open keeps its place and gets the new rows); without a display the table becomes the
+     * Results table a macro reads.
+     */
+    static void show(ResultsTable table, String title, Window anchor) {
         if (OptionsDialog.headless()) {
             ij.plugin.filter.Analyzer.setResultsTable(table);
-        } else {
-            table.show(title);
+            return;
+        }
+        boolean existed = WindowManager.getWindow(title) != null;
+        table.show(title);
+        Window window = WindowManager.getWindow(title);
+        if (!existed && window != null) {
+            // ImageJ opens a table at most 700 pixels wide, which hides the intervals of our quantity tables
+            if (table.getColumnIndex("ci95_high") != ResultsTable.COLUMN_NOT_FOUND) {
+                window.setSize(Math.max(window.getWidth(), Math.min(WIDE_TABLE_PX, IJ.getScreenSize().width / 2)),
+                        window.getHeight());
+            }
+            Display.place(window, anchor);
         }
     }
 

@@ -45,7 +45,7 @@ public class User_Guide implements PlugIn {
             if (OptionsDialog.headless()) {
                 IJ.log(text);
             } else {
-                new HTMLDialog("Dendrokin guide: " + title, GuideHtml.toHtml(text), false);
+                Display.place(new HTMLDialog("Dendrokin guide: " + title, GuideHtml.toHtml(text), false), null);
             }
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
@@ -76,7 +76,7 @@ public class User_Guide implements PlugIn {
         } else {
             String html = "<html><body style='width:420px'>" + Html.escText(aboutText()).replace("\n \n", "<p>")
                     .replace("\n", " ") + "</body></html>";
-            new HTMLDialog("About Dendrokin", html, false);
+            Display.place(new HTMLDialog("About Dendrokin", html, false), null);
         }
     }
 }

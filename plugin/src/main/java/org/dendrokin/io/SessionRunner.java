@@ -33,6 +33,7 @@ import org.dendrokin.io.session.ResultsJson;
 import org.dendrokin.io.session.SessionConfig;
 import org.dendrokin.io.session.SessionInputs;
 import org.dendrokin.io.session.SessionOutputs;
+import org.dendrokin.io.session.SessionOverrides;
 import org.dendrokin.io.session.TreeSession;
 
 import ij.gui.Roi;
@@ -104,11 +105,24 @@ public final class SessionRunner {
      * @throws InputException for bad input, naming the file
      */
     public static Result analyze(Path sessionDir, Path outDir, Progress progress) {
+        return analyze(sessionDir, outDir, SessionOverrides.NONE, progress);
+    }
+
+    /**
+     * Analyses one session with settings given for this run over session.json's (the folder is not changed).
+     *
+     * @param sessionDir folder holding session.json; never written
+     * @param outDir     output folder, created with its parents if missing
+     * @param overrides  settings that take precedence over session.json, stated in the outputs
+     * @param progress   progress and cancellation
+     * @throws InputException for bad input, naming the file or the override
+     */
+    public static Result analyze(Path sessionDir, Path outDir, SessionOverrides overrides, Progress progress) {
         if (!Files.isDirectory(sessionDir)) {
             throw new InputException(sessionDir, "is not a folder");
         }
-        SessionConfig config = SessionConfig.read(sessionDir);
         Path sessionFile = sessionDir.resolve(SessionConfig.FILE_NAME);
+        SessionConfig config = overrides.apply(SessionConfig.read(sessionDir), sessionFile);
         CalibrationSetup calibration = CalibrationConfig.parse(config.calibration(), sessionFile);
         List<Warning> warnings = new ArrayList<>();
         config.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SETTINGS, w)));
@@ -139,8 +153,14 @@ public final class SessionRunner {
             CalibrationSetup.RatioChannels channels = calibration.channels();
             SessionConfig.Acquisition acq = config.acquisition();
             int signalChannel = acq.channel() > 0 ? acq.channel() : channels == null ? 1 : channels.numerator();
-            requireChannel(sessionFile, movieFile, movie, "channel", signalChannel);
-            if (acq.structuralChannel() > 0) {
+            if (overrides.setsChannel()) {
+                requireChannel(movieFile, movie, overrides.origin().channelName(), signalChannel);
+            } else {
+                requireChannel(sessionFile, movieFile, movie, "channel", signalChannel);
+            }
+            if (acq.structuralChannel() > 0 && overrides.structuralChannel() != null) {
+                requireChannel(movieFile, movie, overrides.origin().structuralName(), acq.structuralChannel());
+            } else if (acq.structuralChannel() > 0) {
                 requireChannel(sessionFile, movieFile, movie, "structural_channel", acq.structuralChannel());
             }
             if (movie.zSlices() > 1 && acq.zSlice() > movie.zSlices()) {
@@ -166,7 +186,7 @@ public final class SessionRunner {
                 lifetime.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.MOVIE, w)));
             }
             inputs = new SessionInputs(sessionDir, sessionName(sessionDir), config, movieFile, pathFile,
-                    movie.bitDepth(), movie.channelCount(), calibration, warnings);
+                    movie.bitDepth(), movie.channelCount(), calibration, warnings, overrides);
             AnalysisRequest request = new AnalysisRequest(frames,
                     channels == null ? null : planes(movie, channels.denominator() - 1, acq),
                     acq.structuralChannel() > 0 ? planes(movie, acq.structuralChannel() - 1, acq) : null, path,
@@ -197,6 +217,14 @@ public final class SessionRunner {
             throw new InputException(sessionFile, String.format(Locale.ROOT, "key \"%s\" is %d, but %s has %d "
                     + "channel%s", key, channel, movieFile.getFileName(), movie.channelCount(),
                     movie.channelCount() == 1 ? "" : "s"));
+        }
+    }
+
+    /** Checks that a channel set for this run (e.g. by {@code --channel}) exists in the movie. */
+    private static void requireChannel(Path movieFile, Movie movie, String option, int channel) {
+        if (channel > movie.channelCount()) {
+            throw new InputException(movieFile, String.format(Locale.ROOT, "has %d channel%s, but %s asks for "
+                    + "channel %d", movie.channelCount(), movie.channelCount() == 1 ? "" : "s", option, channel));
         }
     }
 

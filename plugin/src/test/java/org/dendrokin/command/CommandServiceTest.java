@@ -117,6 +117,22 @@ class CommandServiceTest {
     }
 
     @Test
+    void analyzeOneSessionTakesSettingsForThisRunOverSessionJson() throws Exception {
+        Path out = dir.resolve("motion-off");
+        CommandModule m = run(AnalyzeSessionCommand.class, "sessionDir", session.toFile(), "outDir", out.toFile(),
+                "motion", "off");
+        assertFalse(m.isCanceled(), m::getCancelReason);
+        com.google.gson.JsonObject results = com.google.gson.JsonParser.parseString(
+                Files.readString(out.resolve("results.json"))).getAsJsonObject();
+        assertEquals("off", results.getAsJsonObject("motion").get("mode").getAsString(), "the run used it");
+        assertEquals("off", results.getAsJsonObject("overrides").get("motion").getAsString(), "and states it");
+        CommandModule bad = run(AnalyzeSessionCommand.class, "sessionDir", session.toFile(), "outDir",
+                dir.resolve("bad-spot").toFile(), "stimulusSpot", "12;40");
+        assertTrue(bad.isCanceled(), "a spot that is not x,y cancels");
+        assertTrue(bad.getCancelReason().contains("stimulus spot"), bad.getCancelReason());
+    }
+
+    @Test
     void badInputCancelsWithTheSentenceNamingTheFile() throws Exception {
         Path missing = dir.resolve("no-such-session");
         CommandModule m = run(AnalyzeSessionCommand.class, "sessionDir", missing.toFile(), "outDir",

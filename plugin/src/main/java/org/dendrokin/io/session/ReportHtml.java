@@ -80,6 +80,9 @@ public final class ReportHtml {
 
         h.append("<h2>What was analysed</h2>\n<table>\n");
         row(h, "Session folder", esc(in.sessionDir().toAbsolutePath().normalize().toString()));
+        if (!in.overrides().isEmpty()) {
+            row(h, "Overrides", esc(in.overrides().sentence()));
+        }
         row(h, "Movie", esc(in.relative(in.movieFile())) + String.format(Locale.ROOT,
                 ": %d x %d pixels, %d frames, %d-bit", movie.widthPx(), movie.heightPx(), movie.frameCount(),
                 in.bitDepth()));

@@ -49,6 +49,11 @@ import com.google.gson.JsonPrimitive;
  * {"value", "unit", "ci95": [lo, hi], "ci_method", "standard_error", "identifiable", ...}}, "derived": {...},
  * "warnings": [...], "akaike_weight", "weight_criterion"}}; a fit that did not converge has
  * {@code "converged": false}, a {@code "reason"} and no parameters (its numbers are not estimates).
+ *
+ * <p>A run with settings given over session.json (the command line's {@code --channel}, {@code --motion},
+ * {@code --stimulus-xy}, or the ImageJ dialog) has {@code "overrides": {"given_in", "channel",
+ * "structural_channel", "motion", "stimulus_xy_px": [x, y]}} holding only the settings given; the other sections
+ * describe the run with them in place. Without overrides the key is absent.
  */
 public final class ResultsJson {
     /** File name of the results. */
@@ -133,6 +138,9 @@ public final class ResultsJson {
             stimuli.add(stimulusOutcome(o));
         }
         root.add("stimuli", stimuli);
+        if (!in.overrides().isEmpty()) {
+            root.add("overrides", overrides(in.overrides()));
+        }
         JsonArray w = new JsonArray();
         Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text).forEach(w::add);
         root.add("warnings", w);
@@ -150,6 +158,28 @@ public final class ResultsJson {
     }
 
     // ---- sections ------------------------------------------------------------------------------------------
+
+    /** The settings given for this run over session.json, only those given. */
+    private static JsonObject overrides(SessionOverrides o) {
+        JsonObject j = new JsonObject();
+        j.addProperty("given_in", o.origin().phrase());
+        if (o.channel() != null) {
+            j.addProperty("channel", o.channel());
+        }
+        if (o.structuralChannel() != null) {
+            j.addProperty("structural_channel", o.structuralChannel());
+        }
+        if (o.motion() != null) {
+            j.addProperty("motion", o.motion().key());
+        }
+        if (o.stimulusXPx() != null) {
+            JsonArray xy = new JsonArray();
+            xy.add(o.stimulusXPx());
+            xy.add(o.stimulusYPx());
+            j.add("stimulus_xy_px", xy);
+        }
+        return j;
+    }
 
     private static JsonObject spread(SpreadAnalysis.Result spread, Headline headline) {
         JsonObject o = new JsonObject();

@@ -19,11 +19,14 @@ import org.dendrokin.io.calib.CalibrationSetup;
  * @param channelCount channels of the movie
  * @param calibration  the calibration as configured
  * @param warnings     sentences about the inputs, shown before the analysis' own
+ * @param overrides    settings given for this run over session.json ({@code config} has them in place)
  */
 public record SessionInputs(Path sessionDir, String sessionName, SessionConfig config, Path movieFile, Path pathFile,
-                            int bitDepth, int channelCount, CalibrationSetup calibration, List<Warning> warnings) {
+                            int bitDepth, int channelCount, CalibrationSetup calibration, List<Warning> warnings,
+                            SessionOverrides overrides) {
     public SessionInputs {
         warnings = List.copyOf(warnings);
+        overrides = overrides == null ? SessionOverrides.NONE : overrides;
     }
 
     /** A file of the session folder as named in the outputs: relative to the folder. */
