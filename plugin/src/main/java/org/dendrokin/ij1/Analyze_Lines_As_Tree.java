@@ -90,8 +90,10 @@ public class Analyze_Lines_As_Tree implements PlugIn {
             Path outDir = output.isEmpty() ? Analyze_Session_Folder.defaultOutput(dir) : Path.of(output);
             SessionRunner.Result result = SessionRunner.analyze(dir, outDir, progress);
             result.warnings().forEach(w -> IJ.log(COMMAND + " (" + result.session() + "): " + w));
-            Display.showKymograph(KymographImage.toImage(result.analysis().signal(), result.session()));
-            Tables.show(table(outDir.resolve(ResultsJson.FILE_NAME)), "Dendrokin tree " + result.session());
+            ImagePlus image = KymographImage.toImage(result.analysis().signal(), result.session());
+            Display.showKymograph(image);
+            Tables.show(table(outDir.resolve(ResultsJson.FILE_NAME)), "Dendrokin tree " + result.session(),
+                    image.getWindow());
             progress.finish(COMMAND + ": results in " + outDir);
         } catch (RuntimeException e) {
             Failures.show(COMMAND, e);
