@@ -16,6 +16,9 @@ import org.dendrokin.core.analysis.BackgroundRequest;
 import org.dendrokin.core.analysis.BranchedPaths;
 import org.dendrokin.core.analysis.FitRequest;
 import org.dendrokin.core.analysis.SessionAnalysis;
+import org.dendrokin.core.analysis.SpineOutcome;
+import org.dendrokin.core.analysis.SpineRequest;
+import org.dendrokin.core.analysis.SpineStage;
 import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.kymo.FrameSource;
@@ -34,6 +37,7 @@ import org.dendrokin.io.session.SessionConfig;
 import org.dendrokin.io.session.SessionInputs;
 import org.dendrokin.io.session.SessionOutputs;
 import org.dendrokin.io.session.SessionOverrides;
+import org.dendrokin.io.session.SpineConfig;
 import org.dendrokin.io.session.TreeSession;
 
 import ij.gui.Roi;
@@ -126,6 +130,10 @@ public final class SessionRunner {
         CalibrationSetup calibration = CalibrationConfig.parse(config.calibration(), sessionFile);
         List<Warning> warnings = new ArrayList<>();
         config.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SETTINGS, w)));
+        SpineConfig spineConfig = SpineConfig.read(sessionDir);
+        if (spineConfig != null) {
+            spineConfig.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.SETTINGS, w)));
+        }
         calibration.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.CALIBRATION, w)));
         Path movieFile = config.movie() != null ? sessionDir.resolve(config.movie()) : onlyFile(sessionDir,
                 "movie", "a TIFF movie", null, ".tif", ".tiff");
@@ -147,6 +155,7 @@ public final class SessionRunner {
         TreeSessionAnalysis.Result tree = null;
         SessionInputs inputs;
         AnalysisResult analysis;
+        SpineOutcome spines = null;
         try (Movie movie = Movie.open(movieFile, config.pixelSizeUm(), config.frameIntervalS())) {
             movie.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.MOVIE, w)));
             SessionCalibration.requireChannels(calibration, sessionFile, movieFile, movie.channelCount());
@@ -195,6 +204,8 @@ public final class SessionRunner {
                     config.stimuli(), acq.trainGapS(), config.baselineFrames(), config.bleachCorrection(),
                     acq.motion(), acq.normalisation(), fitRequest(config.models(), config.fit()),
                     acq.linePeriodS(movie.frameIntervalS()));
+            SpineRequest spineRequest = spineConfig == null ? null
+                    : spineConfig.request(sessionDir, frames.width(), frames.height());
             BranchedPaths layout = lines == null ? null : TreeSession.join(lines, movie.pixelSizeUm());
             try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
@@ -202,12 +213,15 @@ public final class SessionRunner {
                 Path file = e.subject() == AnalysisInputException.Subject.PATH ? pathFile : sessionFile;
                 throw new InputException(file, e.getMessage(), e);
             }
+            if (spineRequest != null) {
+                spines = SpineStage.run(request, analysis, spineRequest, progress);
+            }
             if (layout != null) {
                 tree = TreeSession.analyse(lines, layout, frames, config, analysis, progress);
             }
         }
         progress.checkCancelled();
-        Path report = SessionOutputs.write(outDir, inputs, analysis, tree, progress);
+        Path report = SessionOutputs.write(outDir, inputs, analysis, spines, tree, progress);
         return new Result(inputs, analysis, outDir, report);
     }
 

@@ -355,7 +355,7 @@ public final class SessionAnalysis {
     }
 
     /** Mean of up to {@value #REFERENCE_FRAMES} frames spread over the baseline, row-major. */
-    private static float[] meanFrame(FrameSource frames, int first, int last) {
+    static float[] meanFrame(FrameSource frames, int first, int last) {
         int w = frames.width();
         int h = frames.height();
         int count = Math.min(REFERENCE_FRAMES, last - first + 1);

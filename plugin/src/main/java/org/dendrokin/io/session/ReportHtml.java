@@ -7,6 +7,7 @@ import java.util.Locale;
 import java.util.stream.Stream;
 
 import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.SpineOutcome;
 import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
 import org.dendrokin.core.analysis.MotionMode;
@@ -45,16 +46,23 @@ public final class ReportHtml {
      * @param pictures the pictures beside the report, in the order shown
      */
     public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures) {
-        write(target, in, a, pictures, "");
+        write(target, in, a, pictures, null);
+    }
+
+    /** Writes the report, with a spine section ({@link SpineOutputs#section}) when spines were analysed (or null). */
+    public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures,
+            SpineOutcome spines) {
+        write(target, in, a, pictures, spines, "");
     }
 
     /**
-     * Writes the report with an extra section (HTML) after the fits, e.g. a branched session's tree.
+     * Writes the report with the spine section (when {@code spines} is not null) and an extra section (HTML) after
+     * the fits, e.g. a branched session's tree.
      *
      * @param extraHtml inserted before the warnings; empty for none
      */
     public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures,
-                             String extraHtml) {
+            SpineOutcome spines, String extraHtml) {
         String session = in.sessionName();
         Kymograph signal = a.signal();
         Preprocessing.Result pre = a.preprocessing();
@@ -157,6 +165,9 @@ public final class ReportHtml {
         h.append("</table>\n");
 
         h.append(FitReportHtml.section(a.fits(), a.skipped()));
+        if (spines != null) {
+            h.append(SpineOutputs.section(spines));
+        }
         h.append(extraHtml);
 
         h.append("<h2>Warnings</h2>\n");

@@ -6,6 +6,10 @@ import java.util.Map;
 import java.util.stream.Stream;
 
 import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.SpineOutcome;
+import org.dendrokin.core.spines.Spine;
+import org.dendrokin.core.spines.SpineAnalysis;
+import org.dendrokin.core.spines.SpineSettings;
 import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
 import org.dendrokin.core.analysis.ResolvedStimulus;
@@ -74,12 +78,23 @@ public final class ResultsJson {
     }
 
     /**
-     * The whole document, with a {@code "tree"} section last for a branched session ({@link TreeSessionOutputs}).
+     * The whole document, with a {@code spines} section when the spines were analysed.
      *
-     * @param tree the branched part, or null for a single-path session (no section)
+     * @param spines the spine analysis, or null (then the document is exactly that of the three-argument build)
      */
-    public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile,
-                                   TreeSessionAnalysis.Result tree) {
+    public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile, SpineOutcome spines) {
+        return build(in, a, kymographFile, spines, null);
+    }
+
+    /**
+     * The whole document, with a {@code spines} section when the spines were analysed and a {@code "tree"} section
+     * last for a branched session ({@link TreeSessionOutputs}).
+     *
+     * @param spines the spine analysis, or null
+     * @param tree   the branched part, or null for a single-path session (no section)
+     */
+    public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile, SpineOutcome spines,
+            TreeSessionAnalysis.Result tree) {
         Kymograph signal = a.signal();
         JsonObject root = new JsonObject();
         root.addProperty("tool_version", ToolVersion.get());
@@ -138,6 +153,9 @@ public final class ResultsJson {
             stimuli.add(stimulusOutcome(o));
         }
         root.add("stimuli", stimuli);
+        if (spines != null) {
+            root.add("spines", spines(spines));
+        }
         if (!in.overrides().isEmpty()) {
             root.add("overrides", overrides(in.overrides()));
         }
@@ -158,6 +176,56 @@ public final class ResultsJson {
     }
 
     // ---- sections ------------------------------------------------------------------------------------------
+
+    /** The spines: how they were found, and one object a spine with its neck time constant and interval. */
+    private static JsonObject spines(SpineOutcome s) {
+        SpineAnalysis.Result r = s.result();
+        JsonObject o = new JsonObject();
+        SpineSettings set = s.request().settings();
+        JsonObject settings = new JsonObject();
+        settings.addProperty("detect", set.detect());
+        settings.addProperty("min_distance_um", set.minDistanceUm());
+        settings.addProperty("max_distance_um", set.maxDistanceUm());
+        settings.addProperty("head_radius_um", set.headRadiusUm());
+        settings.addProperty("threshold_sd", set.thresholdSd());
+        settings.addProperty("head_decay_per_s", set.headDecayPerS());
+        settings.addProperty("rois", s.request().source());
+        o.add("settings", settings);
+        o.addProperty("file", SpineOutputs.SPINES_CSV);
+        o.addProperty("traces_file", SpineOutputs.TRACES_CSV);
+        JsonArray list = new JsonArray();
+        for (Spine sp : r.spines()) {
+            JsonObject j = new JsonObject();
+            j.addProperty("id", sp.id());
+            j.addProperty("label", sp.site().label());
+            j.addProperty("source", sp.site().source().word());
+            j.add("x_px", finiteOrNull(sp.site().xPx()));
+            j.add("y_px", finiteOrNull(sp.site().yPx()));
+            j.add("position_um", finiteOrNull(sp.positionUm()));
+            j.addProperty("side", sp.side().word());
+            j.add("off_path_um", finiteOrNull(sp.offPathUm()));
+            j.add("base_position_um", finiteOrNull(sp.basePositionUm()));
+            j.add("distance_from_stimulus_um", finiteOrNull(sp.distanceFromStimulusUm()));
+            j.addProperty("stimulated", sp.stimulated());
+            j.add("peak_dF_F0", finiteOrNull(sp.peakDeltaF()));
+            j.add("time_to_peak_s", finiteOrNull(sp.timeToPeakS()));
+            j.add("decay_time_s", finiteOrNull(sp.decayTimeS()));
+            JsonElement tau = JsonNull.INSTANCE;
+            if (sp.tauNeck().isPresent()) {
+                JsonObject t = modelEstimate(sp.tauNeck().get(), sp.exchange().model());
+                t.addProperty("determined", sp.tauNeck().get().identifiable());
+                tau = t;
+            }
+            j.add("tau_neck", tau);
+            j.addProperty("not_fitted", SpineOutputs.notFitted(sp));
+            list.add(j);
+        }
+        o.add("spines", list);
+        JsonArray w = new JsonArray();
+        s.warnings().forEach(w::add);
+        o.add("warnings", w);
+        return o;
+    }
 
     /** The settings given for this run over session.json, only those given. */
     private static JsonObject overrides(SessionOverrides o) {

@@ -11,6 +11,7 @@ import java.util.List;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.analysis.AnalysisResult;
+import org.dendrokin.core.analysis.SpineOutcome;
 import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.io.AtomicFiles;
@@ -71,12 +72,24 @@ public final class SessionOutputs {
     }
 
     /**
-     * Writes every output, with those of a branched session's tree ({@link TreeSessionOutputs}) when there is one.
+     * Writes every output, with the spines' ({@link SpineOutputs}) when they were analysed.
      *
-     * @param tree the branched part, or null for a single-path session
+     * @param spines the spine analysis, or null when the session did not ask for one
      */
-    public static Path write(Path outDir, SessionInputs in, AnalysisResult a, TreeSessionAnalysis.Result tree,
-                             Progress progress) {
+    public static Path write(Path outDir, SessionInputs in, AnalysisResult a, SpineOutcome spines,
+            Progress progress) {
+        return write(outDir, in, a, spines, null, progress);
+    }
+
+    /**
+     * Writes every output, with the spines' when they were analysed and those of a branched session's tree ({@link
+     * TreeSessionOutputs}) when there is one.
+     *
+     * @param spines the spine analysis, or null when the session did not ask for one
+     * @param tree   the branched part, or null for a single-path session
+     */
+    public static Path write(Path outDir, SessionInputs in, AnalysisResult a, SpineOutcome spines,
+            TreeSessionAnalysis.Result tree, Progress progress) {
         progress.report("writing results", 0, 1);
         try {
             Files.createDirectories(outDir);
@@ -91,13 +104,17 @@ public final class SessionOutputs {
             writeMotion(a.motion().trace(), a.movie().frameIntervalS(), outDir.resolve(MOTION_CSV));
         }
         double saturation = in.bitDepth() == 8 || in.bitDepth() == 16 ? (1 << in.bitDepth()) - 1 : Double.NaN;
-        List<Picture> pictures = new ArrayList<>(SessionPictures.writeAll(outDir, a, saturation));
+        List<Picture> pictures = new java.util.ArrayList<>(SessionPictures.writeAll(outDir, a, saturation));
+        if (spines != null) {
+            pictures.add(SpineOutputs.write(outDir, spines));
+        }
         if (tree != null) {
             pictures.addAll(TreeSessionOutputs.write(outDir, tree));
         }
-        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV, tree), outDir.resolve(ResultsJson.FILE_NAME));
+        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV, spines, tree),
+                outDir.resolve(ResultsJson.FILE_NAME));
         Path report = outDir.resolve(REPORT_HTML);
-        ReportHtml.write(report, in, a, pictures, tree == null ? "" : TreeSessionOutputs.html(tree));
+        ReportHtml.write(report, in, a, pictures, spines, tree == null ? "" : TreeSessionOutputs.html(tree));
         progress.report("writing results", 1, 1);
         return report;
     }

@@ -1,0 +1,50 @@
+package org.dendrokin.ij1;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.Reader;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVRecord;
+import org.dendrokin.core.Progress;
+import org.dendrokin.io.SessionRunner;
+import org.dendrokin.io.session.SpineOutputs;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+import ij.IJ;
+import ij.measure.ResultsTable;
+import ij.plugin.filter.Analyzer;
+
+/** Spine Table, run as a macro runs it, on the spine demo session's outputs. */
+class SpineTableTest {
+    @Test
+    void showsEverySpineOfTheSessionWithItsNeckTimeConstant(@TempDir Path dir) throws Exception {
+        HeadlessImageJ.start();
+        Path out = dir.resolve("demo-spines-results");
+        SessionRunner.analyze(Path.of("..", "test-images", "demo-spines"), out, Progress.NONE);
+        List<CSVRecord> rows;
+        try (Reader r = Files.newBufferedReader(out.resolve(SpineOutputs.SPINES_CSV))) {
+            rows = CSVFormat.DEFAULT.builder().setHeader().setSkipHeaderRecord(true).get().parse(r).getRecords();
+        }
+        IJ.run("Spine Table...", "results=[" + out + "]");
+        ResultsTable t = Analyzer.getResultsTable();
+        assertEquals(rows.size(), t.size(), "one row a spine");
+        int fitted = 0;
+        for (int i = 0; i < rows.size(); i++) {
+            assertEquals(rows.get(i).get("side"), t.getStringValue("side", i), "side of spine " + (i + 1));
+            assertEquals(Double.parseDouble(rows.get(i).get("position_um")), t.getValue("position_um", i), 1e-9,
+                    "position of spine " + (i + 1) + " (um)");
+            String tau = rows.get(i).get("tau_neck_s");
+            if (!tau.isEmpty()) {
+                fitted++;
+                assertEquals(Double.parseDouble(tau), t.getValue("tau_neck_s", i), 1e-9, "tau_neck (s)");
+            }
+        }
+        assertTrue(fitted > 0, "some spines have a neck time constant");
+    }
+}
