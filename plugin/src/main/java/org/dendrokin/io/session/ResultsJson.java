@@ -14,7 +14,6 @@ import org.dendrokin.core.analysis.CalibrationStage;
 import org.dendrokin.core.analysis.Headline;
 import org.dendrokin.core.analysis.ResolvedStimulus;
 import org.dendrokin.core.analysis.SkippedModel;
-import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.calib.Calibration;
 import org.dendrokin.core.calib.CalibrationSummary;
@@ -83,18 +82,6 @@ public final class ResultsJson {
      * @param spines the spine analysis, or null (then the document is exactly that of the three-argument build)
      */
     public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile, SpineOutcome spines) {
-        return build(in, a, kymographFile, spines, null);
-    }
-
-    /**
-     * The whole document, with a {@code spines} section when the spines were analysed and a {@code "tree"} section
-     * last for a branched session ({@link TreeSessionOutputs}).
-     *
-     * @param spines the spine analysis, or null
-     * @param tree   the branched part, or null for a single-path session (no section)
-     */
-    public static JsonObject build(SessionInputs in, AnalysisResult a, String kymographFile, SpineOutcome spines,
-            TreeSessionAnalysis.Result tree) {
         Kymograph signal = a.signal();
         JsonObject root = new JsonObject();
         root.addProperty("tool_version", ToolVersion.get());
@@ -162,9 +149,6 @@ public final class ResultsJson {
         JsonArray w = new JsonArray();
         Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text).forEach(w::add);
         root.add("warnings", w);
-        if (tree != null) {
-            root.add(TreeSession.KEY, TreeSessionOutputs.json(tree));
-        }
         return root;
     }
 

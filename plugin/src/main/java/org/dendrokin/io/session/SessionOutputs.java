@@ -111,8 +111,11 @@ public final class SessionOutputs {
         if (tree != null) {
             pictures.addAll(TreeSessionOutputs.write(outDir, tree));
         }
-        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV, spines, tree),
-                outDir.resolve(ResultsJson.FILE_NAME));
+        com.google.gson.JsonObject results = ResultsJson.build(in, a, KYMOGRAPH_CSV, spines);
+        if (tree != null) {
+            results.add(TreeSession.KEY, TreeSessionOutputs.json(tree));   // the "tree" section, last
+        }
+        ResultsJson.write(results, outDir.resolve(ResultsJson.FILE_NAME));
         Path report = outDir.resolve(REPORT_HTML);
         ReportHtml.write(report, in, a, pictures, spines, tree == null ? "" : TreeSessionOutputs.html(tree));
         progress.report("writing results", 1, 1);
