@@ -28,7 +28,8 @@ import picocli.CommandLine.Spec;
  */
 @Command(name = "simulate", mixinStandardHelpOptions = true, modelTransformer = SimulateCommand.ModelList.class,
         description = "Simulate a reaction-diffusion model along a dendrite and write kymograph.csv, kymograph.png"
-                + " and summary.json (and a synthetic movie if the model file asks for one).")
+                + " and summary.json (and a synthetic movie if the model file asks for one); on a branched tree"
+                + " (\"tree\" in the model file), one kymograph-BRANCH.csv and .png per branch and tree.png.")
 final class SimulateCommand implements Callable<Integer> {
     @Parameters(index = "0", paramLabel = "MODEL_JSON", description = "The model file (see docs/models.md).")
     Path modelFile;

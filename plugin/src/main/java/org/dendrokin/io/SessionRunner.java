@@ -13,11 +13,13 @@ import org.dendrokin.core.analysis.AnalysisInputException;
 import org.dendrokin.core.analysis.AnalysisRequest;
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.BackgroundRequest;
+import org.dendrokin.core.analysis.BranchedPaths;
 import org.dendrokin.core.analysis.FitRequest;
 import org.dendrokin.core.analysis.SessionAnalysis;
 import org.dendrokin.core.analysis.SpineOutcome;
 import org.dendrokin.core.analysis.SpineRequest;
 import org.dendrokin.core.analysis.SpineStage;
+import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.analysis.Warning;
 import org.dendrokin.core.kymo.FrameSource;
 import org.dendrokin.core.path.DendritePath;
@@ -36,6 +38,7 @@ import org.dendrokin.io.session.SessionInputs;
 import org.dendrokin.io.session.SessionOutputs;
 import org.dendrokin.io.session.SessionOverrides;
 import org.dendrokin.io.session.SpineConfig;
+import org.dendrokin.io.session.TreeSession;
 import org.dendrokin.io.text.Numbers;
 
 import ij.gui.Roi;
@@ -139,13 +142,18 @@ public final class SessionRunner {
             throw new InputException(sessionFile,
                     "key \"movie\" names " + config.movie() + ", which is not in the session folder");
         }
-        Path pathFile = config.path() != null ? sessionDir.resolve(config.path()) : onlyFile(sessionDir, "path",
-                "an ImageJ .roi path", config.backgroundRoi(), ".roi");
+        TreeSession.Lines lines = TreeSession.read(sessionDir, config,
+                config.path() == null ? null : sessionDir.resolve(config.path()));
+        Path pathFile = lines != null ? lines.files().values().iterator().next()
+                : config.path() != null ? sessionDir.resolve(config.path()) : onlyFile(sessionDir, "path",
+                        "an ImageJ .roi path", config.backgroundRoi(), ".roi");
         if (!Files.isRegularFile(pathFile)) {
             throw new InputException(sessionFile,
                     "key \"path\" names " + config.path() + ", which is not in the session folder");
         }
-        DendritePath path = PathFiles.read(pathFile, config.pathRoiName());
+        DendritePath path = lines != null ? lines.paths().values().iterator().next()
+                : PathFiles.read(pathFile, config.pathRoiName());
+        TreeSessionAnalysis.Result tree = null;
         SessionInputs inputs;
         AnalysisResult analysis;
         SpineOutcome spines = null;
@@ -208,6 +216,7 @@ public final class SessionRunner {
                     acq.linePeriodS(movie.frameIntervalS()));
             SpineRequest spineRequest = spineConfig == null ? null
                     : spineConfig.request(sessionDir, frames.width(), frames.height());
+            BranchedPaths layout = lines == null ? null : TreeSession.join(lines, movie.pixelSizeUm());
             try (lifetime) {
                 analysis = SessionAnalysis.run(request, progress);
             } catch (AnalysisInputException e) {
@@ -221,10 +230,15 @@ public final class SessionRunner {
             if (spineRequest != null) {
                 spines = SpineStage.run(request, analysis, spineRequest, progress);
             }
+            if (layout != null) {
+                tree = TreeSession.analyse(lines, layout, frames, config, analysis, progress);
+            }
         }
         progress.checkCancelled();
         SpineOutcome spinesFound = spines;
-        OutputFolder.fill(outDir, dir -> SessionOutputs.write(dir, inputs, analysis, spinesFound, progress));
+        TreeSessionAnalysis.Result treeFound = tree;
+        OutputFolder.fill(outDir, dir -> SessionOutputs.write(dir, inputs, analysis, spinesFound, treeFound,
+                progress));
         return new Result(inputs, analysis, outDir, outDir.resolve(REPORT_HTML));
     }
 

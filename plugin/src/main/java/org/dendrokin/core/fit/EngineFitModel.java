@@ -93,7 +93,7 @@ public final class EngineFitModel implements FitModel {
     }
 
     /** The fit's view of a model parameter: its scale from the range the catalogue lets a fit use. */
-    private static ParameterSpec spec(ModelParameter p) {
+    static ParameterSpec spec(ModelParameter p) {
         if (Double.isFinite(p.fitLower()) && Double.isFinite(p.fitUpper())) {
             return ParameterSpec.bounded(p.name(), p.unit(), p.fitLower(), p.fitUpper());
         }

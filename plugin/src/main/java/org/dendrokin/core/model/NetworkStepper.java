@@ -9,13 +9,21 @@ import java.util.Arrays;
  * the rate expressions (an m x m solve per node, m = number of species, so stiff reactions such as fast buffering
  * stay stable), one Crank-Nicolson diffusion step per species (Thomas algorithm; two backward-Euler half steps
  * when damped), and another reaction half step. At fixed ends every species keeps its resting value and does not
- * react. Allocation-free after construction; not thread-safe.
+ * react. On a tree ({@link TreeGrid}) the diffusion step is the tree's Crank-Nicolson step ({@link TreeSystem}) and
+ * the open ends are reset to the resting values after each reaction half step, which is the same as not reacting
+ * there. Allocation-free after construction; not thread-safe.
  */
 final class NetworkStepper implements Stepper {
     private static final double GAMMA = ScalarModel.ROS2_GAMMA;
 
     private final ReactionNetwork network;
+    /** The cable, or null on a tree. */
     private final CableGrid grid;
+    /** The tree, or null on a cable. */
+    private final TreeGrid tree;
+    private final TreeCrankNicolsonCache[] treeCaches;
+    /** On a tree: the sources of immobile species as given (not multiplied by B). */
+    private final double[][] rawSource;
     private final int n;
     private final int m;
     private final double[] d;
@@ -37,15 +45,31 @@ final class NetworkStepper implements Stepper {
 
     /** @param network a network for this thread only ({@link ReactionNetwork#forThread()}) */
     NetworkStepper(ReactionNetwork network, CableGrid grid) {
+        this(network, grid, null);
+    }
+
+    /** A network on a tree. @param network a network for this thread only */
+    NetworkStepper(ReactionNetwork network, TreeGrid tree) {
+        this(network, null, tree);
+    }
+
+    private NetworkStepper(ReactionNetwork network, CableGrid grid, TreeGrid tree) {
         this.network = network;
         this.grid = grid;
-        this.n = grid.n;
+        this.tree = tree;
+        this.n = grid != null ? grid.n : tree.n;
         this.m = network.speciesCount();
         this.d = network.diffusionUm2PerS();
         caches = new CrankNicolsonCache[m];
+        treeCaches = new TreeCrankNicolsonCache[m];
         for (int s = 0; s < m; s++) {
-            caches[s] = d[s] == 0 ? null : new CrankNicolsonCache(grid, false);
+            if (d[s] != 0 && grid != null) {
+                caches[s] = new CrankNicolsonCache(grid, false);
+            } else if (d[s] != 0) {
+                treeCaches[s] = new TreeCrankNicolsonCache(tree);
+            }
         }
+        rawSource = tree != null ? new double[m][n] : null;
         c = new double[m][n];
         rhs = new double[n];
         source = new double[m][n];
@@ -96,8 +120,14 @@ final class NetworkStepper implements Stepper {
         for (int s = 0; s < m; s++) {
             if (rates[s] == null) {
                 Arrays.fill(source[s], 0);
-            } else {
+                if (rawSource != null) {
+                    Arrays.fill(rawSource[s], 0);
+                }
+            } else if (grid != null) {
                 grid.applyMass(rates[s], source[s]);
+            } else {
+                tree.mass.apply(rates[s], source[s]);
+                System.arraycopy(rates[s], 0, rawSource[s], 0, n);
             }
         }
     }
@@ -123,6 +153,10 @@ final class NetworkStepper implements Stepper {
 
     /** Crank-Nicolson (B - c L) u1 = (B + c L) u0 + dt B q for one species, or two backward-Euler half steps. */
     private void diffuse(int s, double dt, boolean damped) {
+        if (tree != null) {
+            diffuseOnTree(s, dt, damped);
+            return;
+        }
         double ds = d[s];
         double[] u = c[s];
         double[] q = source[s];
@@ -170,6 +204,48 @@ final class NetworkStepper implements Stepper {
         TridiagonalSolver.solveFactored(lower, cPrime, invPivot, rhs, u);
     }
 
+    /** {@link #diffuse} on a tree: the same equations with the tree's matrices. */
+    private void diffuseOnTree(int s, double dt, boolean damped) {
+        double[] u = c[s];
+        if (d[s] == 0) {
+            // B u_t = B q: an immobile species accumulates its source
+            double[] q = rawSource[s];
+            for (int i = 0; i < n; i++) {
+                u[i] += dt * q[i];
+            }
+            return;
+        }
+        double[] q = source[s];
+        TreeCrankNicolsonCache cache = treeCaches[s];
+        TreeCrankNicolsonCache.Factors f = cache.get(0.5 * dt * d[s]);
+        if (damped) {
+            double half = 0.5 * dt;
+            for (int sub = 0; sub < 2; sub++) {
+                tree.mass.apply(u, rhs);
+                for (int i = 0; i < n; i++) {
+                    rhs[i] += half * q[i];
+                }
+                cache.solve(f, rhs, u);
+            }
+            return;
+        }
+        f.explicit.apply(u, rhs);
+        for (int i = 0; i < n; i++) {
+            rhs[i] += dt * q[i];
+        }
+        cache.solve(f, rhs, u);
+    }
+
+    /** On a tree: the open ends back at the resting values (as if they had not reacted). */
+    private void restOpenEnds() {
+        double[] init = network.initial();
+        for (int i : tree.fixedNodes) {
+            for (int s = 0; s < m; s++) {
+                c[s][i] = init[s];
+            }
+        }
+    }
+
     /**
      * ROS2 at every node: W k1 = f(u), W k2 = f(u + tau k1) - 2 k1, u1 = u + tau (3 k1 + k2) / 2,
      * W = I - gamma tau J. All nodes move together, a row per species (struct of arrays): the rate programs
@@ -180,8 +256,8 @@ final class NetworkStepper implements Stepper {
         if (network.reactions().isEmpty()) {
             return;
         }
-        int from = grid.fixedEnds ? 1 : 0;
-        int to = grid.fixedEnds ? n - 1 : n;
+        int from = grid != null && grid.fixedEnds ? 1 : 0;
+        int to = grid != null && grid.fixedEnds ? n - 1 : n;
         network.stepMatrixBatch(c, from, to, -GAMMA * tau, wm);
         network.ratesBatch(c, from, to, fm);
         switch (m) {
@@ -208,6 +284,9 @@ final class NetworkStepper implements Stepper {
             case 2 -> react2(tau, from, to);
             case 3 -> react3(tau, from, to);
             default -> reactGeneral(tau, from, to);
+        }
+        if (tree != null) {
+            restOpenEnds();
         }
     }
 

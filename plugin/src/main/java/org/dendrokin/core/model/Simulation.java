@@ -219,7 +219,7 @@ public final class Simulation {
     }
 
     /** One deterministic run: the observed output, the steps taken and the spatial order used. */
-    private record Solved(double[] out, long steps, int spatialOrder) {
+    record Solved(double[] out, long steps, int spatialOrder) {
     }
 
     /**
@@ -228,7 +228,7 @@ public final class Simulation {
      * out). Both runs of a pair use the same grid, so their difference is time error alone. Returns the finest
      * plain run (not the extrapolated one, which may lose positivity) and records the figures in {@code info}.
      */
-    private static Solved controlled(SolverSettings settings, double spanS, int maxHalvings, Map<String, Object> info,
+    static Solved controlled(SolverSettings settings, double spanS, int maxHalvings, Map<String, Object> info,
             List<String> warnings, Progress progress, Function<SolverSettings, Solved> solver) {
         double tolerance = settings.timeTolerance();
         Solved coarse = solver.apply(settings);

@@ -2,6 +2,7 @@ package org.dendrokin.core.model;
 
 import java.util.Arrays;
 import java.util.List;
+import java.util.Map;
 import java.util.SplittableRandom;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.ExecutorService;
@@ -27,6 +28,8 @@ import org.dendrokin.core.Progress;
  * coefficient is the one of the deterministic grid ({@link CableGrid}), e.g. D/h^2 per molecule and
  * direction on a uniform cable; the ensemble mean therefore follows the same discretised equation.</li>
  * </ul>
+ * On a tree ({@link #runOnTree}) the voxels are the tree grid's nodes and a junction's voxel has neighbours on every
+ * branch that meets there ({@link VoxelGraph}); nothing else changes.
  * Next event times sit in an indexed binary heap; after an event only the voxels it touched get new
  * times (valid because waiting times are memoryless). At a fixed end, molecules that arrive are removed
  * and the resting level feeds molecules in. Pulses and injections add molecules (amounts rounded up or
@@ -50,6 +53,33 @@ public final class StochasticEnsemble {
             double[] outputPositionsUm, List<Stimulus> stimuli, String observed, StochasticSettings settings,
             Progress progress) {
         int size = outputTimesS.length * outputPositionsUm.length;
+        return ensemble(size, settings, progress, seed -> new Voxels(network, domain, outputTimesS,
+                outputPositionsUm, stimuli, observed, settings.moleculesPerUnitUm3(), seed));
+    }
+
+    /**
+     * Runs the ensemble on a tree: voxels are the tree grid's nodes ({@link TreeGrid}: a junction is one voxel
+     * whose neighbours lie on every branch that meets there), molecules jump between neighbouring voxels at the
+     * rates of the deterministic tree grid. Mean and spread laid out as {@link TreeRun}'s output.
+     */
+    public static Summary runOnTree(ReactionNetwork network, TreeDomain domain, double[] outputTimesS,
+            Map<String, double[]> outputPositionsUm, List<TreeStimulus> stimuli, String observed,
+            StochasticSettings settings, Progress progress) {
+        TreeGrid grid = new TreeGrid(domain, 2);
+        int[] offsets = new int[outputPositionsUm.size() + 1];
+        int[][] nodes = new int[2][];
+        double[] weight = TreeRun.sampling(grid, outputPositionsUm, offsets, nodes);
+        StimulusLayout layout = new StimulusLayout(grid, stimuli);
+        List<Stimulus> protocol = stimuli.stream().map(TreeStimulus::stimulus).toList();
+        VoxelGraph graph = VoxelGraph.of(grid, nodes[0], nodes[1], weight, layout);
+        int size = outputTimesS.length * offsets[outputPositionsUm.size()];
+        return ensemble(size, settings, progress, seed -> new Voxels(network, graph, outputTimesS, protocol, observed,
+                settings.moleculesPerUnitUm3(), seed));
+    }
+
+    /** Independent runs spread over threads, seeded from (seed, run); their mean and standard deviation. */
+    private static Summary ensemble(int size, StochasticSettings settings, Progress progress,
+            java.util.function.LongFunction<Voxels> voxels) {
         double[][] samples = new double[settings.runs()][];
         AtomicLong events = new AtomicLong();
         AtomicLong done = new AtomicLong();
@@ -60,8 +90,7 @@ public final class StochasticEnsemble {
                 final int run = r;
                 futures.add(pool.submit(() -> {
                     progress.checkCancelled();
-                    Voxels v = new Voxels(network, domain, outputTimesS, outputPositionsUm, stimuli, observed,
-                            settings.moleculesPerUnitUm3(), seedOf(settings.seed(), run));
+                    Voxels v = voxels.apply(seedOf(settings.seed(), run));
                     samples[run] = v.simulate(progress);
                     events.addAndGet(v.events);
                     progress.report("stochastic runs", done.incrementAndGet(), settings.runs());
@@ -116,8 +145,10 @@ public final class StochasticEnsemble {
     /** One run of the next-subvolume method. */
     static final class Voxels {
         private final ReactionNetwork network;
-        private final CableGrid grid;
+        private final VoxelGraph graph;
         private final int n;
+        /** Neighbour slots per voxel. */
+        private final int degree;
         private final int m;
         private final int reactions;
         private final double[] d;
@@ -135,6 +166,7 @@ public final class StochasticEnsemble {
         private final double[] outputTimes;
         private final int positions;
         private final int[] sampleIndex;
+        private final int[] sampleNext;
         private final double[] sampleWeight;
         private final int observed;
         private final SplittableRandom random;
@@ -149,9 +181,16 @@ public final class StochasticEnsemble {
 
         Voxels(ReactionNetwork network, Domain domain, double[] outputTimesS, double[] outputPositionsUm,
                 List<Stimulus> stimuli, String observedName, double perUnitUm3, long seed) {
+            this(network, VoxelGraph.of(domain, outputPositionsUm, stimuli), outputTimesS, stimuli, observedName,
+                    perUnitUm3, seed);
+        }
+
+        Voxels(ReactionNetwork network, VoxelGraph graph, double[] outputTimesS, List<Stimulus> stimuli,
+                String observedName, double perUnitUm3, long seed) {
             this.network = network.forThread();
-            this.grid = new CableGrid(domain);
-            this.n = grid.n;
+            this.graph = graph;
+            this.n = graph.volume().length;
+            this.degree = graph.neighbours()[0].length;
             this.m = network.speciesCount();
             this.reactions = network.reactions().size();
             this.d = network.diffusionUm2PerS();
@@ -168,12 +207,12 @@ public final class StochasticEnsemble {
             this.stimuli = stimuli;
             this.timeline = new Timeline(outputTimesS, stimuli);
             this.outputTimes = outputTimesS;
-            this.positions = outputPositionsUm.length;
+            this.positions = graph.sampleFrom().length;
             this.observed = network.indexOf(observedName);
             this.random = new SplittableRandom(seed);
             scale = new double[n];
             for (int i = 0; i < n; i++) {
-                scale[i] = grid.volume[i] * perUnitUm3;
+                scale[i] = graph.volume()[i] * perUnitUm3;
             }
             count = new int[m][n];
             restCount = network.initial();
@@ -183,40 +222,24 @@ public final class StochasticEnsemble {
                     count[s][i] = roundUnbiased(init[s] * scale[i]);
                 }
             }
-            sampleIndex = new int[positions];
-            sampleWeight = new double[positions];
-            for (int p = 0; p < positions; p++) {
-                double sx = Math.min(Math.max(outputPositionsUm[p] / grid.h, 0), n - 1);
-                int i = Math.min((int) Math.floor(sx), n - 2);
-                sampleIndex[p] = i;
-                sampleWeight[p] = sx - i;
-            }
+            sampleIndex = graph.sampleFrom();
+            sampleNext = graph.sampleTo();
+            sampleWeight = graph.sampleWeight();
             int k = stimuli.size();
             stimulusSpecies = new int[k];
-            profile = new double[k][];
-            clampMask = new boolean[k][];
             for (int s = 0; s < k; s++) {
                 Stimulus st = stimuli.get(s);
                 stimulusSpecies[s] = network.indexOf(st.species() == null ? observedName : st.species());
                 Checks.require(stimulusSpecies[s] >= 0, "a stimulus names a species the network does not have");
-                if (st.kind() == Stimulus.Kind.CLAMP) {
-                    clampMask[s] = new boolean[n];
-                    for (int i = 0; i < n; i++) {
-                        clampMask[s][i] = !(grid.fixedEnds && (i == 0 || i == n - 1)) && st.clamps(grid.x(i));
-                    }
-                } else {
-                    profile[s] = new double[n];
-                    for (int i = 0; i < n; i++) {
-                        profile[s][i] = grid.fixedEnds && (i == 0 || i == n - 1) ? 0 : st.profile(grid.x(i));
-                    }
-                }
             }
+            profile = graph.profile();
+            clampMask = graph.clampMask();
             injectionOn = new boolean[k];
             clampOn = new boolean[k];
             conc = new double[m];
-            // slots: reactions, then for each species a jump left and a jump right, then injection births
-            // and the fixed-end feed (one slot per species)
-            slots = reactions + 2 * m + m + m;
+            // slots: reactions, then for each species a jump to each neighbour slot, then injection births and the
+            // fixed-end feed (one slot per species)
+            slots = reactions + degree * m + m + m;
             propensity = new double[n * slots];
             total = new double[n];
             eventTime = new double[n];
@@ -230,7 +253,7 @@ public final class StochasticEnsemble {
         }
 
         private boolean fixedEnd(int i) {
-            return grid.fixedEnds && (i == 0 || i == n - 1);
+            return graph.fixed()[i];
         }
 
         double[] simulate(Progress progress) {
@@ -284,8 +307,9 @@ public final class StochasticEnsemble {
                     for (int q = 0; q < positions; q++) {
                         int i = sampleIndex[q];
                         double w = sampleWeight[q];
+                        int next = sampleNext[q];
                         double a = c[i] / scale[i];
-                        double b = c[i + 1] / scale[i + 1];
+                        double b = c[next] / scale[next];
                         out[base + q] = a + w * (b - a);
                     }
                 }
@@ -360,20 +384,19 @@ public final class StochasticEnsemble {
                         count[s][i] = 0;
                     }
                 }
-            } else if (slot < reactions + 2 * m) {
-                int s = (slot - reactions) / 2;
-                boolean right = ((slot - reactions) & 1) == 1;
-                other = right ? i + 1 : i - 1;
+            } else if (slot < reactions + degree * m) {
+                int s = (slot - reactions) / degree;
+                other = graph.neighbours()[i][(slot - reactions) - s * degree];
                 count[s][i]--;
                 if (!fixedEnd(other)) {
                     count[s][other]++;
                 } else {
                     other = -1;
                 }
-            } else if (slot < reactions + 3 * m) {
-                count[slot - reactions - 2 * m][i]++;
+            } else if (slot < reactions + (degree + 1) * m) {
+                count[slot - reactions - degree * m][i]++;
             } else {
-                count[slot - reactions - 3 * m][i]++;
+                count[slot - reactions - (degree + 1) * m][i]++;
             }
             updateRates(i, source);
             eventTime[i] = t + waiting(total[i]);
@@ -416,21 +439,21 @@ public final class StochasticEnsemble {
                 propensity[base + r] = a;
                 sum += a;
             }
+            int[] next = graph.neighbours()[i];
+            double[] coefficient = graph.coefficients()[i];
             for (int s = 0; s < m; s++) {
-                double left = i > 0 ? d[s] * grid.lower[i] * count[s][i] : 0;
-                double right = i < n - 1 ? d[s] * grid.upper[i] * count[s][i] : 0;
-                propensity[base + reactions + 2 * s] = left;
-                propensity[base + reactions + 2 * s + 1] = right;
-                double birth = source[s][i] * scale[i];
-                propensity[base + reactions + 2 * m + s] = birth;
-                double feed = 0;
-                if (grid.fixedEnds && (i == 1 || i == n - 2)) {
-                    // the resting level held at the end feeds molecules in at D x (coefficient) x c_rest x V
-                    double coefficient = i == 1 ? grid.lower[i] : grid.upper[i];
-                    feed = d[s] * coefficient * restCount[s] * scale[i];
+                double jumps = 0;
+                for (int k = 0; k < degree; k++) {
+                    double a = next[k] >= 0 ? d[s] * coefficient[k] * count[s][i] : 0;
+                    propensity[base + reactions + degree * s + k] = a;
+                    jumps += a;
                 }
-                propensity[base + reactions + 3 * m + s] = feed;
-                sum += left + right + birth + feed;
+                double birth = source[s][i] * scale[i];
+                propensity[base + reactions + degree * m + s] = birth;
+                // the resting level held at an open end feeds molecules in at D x (coefficient) x c_rest x V
+                double feed = graph.feed()[i] == 0 ? 0 : d[s] * graph.feed()[i] * restCount[s] * scale[i];
+                propensity[base + reactions + (degree + 1) * m + s] = feed;
+                sum += jumps + birth + feed;
             }
             total[i] = sum;
         }

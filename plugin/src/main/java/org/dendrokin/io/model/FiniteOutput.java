@@ -4,6 +4,7 @@ import java.nio.file.Path;
 
 import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.Simulation;
+import org.dendrokin.core.model.TreeSimulation;
 import org.dendrokin.io.InputException;
 
 /**
@@ -38,6 +39,28 @@ final class FiniteOutput {
                 + k.timeS(frame) + " s (x = " + k.distanceUm(position) + " um) on: the reactions are too stiff for"
                 + " the time step or the concentrations grow without bound; try " + step
                 + ", or check the rate constants and initial values");
+    }
+
+    /** As {@link #require(Path, Simulation.Spec, Simulation.Result)}, for a run on a tree, branch by branch. */
+    static void require(Path modelFile, TreeSimulation.Spec spec, TreeSimulation.Result result) {
+        for (String branch : result.kymographs().keySet()) {
+            Kymograph k = result.kymographs().get(branch);
+            int bad = firstNonFinite(k);
+            if (bad < 0 && result.spreads() != null) {
+                k = result.spreads().get(branch);
+                bad = firstNonFinite(k);
+            }
+            if (bad >= 0) {
+                int frame = bad / k.positionCount();
+                int position = bad % k.positionCount();
+                String step = spec.settings().fixedStepS() > 0 ? "a smaller \"fixed_step_s\" in the \"solver\" block"
+                        : "a \"max_step_s\" (or a smaller \"step_factor\") in the \"solver\" block";
+                throw new InputException(modelFile, "the simulated " + result.species() + " is not a finite number"
+                        + " from t = " + k.timeS(frame) + " s (x = " + k.distanceUm(position) + " um on branch " + branch
+                        + ") on: the reactions are too stiff for the time step or the concentrations grow without"
+                        + " bound; try " + step + ", or check the rate constants and initial values");
+            }
+        }
     }
 
     /** Row-major index of the first NaN or infinite value, or -1. */

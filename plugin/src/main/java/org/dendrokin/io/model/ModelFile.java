@@ -21,6 +21,10 @@ import org.dendrokin.core.model.Simulation;
 import org.dendrokin.core.model.SolverSettings;
 import org.dendrokin.core.model.StochasticSettings;
 import org.dendrokin.core.model.Stimulus;
+import org.dendrokin.core.model.TreeDomain;
+import org.dendrokin.core.model.TreeRun;
+import org.dendrokin.core.model.TreeSimulation;
+import org.dendrokin.core.model.TreeStimulus;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.json.JsonFields;
 import org.dendrokin.io.json.JsonFiles;
@@ -33,12 +37,19 @@ import org.dendrokin.io.text.Numbers;
  * fall back to a default. The file itself is only read.
  */
 public final class ModelFile {
-    /** A parsed model file: what to simulate and, optionally, a movie to make from it. */
-    public record Parsed(Simulation.Spec spec, MovieSettings movie) {
+    /**
+     * A parsed model file: what to simulate, on one cable ({@code spec}) or on a branched tree ({@code tree}; then
+     * {@code spec} is null), and, optionally, a movie to make from a cable's kymograph.
+     */
+    public record Parsed(Simulation.Spec spec, MovieSettings movie, TreeSimulation.Spec tree) {
+        /** A model on one cable. */
+        public Parsed(Simulation.Spec spec, MovieSettings movie) {
+            this(spec, movie, null);
+        }
     }
 
-    private static final Set<String> TOP = Set.of("model", "parameters", "domain", "time", "stimuli", "solver",
-            "output", "network", "sbml", "stochastic", "movie", "description");
+    private static final Set<String> TOP = Set.of("model", "parameters", "domain", "tree", "time", "stimuli",
+            "solver", "output", "network", "sbml", "stochastic", "movie", "description");
 
     private final Path file;
 
@@ -54,45 +65,17 @@ public final class ModelFile {
     private Parsed parse(JsonFields root) {
         root.refuseUnknownKeys(TOP);
         String model = root.string("model");
-        JsonFields domainJson = root.object("domain");
-        domainJson.refuseUnknownKeys(Set.of("length_um", "dx_um", "boundary", "cross_section"));
-        double length = domainJson.positive("length_um");
-        double dx = domainJson.positive("dx_um");
-        String boundaryText = domainJson.has("boundary") ? domainJson.string("boundary") : "no-flux";
-        Boundary boundary = switch (boundaryText) {
-            case "no-flux" -> Boundary.NO_FLUX;
-            case "fixed" -> Boundary.FIXED;
-            default -> throw fail("domain.boundary must be \"no-flux\" or \"fixed\", got \"" + boundaryText + "\"");
-        };
-        if (dx > length / 2) {
-            throw fail("domain.dx_um (" + num(dx) + " um) must be at most half of domain.length_um (" + num(length)
-                    + " um)");
+        if (root.has("tree") && root.has("domain")) {
+            throw fail("give either domain (one cable) or tree (branches joined at junctions), not both");
         }
-        if (length / dx > 2_000_000) {
-            throw fail("domain.dx_um (" + num(dx) + " um) makes more than two million grid nodes; use a coarser grid");
+        if (!root.has("tree") && !root.has("domain")) {
+            throw fail("domain is missing: give domain (one cable) or tree (branches joined at junctions)");
         }
-        CrossSection cs = CrossSection.UNIFORM;
-        if (domainJson.has("cross_section")) {
-            List<JsonFields> sections = domainJson.objects("cross_section");
-            double[] pos = new double[sections.size()];
-            double[] area = new double[sections.size()];
-            for (int i = 0; i < sections.size(); i++) {
-                String key = "domain.cross_section[" + i + "]";
-                JsonFields o = sections.get(i);
-                o.refuseUnknownKeys(Set.of("position_um", "area_um2"));
-                pos[i] = o.number("position_um");
-                area[i] = o.positive("area_um2");
-                if (i > 0 && pos[i] <= pos[i - 1]) {
-                    throw fail(key + ".position_um must be larger than the one before it");
-                }
-            }
-            if (pos.length == 0) {
-                throw fail("domain.cross_section is empty");
-            }
-            cs = CrossSection.of(pos, area);
-        }
-        Domain domain = new Domain(length, dx, boundary, cs);
-        double h = domain.spacingUm();
+        TreeBlock trees = new TreeBlock(file, this::stimulus);
+        TreeDomain treeDomain = root.has("tree") ? trees.tree(root.object("tree")) : null;
+        Domain domain = treeDomain == null ? domain(root) : null;
+        double length = domain != null ? domain.lengthUm() : Double.NaN;
+        double h = domain != null ? domain.spacingUm() : treeDomain.smallestSpacingUm();
 
         JsonFields time = root.object("time");
         time.refuseUnknownKeys(Set.of("duration_s", "output_interval_s"));
@@ -108,14 +91,18 @@ public final class ModelFile {
 
         String observed = null;
         double[] positions = null;
+        Map<String, double[]> branchPositions = null;
         if (root.has("output")) {
             JsonFields out = root.object("output");
-            out.refuseUnknownKeys(Set.of("dx_um", "species"));
+            out.refuseUnknownKeys(treeDomain != null ? Set.of("dx_um", "species", "branches")
+                    : Set.of("dx_um", "species"));
             if (out.has("species")) {
                 observed = out.string("species");
             }
-            if (out.has("dx_um")) {
-                double step = out.positive("dx_um");
+            Double step = out.has("dx_um") ? out.positive("dx_um") : null;
+            if (treeDomain != null) {
+                branchPositions = trees.output(out, step, treeDomain);
+            } else if (step != null) {
                 if (length / step > 2_000_000) {
                     throw fail("output.dx_um (" + num(step) + " um) gives more than two million output positions; use a"
                             + " coarser output grid");
@@ -127,7 +114,10 @@ public final class ModelFile {
                 }
             }
         }
-        if (positions == null) {
+        if (treeDomain != null && branchPositions == null) {
+            branchPositions = TreeRun.nodePositions(treeDomain);
+        }
+        if (domain != null && positions == null) {
             positions = new double[domain.nodeCount()];
             for (int i = 0; i < positions.length; i++) {
                 positions[i] = domain.nodeUm(i);
@@ -135,10 +125,16 @@ public final class ModelFile {
         }
 
         List<Stimulus> stimuli = new ArrayList<>();
+        List<TreeStimulus> treeStimuli = new ArrayList<>();
         if (root.has("stimuli")) {
             List<JsonFields> given = root.objects("stimuli");
             for (int i = 0; i < given.size(); i++) {
-                stimuli.add(stimulus(given.get(i), "stimuli[" + i + "]", length, h));
+                String key = "stimuli[" + i + "]";
+                if (treeDomain == null) {
+                    stimuli.add(stimulus(given.get(i), key, length, h, Set.of()));
+                } else {
+                    treeStimuli.add(trees.stimulus(given.get(i), key, treeDomain));
+                }
             }
         }
 
@@ -239,8 +235,16 @@ public final class ModelFile {
             }
             stochastic = new StochasticSettings(runs, seed, threads, per);
         }
+        if (treeDomain != null && root.has("movie")) {
+            throw fail("movie is made from one cable's kymograph; a tree has no picture of its shape to render, so"
+                    + " remove the movie block or simulate one cable");
+        }
         MovieSettings movie = root.has("movie") ? MovieSettings.read(root.object("movie")) : null;
         try {
+            if (treeDomain != null) {
+                return new Parsed(null, null, new TreeSimulation.Spec(model, parameters, network, observed, treeDomain,
+                        duration, interval, branchPositions, treeStimuli, settings, stochastic));
+            }
             return new Parsed(new Simulation.Spec(model, parameters, network, observed, domain, duration, interval,
                     positions, stimuli, settings, stochastic), movie);
         } catch (IllegalArgumentException e) {
@@ -300,8 +304,11 @@ public final class ModelFile {
         return names.isEmpty() ? last : String.join(", ", names) + " or " + last;
     }
 
-    private Stimulus stimulus(JsonFields o, String key, double length, double h) {
-        o.refuseUnknownKeys(Set.of("kind", "time_s", "position_um", "width_um", "amount", "duration_s", "species"));
+    private Stimulus stimulus(JsonFields o, String key, double length, double h, Set<String> moreKeys) {
+        Set<String> known = new java.util.HashSet<>(Set.of("kind", "time_s", "position_um", "width_um", "amount",
+                "duration_s", "species"));
+        known.addAll(moreKeys);
+        o.refuseUnknownKeys(known);
         String kind = o.has("kind") ? o.string("kind") : "pulse";
         double t = o.number("time_s");
         if (t < 0) {
@@ -309,7 +316,8 @@ public final class ModelFile {
         }
         double x = o.number("position_um");
         if (x < 0 || x > length) {
-            throw fail(key + ".position_um (" + num(x) + " um) lies outside the domain (0 to " + num(length) + " um)");
+            throw fail(key + ".position_um (" + num(x) + " um) lies outside the " + (moreKeys.isEmpty() ? "domain"
+                    : "branch") + " (0 to " + num(length) + " um)");
         }
         double width = o.positive("width_um");
         double amount = o.number("amount");
@@ -329,13 +337,56 @@ public final class ModelFile {
         }
         if (!kind.equals("clamp") && width < h / 2) {
             throw fail(key + ".width_um (" + num(width) + " um) is narrower than half the grid spacing (" + num(h)
-                    + " um), so the grid cannot represent the stimulus; use a smaller domain.dx_um");
+                    + " um), so the grid cannot represent the stimulus; use a smaller " + (moreKeys.isEmpty()
+                    ? "domain.dx_um" : "tree.dx_um"));
         }
         if (kind.equals("clamp") && width < h / 2) {
             throw fail(key + ".width_um (" + num(width) + " um) is less than half the grid spacing (" + num(h)
                     + " um), so the clamp holds no grid node");
         }
         return species == null ? s : s.onSpecies(species);
+    }
+
+    /** The cable of {@code domain}. */
+    private Domain domain(JsonFields root) {
+        JsonFields domainJson = root.object("domain");
+        domainJson.refuseUnknownKeys(Set.of("length_um", "dx_um", "boundary", "cross_section"));
+        double length = domainJson.positive("length_um");
+        double dx = domainJson.positive("dx_um");
+        String boundaryText = domainJson.has("boundary") ? domainJson.string("boundary") : "no-flux";
+        Boundary boundary = switch (boundaryText) {
+            case "no-flux" -> Boundary.NO_FLUX;
+            case "fixed" -> Boundary.FIXED;
+            default -> throw fail("domain.boundary must be \"no-flux\" or \"fixed\", got \"" + boundaryText + "\"");
+        };
+        if (dx > length / 2) {
+            throw fail("domain.dx_um (" + num(dx) + " um) must be at most half of domain.length_um (" + num(length)
+                    + " um)");
+        }
+        if (length / dx > 2_000_000) {
+            throw fail("domain.dx_um (" + num(dx) + " um) makes more than two million grid nodes; use a coarser grid");
+        }
+        CrossSection cs = CrossSection.UNIFORM;
+        if (domainJson.has("cross_section")) {
+            List<JsonFields> sections = domainJson.objects("cross_section");
+            double[] pos = new double[sections.size()];
+            double[] area = new double[sections.size()];
+            for (int i = 0; i < sections.size(); i++) {
+                String key = "domain.cross_section[" + i + "]";
+                JsonFields o = sections.get(i);
+                o.refuseUnknownKeys(Set.of("position_um", "area_um2"));
+                pos[i] = o.number("position_um");
+                area[i] = o.positive("area_um2");
+                if (i > 0 && pos[i] <= pos[i - 1]) {
+                    throw fail(key + ".position_um must be larger than the one before it");
+                }
+            }
+            if (pos.length == 0) {
+                throw fail("domain.cross_section is empty");
+            }
+            cs = CrossSection.of(pos, area);
+        }
+        return new Domain(length, dx, boundary, cs);
     }
 
     private ReactionNetwork network(JsonFields o) {

@@ -6,8 +6,10 @@ import java.io.Reader;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 import java.util.zip.ZipEntry;
 import java.util.zip.ZipInputStream;
 
@@ -68,6 +70,49 @@ public final class PathFiles {
         }
         throw new InputException(file, "the path must be an ImageJ .roi file, a .zip ROI set or a .csv file with "
                 + "columns x,y");
+    }
+
+    /**
+     * Reads every line ROI of a {@code .zip} ROI set, for a branched session: by name (the ROI's own name, else its
+     * entry name without {@code .roi}), in the set's order. Area and point ROIs are skipped.
+     *
+     * @param file the ROI set; never written
+     * @throws InputException naming the file when it cannot be read, holds fewer than two lines or repeats a name
+     */
+    public static Map<String, DendritePath> readLines(Path file) {
+        if (!Files.isRegularFile(file) || !Files.isReadable(file)) {
+            throw new InputException(file, "the path file does not exist or cannot be read");
+        }
+        if (!file.getFileName().toString().toLowerCase(Locale.ROOT).endsWith(".zip")) {
+            throw new InputException(file, "a branched session's lines must come as a .zip ROI set (or as a list of "
+                    + "files in \"tree\": {\"paths\": [...]})");
+        }
+        Map<String, DendritePath> out = new LinkedHashMap<>();
+        try (InputStream in = Files.newInputStream(file); ZipInputStream zip = new ZipInputStream(in)) {
+            ZipEntry entry;
+            while ((entry = zip.getNextEntry()) != null) {
+                if (entry.isDirectory() || !entry.getName().toLowerCase(Locale.ROOT).endsWith(".roi")) {
+                    continue;
+                }
+                Roi roi = decode(file, zip.readAllBytes(), entry.getName());
+                if (!isLine(roi)) {
+                    continue;
+                }
+                String base = entry.getName().substring(0, entry.getName().length() - 4);
+                String label = roi.getName() != null ? roi.getName() : base;
+                if (out.put(label, fromRoi(file, roi)) != null) {
+                    throw new InputException(file, "the ROI set holds two line ROIs named \"" + label + "\"; give "
+                            + "each branch its own name");
+                }
+            }
+        } catch (IOException e) {
+            throw new InputException(file, "the ROI set could not be read as a zip file (" + e.getMessage() + ")", e);
+        }
+        if (out.size() < 2) {
+            throw new InputException(file, "a branched session needs at least two line ROIs, and the ROI set holds "
+                    + out.size());
+        }
+        return out;
     }
 
     private static byte[] readBytes(Path file) {

@@ -52,6 +52,17 @@ public final class ReportHtml {
     /** Writes the report, with a spine section ({@link SpineOutputs#section}) when spines were analysed (or null). */
     public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures,
             SpineOutcome spines) {
+        write(target, in, a, pictures, spines, "");
+    }
+
+    /**
+     * Writes the report with the spine section (when {@code spines} is not null) and an extra section (HTML) after
+     * the fits, e.g. a branched session's tree.
+     *
+     * @param extraHtml inserted before the warnings; empty for none
+     */
+    public static void write(Path target, SessionInputs in, AnalysisResult a, List<Picture> pictures,
+            SpineOutcome spines, String extraHtml) {
         String session = in.sessionName();
         Kymograph signal = a.signal();
         Preprocessing.Result pre = a.preprocessing();
@@ -157,6 +168,7 @@ public final class ReportHtml {
         if (spines != null) {
             h.append(SpineOutputs.section(spines));
         }
+        h.append(extraHtml);
 
         h.append("<h2>Warnings</h2>\n");
         List<String> warnings = Stream.concat(in.warnings().stream(), a.warnings().stream()).map(Warning::text)

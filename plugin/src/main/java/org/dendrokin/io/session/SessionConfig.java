@@ -93,7 +93,7 @@ public record SessionConfig(String movie, String path, String pathRoiName, doubl
     private static final Set<String> KEYS = Set.of("movie", "path", "path_roi_name", "path_width_um", "pixel_size_um",
             "frame_interval_s", "stimulus", "stimuli", "train_gap_s", "baseline_frames", "background", "calibration",
             "models", "bleach_correction", "fit", "description", "notes", "group", "channel", "structural_channel",
-            "normalisation", "motion", "z", "line_period_s", "lines_per_frame", SpineConfig.KEY);
+            "normalisation", "motion", "z", "line_period_s", "lines_per_frame", SpineConfig.KEY, "tree");
     private static final Set<String> FIT_KEYS = Set.of("criterion", "profiles", "bootstrap_replicates", "seed",
             "free_stimulus", "sealed_ends");
     private static final Set<String> STIMULUS_KEYS = Set.of("time_s", "position_um", "x_px", "y_px");

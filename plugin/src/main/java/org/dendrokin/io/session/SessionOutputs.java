@@ -6,11 +6,13 @@ import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.List;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.analysis.AnalysisResult;
 import org.dendrokin.core.analysis.SpineOutcome;
+import org.dendrokin.core.analysis.TreeSessionAnalysis;
 import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.io.AtomicFiles;
 import org.dendrokin.io.InputException;
@@ -76,6 +78,18 @@ public final class SessionOutputs {
      */
     public static Path write(Path outDir, SessionInputs in, AnalysisResult a, SpineOutcome spines,
             Progress progress) {
+        return write(outDir, in, a, spines, null, progress);
+    }
+
+    /**
+     * Writes every output, with the spines' when they were analysed and those of a branched session's tree ({@link
+     * TreeSessionOutputs}) when there is one.
+     *
+     * @param spines the spine analysis, or null when the session did not ask for one
+     * @param tree   the branched part, or null for a single-path session
+     */
+    public static Path write(Path outDir, SessionInputs in, AnalysisResult a, SpineOutcome spines,
+            TreeSessionAnalysis.Result tree, Progress progress) {
         progress.report("writing results", 0, 1);
         try {
             Files.createDirectories(outDir);
@@ -94,9 +108,16 @@ public final class SessionOutputs {
         if (spines != null) {
             pictures.add(SpineOutputs.write(outDir, spines));
         }
-        ResultsJson.write(ResultsJson.build(in, a, KYMOGRAPH_CSV, spines), outDir.resolve(ResultsJson.FILE_NAME));
+        if (tree != null) {
+            pictures.addAll(TreeSessionOutputs.write(outDir, tree));
+        }
+        com.google.gson.JsonObject results = ResultsJson.build(in, a, KYMOGRAPH_CSV, spines);
+        if (tree != null) {
+            results.add(TreeSession.KEY, TreeSessionOutputs.json(tree));   // the "tree" section, last
+        }
+        ResultsJson.write(results, outDir.resolve(ResultsJson.FILE_NAME));
         Path report = outDir.resolve(REPORT_HTML);
-        ReportHtml.write(report, in, a, pictures, spines);
+        ReportHtml.write(report, in, a, pictures, spines, tree == null ? "" : TreeSessionOutputs.html(tree));
         progress.report("writing results", 1, 1);
         return report;
     }
