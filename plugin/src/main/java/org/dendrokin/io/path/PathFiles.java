@@ -141,7 +141,7 @@ public final class PathFiles {
         }
         Roi roi;
         try {
-            roi = new RoiDecoder(bytes, entry).getRoi();
+            roi = new RoiDecoder(RoiBytes.withoutGroup(bytes), entry).getRoi();
         } catch (IOException | RuntimeException e) {
             roi = null;
         }

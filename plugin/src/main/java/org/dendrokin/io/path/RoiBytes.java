@@ -11,7 +11,7 @@ import java.nio.ByteOrder;
  * length is compared with the file's size. The offsets are those of ImageJ's format (ImageJ 1.54,
  * {@code ij.io.RoiDecoder}; big-endian fields; a 64-byte header, an optional 64-byte second header).
  */
-final class RoiBytes {
+public final class RoiBytes {
     private static final int HEADER = 64;
     private static final int VERSION = 4;
     private static final int TYPE = 6;
@@ -27,6 +27,7 @@ final class RoiBytes {
     private static final int PROPS_OFFSET = 40;
     private static final int PROPS_LENGTH = 44;
     private static final int COUNTERS_OFFSET = 48;
+    private static final int GROUP = 30;
     private static final int SUB_PIXEL_RESOLUTION = 128;
     private static final int SUBTYPE_TEXT = 1;
     private static final int SUBTYPE_IMAGE = 4;
@@ -34,6 +35,23 @@ final class RoiBytes {
     private static final int[] VERTEX_TYPES = {0, 4, 5, 7, 8, 9, 10};
 
     private RoiBytes() {
+    }
+
+    /**
+     * A copy of the bytes with the ROI's group (a byte of the second header that only colours the ROI in ImageJ's
+     * display) set to none: for a group, ImageJ's decoder looks up a colour table that a headless installation does
+     * not have and prints "LUT not found" to the terminal. The group means nothing for a path or a spine, so it is
+     * dropped before decoding.
+     */
+    public static byte[] withoutGroup(byte[] bytes) {
+        byte[] copy = bytes.clone();
+        if (copy.length >= HEADER) {
+            int header2 = ByteBuffer.wrap(copy).order(ByteOrder.BIG_ENDIAN).getInt(HEADER2_OFFSET);
+            if (header2 > 0 && (long) header2 + GROUP < copy.length) {
+                copy[header2 + GROUP] = 0;
+            }
+        }
+        return copy;
     }
 
     /**

@@ -17,6 +17,7 @@ import org.dendrokin.core.spines.SpineSite;
 import org.dendrokin.io.InputException;
 import org.dendrokin.io.json.JsonFields;
 import org.dendrokin.io.json.JsonFiles;
+import org.dendrokin.io.path.RoiBytes;
 import org.dendrokin.io.text.TextFiles;
 
 import ij.gui.Roi;
@@ -165,7 +166,7 @@ public final class SpineConfig {
     private static Roi decode(Path file, byte[] bytes, String entry) {
         Roi roi;
         try {
-            roi = new RoiDecoder(bytes, entry).getRoi();
+            roi = new RoiDecoder(RoiBytes.withoutGroup(bytes), entry).getRoi();
         } catch (IOException | RuntimeException e) {
             roi = null;
         }
