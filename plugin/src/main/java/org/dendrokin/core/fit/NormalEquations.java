@@ -102,4 +102,40 @@ public final class NormalEquations {
         }
         return true;
     }
+
+    /**
+     * Sums the weighted normal equations of a model that evaluates ranges of its grid ({@link
+     * FitModel#evaluateRange}), one block of points at a time, so that no n x p Jacobian is kept: the
+     * {@link FitModel#normalEquations} of models that wrap another one.
+     *
+     * @param model  the model; {@link FitModel#hasRangeEvaluation()} must be true
+     * @param theta  natural parameter values. Not modified.
+     * @param data   observations on the model's grid. Not modified.
+     * @param out    cleared and filled. Modified.
+     * @param fitted if not null, receives the prediction at every grid point. Modified.
+     * @param block  points per block, at least 1
+     */
+    public static void sumByBlocks(FitModel model, double[] theta, FitData data, NormalEquations out, double[] fitted,
+                                   int block) {
+        out.clear();
+        int p = model.parameters().size();
+        double[] values = new double[block];
+        double[] jac = new double[block * p];
+        double[] row = new double[p];
+        for (int from = 0; from < model.size(); from += block) {
+            int to = Math.min(model.size(), from + block);
+            model.evaluateRange(theta, from, to, values, jac);
+            for (int i = from; i < to; i++) {
+                double v = values[i - from];
+                if (fitted != null) {
+                    fitted[i] = v;
+                }
+                double w = data.weight(i);
+                if (w > 0) {
+                    System.arraycopy(jac, (i - from) * p, row, 0, p);
+                    out.addPoint(row, w, data.observed(i) - v);
+                }
+            }
+        }
+    }
 }

@@ -116,27 +116,7 @@ public final class ResidualBleaching implements FitModel {
     /** One pass over the grid in blocks of the range evaluation, summing the weighted normal equations. */
     @Override
     public void normalEquations(double[] theta, FitData data, NormalEquations out, double[] fitted) {
-        out.clear();
-        int p = specs.size();
-        int block = 4096;
-        double[] values = new double[block];
-        double[] jac = new double[block * p];
-        double[] row = new double[p];
-        for (int from = 0; from < size(); from += block) {
-            int to = Math.min(size(), from + block);
-            evaluateRange(theta, from, to, values, jac);
-            for (int i = from; i < to; i++) {
-                double v = values[i - from];
-                if (fitted != null) {
-                    fitted[i] = v;
-                }
-                double w = data.weight(i);
-                if (w > 0) {
-                    System.arraycopy(jac, (i - from) * p, row, 0, p);
-                    out.addPoint(row, w, data.observed(i) - v);
-                }
-            }
-        }
+        NormalEquations.sumByBlocks(this, theta, data, out, fitted, 4096);
     }
 
     @Override

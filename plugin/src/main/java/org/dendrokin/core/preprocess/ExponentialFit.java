@@ -61,24 +61,10 @@ public final class ExponentialFit {
      * @throws IllegalArgumentException with fewer than 3 finite points
      */
     public static Result fit(double[] t, double[] y, double tRef) {
-        Checks.sameLength(t.length, y);
-        int m = 0;
-        for (int i = 0; i < t.length; i++) {
-            if (Double.isFinite(t[i]) && Double.isFinite(y[i])) {
-                m++;
-            }
-        }
-        Checks.require(m >= 3, "an exponential fit needs at least 3 points, got " + m);
-        double[] ts = new double[m];
-        double[] ys = new double[m];
-        int k = 0;
-        for (int i = 0; i < t.length; i++) {
-            if (Double.isFinite(t[i]) && Double.isFinite(y[i])) {
-                ts[k] = t[i] - tRef;
-                ys[k] = y[i];
-                k++;
-            }
-        }
+        double[][] points = finitePoints(t, y, tRef, 3, "an exponential fit");
+        double[] ts = points[0];
+        double[] ys = points[1];
+        int m = ts.length;
         double[] start = logLinearStart(ts, ys);
         LeastSquaresOptimizer.Optimum optimum;
         boolean converged = true;
@@ -148,24 +134,10 @@ public final class ExponentialFit {
      * @throws IllegalArgumentException with fewer than 6 finite points
      */
     public static TwoPhases fitTwo(double[] t, double[] y, double tRef) {
-        Checks.sameLength(t.length, y);
-        int m = 0;
-        for (int i = 0; i < t.length; i++) {
-            if (Double.isFinite(t[i]) && Double.isFinite(y[i])) {
-                m++;
-            }
-        }
-        Checks.require(m >= 6, "a two-exponential fit needs at least 6 points, got " + m);
-        double[] ts = new double[m];
-        double[] ys = new double[m];
-        int k = 0;
-        for (int i = 0; i < t.length; i++) {
-            if (Double.isFinite(t[i]) && Double.isFinite(y[i])) {
-                ts[k] = t[i] - tRef;
-                ys[k] = y[i];
-                k++;
-            }
-        }
+        double[][] points = finitePoints(t, y, tRef, 6, "a two-exponential fit");
+        double[] ts = points[0];
+        double[] ys = points[1];
+        int m = ts.length;
         Result one = fit(t, y, tRef);
         double r = one.rate() > 0 ? one.rate() : 1.0 / Math.max(1e-9, ts[m - 1] - ts[0]);
         double[] start = {one.amplitude(), 0.3, 5 * r, 0.5 * r};
@@ -208,6 +180,33 @@ public final class ExponentialFit {
         double tq = dof > 0 ? new TDistribution(dof).inverseCumulativeProbability(0.975) : Double.NaN;
         return new TwoPhases(p[0], p[1], p[2], p[3], se1, se2, tq, Math.sqrt(chi2 / m),
                 converged && phases && Double.isFinite(se1) && Double.isFinite(se2));
+    }
+
+    /**
+     * The finite (t, y) pairs, times taken from tRef: {times, values}.
+     *
+     * @throws IllegalArgumentException with fewer than {@code least} such pairs
+     */
+    private static double[][] finitePoints(double[] t, double[] y, double tRef, int least, String what) {
+        Checks.sameLength(t.length, y);
+        int m = 0;
+        for (int i = 0; i < t.length; i++) {
+            if (Double.isFinite(t[i]) && Double.isFinite(y[i])) {
+                m++;
+            }
+        }
+        Checks.require(m >= least, what + " needs at least " + least + " points, got " + m);
+        double[] ts = new double[m];
+        double[] ys = new double[m];
+        int k = 0;
+        for (int i = 0; i < t.length; i++) {
+            if (Double.isFinite(t[i]) && Double.isFinite(y[i])) {
+                ts[k] = t[i] - tRef;
+                ys[k] = y[i];
+                k++;
+            }
+        }
+        return new double[][] {ts, ys};
     }
 
     private static Pair<org.apache.commons.math3.linear.RealVector, RealMatrix> twoModel(
