@@ -331,16 +331,7 @@ public final class EngineFitModel implements FitModel {
             }
             chi += w * r * r;
         }
-        double[] part = new double[np * np + np + 1];
-        for (int x = 0; x < np; x++) {
-            for (int y = x; y < np; y++) {
-                part[x * np + y] = a[x * np + y];
-                part[y * np + x] = a[x * np + y];
-            }
-        }
-        System.arraycopy(g, 0, part, np * np, np);
-        part[np * np + np] = chi;
-        return part;
+        return NormalEquations.pack(a, g, chi, np);
     }
 
     /** {@link #sums} for three engine parameters (Nagumo), the sums kept in local variables. */

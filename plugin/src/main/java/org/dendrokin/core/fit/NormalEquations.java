@@ -55,6 +55,29 @@ public final class NormalEquations {
     }
 
     /**
+     * Packs a partial sum in the layout {@link #addPacked} reads, from the upper triangle of A that a block sweep
+     * fills (the lower triangle is mirrored from it).
+     *
+     * @param upper A row-major (p x p), only its upper triangle read. Not modified.
+     * @param g     the gradient, length p. Not modified.
+     * @param chi   the weighted sum of squared residuals
+     * @param p     the number of parameters
+     * @return length p^2 + p + 1
+     */
+    public static double[] pack(double[] upper, double[] g, double chi, int p) {
+        double[] part = new double[p * p + p + 1];
+        for (int x = 0; x < p; x++) {
+            for (int y = x; y < p; y++) {
+                part[x * p + y] = upper[x * p + y];
+                part[y * p + x] = upper[x * p + y];
+            }
+        }
+        System.arraycopy(g, 0, part, p * p, p);
+        part[p * p + p] = chi;
+        return part;
+    }
+
+    /**
      * Adds a partial sum (for instance one block of frames) packed in one array: A row-major (p x p), then g (p), then chi^2, the layout the models'
      * block sweeps fill.
      *

@@ -371,16 +371,7 @@ public final class TreeFitModel implements FitModel {
             }
             chi += w * res * res;
         }
-        double[] part = new double[m * m + m + 1];
-        for (int x = 0; x < m; x++) {
-            for (int y = x; y < m; y++) {
-                part[x * m + y] = a[x * m + y];
-                part[y * m + x] = a[x * m + y];
-            }
-        }
-        System.arraycopy(g, 0, part, m * m, m);
-        part[m * m + m] = chi;
-        return part;
+        return NormalEquations.pack(a, g, chi, m);
     }
 
     private record Runs(double[] u, double[][] shifted, double[] step, double[][] buffers) {
