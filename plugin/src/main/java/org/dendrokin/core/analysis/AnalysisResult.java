@@ -97,9 +97,13 @@ public record AnalysisResult(Movie movie, Extraction extraction, Background back
      * @param alongPath   grey value added at each position along the path, or null when the background is the same
      *                    all along
      * @param value       a representative value (the given one, the estimate, or the median over frames)
+     * @param uncertainty standard deviation of the background's error under the path, grey values, when it was
+     *                    estimated from the data (the spread of the background across the field); NaN when the
+     *                    value or region was given
      * @param description one or two sentences for the report
      */
-    public record Background(double[] perFrame, double[] alongPath, double value, String description) {
+    public record Background(double[] perFrame, double[] alongPath, double value, double uncertainty,
+                             String description) {
         public Background {
             perFrame = perFrame.clone();
             alongPath = alongPath == null ? null : alongPath.clone();
@@ -107,7 +111,12 @@ public record AnalysisResult(Movie movie, Extraction extraction, Background back
 
         /** One level for every position. */
         public Background(double[] perFrame, double value, String description) {
-            this(perFrame, null, value, description);
+            this(perFrame, null, value, Double.NaN, description);
+        }
+
+        /** True when the background was estimated from the data and its uncertainty is known. */
+        public boolean hasUncertainty() {
+            return Double.isFinite(uncertainty) && uncertainty > 0;
         }
 
         @Override

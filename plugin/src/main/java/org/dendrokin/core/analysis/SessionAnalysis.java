@@ -6,7 +6,9 @@ import java.util.List;
 import java.util.Locale;
 
 import org.dendrokin.core.Progress;
+import org.dendrokin.core.calib.SignalKind;
 import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.InputUncertainty;
 import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.kymo.Extraction;
 import org.dendrokin.core.kymo.LineTiming;
@@ -35,6 +37,8 @@ public final class SessionAnalysis {
     static final double BESIDE_DEPTH_UM = 2.0;
     /** Half-length along the path over which the background beside it is pooled, um. */
     static final double BESIDE_WINDOW_UM = 2.5;
+    /** Stretches of the path whose background errors count as independent, um (twice the beside window). */
+    static final double BACKGROUND_BLOCK_UM = 2 * BESIDE_WINDOW_UM;
     /** Frames averaged for the reference image of the path picture. */
     private static final int REFERENCE_FRAMES = 10;
 
@@ -128,7 +132,11 @@ public final class SessionAnalysis {
             outcomes.addAll(laterStimuli(change, stimuli, warnings));
         }
         List<SkippedModel> skipped = new ArrayList<>();
-        KymographFits.Outcome fits = fit(request.fits(), fitted, pre, spread, skipped, warnings, progress);
+        InputUncertainty bgUncertainty = stimulus.known()
+                ? backgroundUncertainty(request, extraction.kymograph(), background, options, pre, fitted, progress)
+                : null;
+        KymographFits.Outcome fits = fit(request.fits(), fitted, pre, spread, bgUncertainty, skipped, warnings,
+                progress);
         Headline headline = Headline.choose(spread, fits, warnings);
 
         AnalysisResult.Movie movie = new AnalysisResult.Movie(frames.width(), frames.height(), frames.frameCount(),
@@ -199,8 +207,9 @@ public final class SessionAnalysis {
      * {@code skipped}. Models the user names are always fitted.
      */
     private static KymographFits.Outcome fit(FitRequest request, Kymograph signal, Preprocessing.Result pre,
-                                             SpreadAnalysis.Result spread, List<SkippedModel> skipped,
-                                             List<Warning> warnings, Progress progress) {
+                                             SpreadAnalysis.Result spread, InputUncertainty bgUncertainty,
+                                             List<SkippedModel> skipped, List<Warning> warnings,
+                                             Progress progress) {
         Preprocessing.Stimulus stimulus = pre.stimulus();
         if (!stimulus.known()) {
             warnings.add(new Warning(Warning.Topic.FIT, "No model was fitted: the stimulus time and position are not "
@@ -223,7 +232,8 @@ public final class SessionAnalysis {
                 .withModels(models)
                 .withCriterion(request.criterion())
                 .withFreeStimulus(request.freeStimulus(), request.freeStimulus())
-                .withSealedEnds(request.sealedEnds());
+                .withSealedEnds(request.sealedEnds())
+                .withInputUncertainty(bgUncertainty);
         setup = setup.withOptions(setup.options().withProfiles(request.profiles())
                 .withBootstrap(request.bootstrapReplicates(), request.seed()));
         if (pre.baselineLast() >= pre.baselineFirst()) {
@@ -248,6 +258,57 @@ public final class SessionAnalysis {
             }
         }
         return outcome;
+    }
+
+    /**
+     * The background's uncertainty as shifts of the fitted signal, or null when it is not known (a given value or
+     * region) or the signal is not made from one channel's intensity alone (a ratio, a lifetime, a structural
+     * normalisation). The path is cut into stretches of {@value #BACKGROUND_BLOCK_UM} um, twice the estimate's
+     * window, within which the errors of the estimate are shared, and between which they are taken as independent;
+     * for each stretch the analysis from the background on (subtraction, bleaching correction, F0, calibration) is
+     * run again with the background raised there by its uncertainty, and the change of the signal is one shift.
+     */
+    static InputUncertainty backgroundUncertainty(AnalysisRequest request, Kymograph raw,
+                                                  AnalysisResult.Background background, Preprocessing.Options options,
+                                                  Preprocessing.Result pre, Kymograph fitted, Progress progress) {
+        CalibrationRequest cal = request.calibration();
+        boolean oneChannel = request.denominator() == null && request.normalisation() == Normalisation.NONE
+                && (!cal.calibrates() || cal.calibration().input() == SignalKind.INTENSITY
+                        || cal.calibration().input() == SignalKind.DF_F0);
+        if (!background.hasUncertainty() || !oneChannel) {
+            return null;
+        }
+        int nx = raw.positionCount();
+        double[] along = background.alongPath() != null ? background.alongPath() : new double[nx];
+        Preprocessing.Options fixed = new Preprocessing.Options(pre.stimulus().timeS(), pre.stimulus().positionUm(),
+                new int[] {pre.baselineFirst(), pre.baselineLast()}, options.bleachCorrection());
+        double[] base = fitted.values();
+        int blockSamples = Math.max(1, (int) Math.round(BACKGROUND_BLOCK_UM / raw.distanceStepUm()));
+        List<double[]> shifts = new ArrayList<>();
+        for (int from = 0; from < nx; from += blockSamples) {
+            progress.checkCancelled();
+            double[] raised = along.clone();
+            for (int p = from; p < Math.min(nx, from + blockSamples); p++) {
+                raised[p] += background.uncertainty();
+            }
+            Kymograph again;
+            try {
+                Preprocessing.Result p2 = Preprocessing.run(raw, background.perFrame(), raised, fixed);
+                again = CalibrationStage.apply(cal, p2.bleach().corrected(), p2.deltaF().kymograph(), null,
+                        p2.baselineFirst(), p2.baselineLast()).signal();
+            } catch (RuntimeException e) {
+                // a background raised this far leaves no usable signal: the uncertainty cannot be carried
+                return null;
+            }
+            double[] moved = again.values();
+            double[] shift = new double[base.length];
+            for (int g = 0; g < base.length; g++) {
+                double d = moved[g] - base[g];
+                shift[g] = Double.isFinite(d) ? d : 0;
+            }
+            shifts.add(shift);
+        }
+        return new InputUncertainty("background", shifts);
     }
 
     /** The ratio kymograph: each channel minus its own background, numerator over denominator. */
@@ -321,15 +382,21 @@ public final class SessionAnalysis {
         double[] beside = BackgroundEstimator.besidePath(frames, extraction.xPx(), extraction.yPx(), inner, outer,
                 halfWindow, picks, progress);
         if (beside.length == 0 || !Double.isFinite(beside[0])) {
-            return new AnalysisResult.Background(constant(est.value(), n), est.value(), est.description());
+            return new AnalysisResult.Background(constant(est.value(), n), null, est.value(), est.spread(),
+                    est.description() + String.format(Locale.ROOT, " Its uncertainty under the path is taken as the "
+                            + "background's spread across the field, %.3g (robust SD).", est.spread()));
         }
         double median = Robust.median(beside);
-        return new AnalysisResult.Background(new double[n], beside, median, String.format(Locale.ROOT, "Estimated "
-                + "from the data beside the path, position by position: the %.0fth percentile of the pixels %.3g to "
-                + "%.3g um from the path within %.3g um along it, averaged over %d frames (the value shown is the "
-                + "median along the path; far from the path the %s).", BackgroundEstimator.PERCENTILE,
+        return new AnalysisResult.Background(new double[n], beside, median, est.spread(), String.format(Locale.ROOT,
+                "Estimated from the data beside the path, position by position: the mean of the medians on the two "
+                + "sides of the pixels %.3g to %.3g um from the path within %.3g um along it, averaged over %d frames "
+                + "(the value shown is the median along the path). Far from the path, the %.0fth percentile of %d "
+                + "pixels is %.4g. The background under the path is not seen: its uncertainty is taken as the "
+                + "background's spread across the field, %.3g (robust SD of those pixels), and carried into the "
+                + "fitted constants' intervals.",
                 request.pathWidthUm() / 2 + BESIDE_GAP_UM, request.pathWidthUm() / 2 + BESIDE_GAP_UM
-                        + BESIDE_DEPTH_UM, BESIDE_WINDOW_UM, picks.length, decapitalise(est.description())));
+                        + BESIDE_DEPTH_UM, BESIDE_WINDOW_UM, picks.length, BackgroundEstimator.PERCENTILE,
+                est.pixelCount(), est.value(), est.spread()));
     }
 
     /** The mean of the region's pixels in every frame, reading only the rows the region covers. */
@@ -370,10 +437,6 @@ public final class SessionAnalysis {
             }
         }
         return sum;
-    }
-
-    private static String decapitalise(String s) {
-        return s.isEmpty() ? s : Character.toLowerCase(s.charAt(0)) + s.substring(1);
     }
 
     static double[] constant(double value, int frames) {

@@ -21,6 +21,8 @@ public final class FitData {
     private final double[] weights;
     private final double[] observed;
     private final int columns;
+    /** Uncertainty of an input behind the values, or null. */
+    private final InputUncertainty inputs;
 
     /**
      * Data without a grid shape.
@@ -45,6 +47,12 @@ public final class FitData {
 
     /** Takes the arrays as they are: the caller made them for this object alone (owned is only a marker). */
     private FitData(double[] values, double[] sigmas, int columns, boolean owned) {
+        this(values, sigmas, columns, (InputUncertainty) null);
+    }
+
+    /** Takes the arrays as they are, with an input uncertainty or null. */
+    private FitData(double[] values, double[] sigmas, int columns, InputUncertainty inputs) {
+        this.inputs = inputs;
         if (values.length != sigmas.length) {
             throw new IllegalArgumentException("there are " + values.length + " values but " + sigmas.length
                     + " noise levels");
@@ -173,7 +181,29 @@ public final class FitData {
         return sigmas.clone();
     }
 
-    /** The same grid and sigmas with other observed values (used for parametric bootstrap replicates). */
+    /**
+     * The same data with the uncertainty of an input they were computed from (see {@link InputUncertainty});
+     * every shift must be as long as the grid.
+     */
+    public FitData withInputUncertainty(InputUncertainty uncertainty) {
+        for (double[] shift : uncertainty.shifts()) {
+            if (shift.length != values.length) {
+                throw new IllegalArgumentException("an input shift has " + shift.length + " points, the data "
+                        + values.length);
+            }
+        }
+        return new FitData(values, sigmas, columns, uncertainty);
+    }
+
+    /** The uncertainty of an input behind the values, or null when none was given. */
+    public InputUncertainty inputUncertainty() {
+        return inputs;
+    }
+
+    /**
+     * The same grid and sigmas with other observed values (used for parametric bootstrap replicates); the input
+     * uncertainty is not carried over.
+     */
     public FitData withValues(double[] newValues) {
         return new FitData(newValues, sigmas, columns);
     }

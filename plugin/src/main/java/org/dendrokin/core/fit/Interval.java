@@ -58,6 +58,18 @@ public record Interval(double lower, double upper, String method, String note) {
 
     /** True if the method accounts for correlated and unequal residuals (a sandwich covariance). */
     public boolean isRobust() {
-        return method.equals(ROBUST_PROFILE) || method.equals(ROBUST_WALD_T) || method.equals(ROBUST_DELTA);
+        String base = baseMethod();
+        return base.equals(ROBUST_PROFILE) || base.equals(ROBUST_WALD_T) || base.equals(ROBUST_DELTA);
+    }
+
+    /** The method without the name of an input whose uncertainty widened the interval. */
+    public String baseMethod() {
+        int plus = method.indexOf('+');
+        return plus < 0 ? method : method.substring(0, plus);
+    }
+
+    /** True when the interval was widened for the uncertainty of an input ({@link InputUncertainty}). */
+    public boolean includesInput() {
+        return method.indexOf('+') >= 0;
     }
 }

@@ -51,11 +51,13 @@ public final class KymographFits {
      *                            to take it from the half-maximum width of the first frame after the stimulus
      * @param residualBleachingFromS the middle of the baseline frames (s) when the diffusion-decay fit also fits the
      *                            bleaching the correction left over ({@link ResidualBleaching}), NaN otherwise
+     * @param inputUncertainty    the uncertainty of an input of the kymograph (its background), as shifts on the
+     *                            kymograph's grid, carried into every fit's intervals; or null
      */
     public record Setup(double stimulusTimeS, double stimulusPositionUm, boolean fitStimulusTime,
                         boolean fitStimulusPosition, int[] baselineFrames, boolean sealedEnds, List<String> models,
                         String criterion, ModelFit.Options options, double stimulusWidthUm,
-                        double residualBleachingFromS) {
+                        double residualBleachingFromS, InputUncertainty inputUncertainty) {
         public Setup {
             Checks.finite(stimulusTimeS, "stimulus time (s)");
             Checks.finite(stimulusPositionUm, "stimulus position (um)");
@@ -72,38 +74,38 @@ public final class KymographFits {
         /** The defaults: stimulus fixed where given, baseline before it, open ends, both default models, AICc. */
         public static Setup of(double stimulusTimeS, double stimulusPositionUm) {
             return new Setup(stimulusTimeS, stimulusPositionUm, false, false, null, false, DEFAULT_MODELS, "aicc",
-                    ModelFit.Options.defaults(), Double.NaN, Double.NaN);
+                    ModelFit.Options.defaults(), Double.NaN, Double.NaN, null);
         }
 
         public Setup withModels(List<String> names) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, names, criterion, options, stimulusWidthUm, residualBleachingFromS);
+                    sealedEnds, names, criterion, options, stimulusWidthUm, residualBleachingFromS, inputUncertainty);
         }
 
         public Setup withOptions(ModelFit.Options newOptions) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, criterion, newOptions, stimulusWidthUm, residualBleachingFromS);
+                    sealedEnds, models, criterion, newOptions, stimulusWidthUm, residualBleachingFromS, inputUncertainty);
         }
 
         public Setup withSealedEnds(boolean sealed) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealed, models, criterion, options, stimulusWidthUm, residualBleachingFromS);
+                    sealed, models, criterion, options, stimulusWidthUm, residualBleachingFromS, inputUncertainty);
         }
 
         public Setup withFreeStimulus(boolean time, boolean position) {
             return new Setup(stimulusTimeS, stimulusPositionUm, time, position, baselineFrames, sealedEnds, models,
-                    criterion, options, stimulusWidthUm, residualBleachingFromS);
+                    criterion, options, stimulusWidthUm, residualBleachingFromS, inputUncertainty);
         }
 
         public Setup withCriterion(String name) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, name, options, stimulusWidthUm, residualBleachingFromS);
+                    sealedEnds, models, name, options, stimulusWidthUm, residualBleachingFromS, inputUncertainty);
         }
 
         public Setup withBaselineFrames(int first, int last) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition,
                     new int[] {first, last}, sealedEnds, models, criterion, options, stimulusWidthUm,
-                    residualBleachingFromS);
+                    residualBleachingFromS, inputUncertainty);
         }
 
         /**
@@ -114,12 +116,22 @@ public final class KymographFits {
          */
         public Setup withResidualBleaching(double baselineMiddleS) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, criterion, options, stimulusWidthUm, baselineMiddleS);
+                    sealedEnds, models, criterion, options, stimulusWidthUm, baselineMiddleS, inputUncertainty);
+        }
+
+        /**
+         * Carries the uncertainty of an input of the kymograph into every fit's intervals.
+         *
+         * @param uncertainty shifts on the kymograph's grid (frame * positions + position), or null for none
+         */
+        public Setup withInputUncertainty(InputUncertainty uncertainty) {
+            return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
+                    sealedEnds, models, criterion, options, stimulusWidthUm, residualBleachingFromS, uncertainty);
         }
 
         public Setup withStimulusWidth(double widthUm) {
             return new Setup(stimulusTimeS, stimulusPositionUm, fitStimulusTime, fitStimulusPosition, baselineFrames,
-                    sealedEnds, models, criterion, options, widthUm, residualBleachingFromS);
+                    sealedEnds, models, criterion, options, widthUm, residualBleachingFromS, inputUncertainty);
         }
     }
 
@@ -227,6 +239,9 @@ public final class KymographFits {
         }
         VarianceModel noiseModel = VarianceModel.estimate(k, sigma, b0, firstAfter);
         FitData data = noiseModel.fitData(k);
+        if (setup.inputUncertainty() != null) {
+            data = data.withInputUncertainty(setup.inputUncertainty());
+        }
         StartGuess guess = StartGuess.from(k, zeroed, spread, t0, x0, firstAfter, b0);
         List<FitResult> fits = new ArrayList<>();
         FitResult dd = null;

@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.Set;
+import java.util.function.DoubleUnaryOperator;
 
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.Progress;
@@ -263,6 +264,7 @@ public final class ModelFit {
         }
         List<DerivedQuantity> quantities = model.derivedQuantities();
         Sandwich.Assessment[] robust = assessRobust(u, theta, fitted, weightedJacobian, cov, s2, n, quantities);
+        double[][] inputCov = inputCovariance(u, theta, fitted, weightedJacobian, cov, s2);
         Interval[] reported = new Interval[p];
         double[] se = new double[p];
         List<List<Interval>> others = new ArrayList<>();
@@ -277,6 +279,15 @@ public final class ModelFit {
                 other.add(modelBased);
             } else {
                 reported[j] = a == null ? modelBased : withNote(modelBased, a.keptNote(tq));
+            }
+            if (inputCov != null && inputCov[j][j] > 0) {
+                ParameterSpec s = specs.get(j);
+                double sd = Math.sqrt(inputCov[j][j]);
+                other.add(0, reported[j]);
+                reported[j] = withInput(reported[j], u[j], tq * sd, s::toInternal, s::toNatural, s.naturalRange(),
+                        "fit's");
+                double sdNatural = s.derivative(u[j]) * sd;
+                se[j] = Math.sqrt(se[j] * se[j] + sdNatural * sdNatural);
             }
             if (profile[j] != null) {
                 other.add(wald[j]);
@@ -295,7 +306,8 @@ public final class ModelFit {
         }
         List<ParameterEstimate> derived = new ArrayList<>();
         for (int k = 0; k < quantities.size(); k++) {
-            derived.add(derivedEstimate(quantities.get(k), u, cov, tq, robust[p + k]));
+            ParameterEstimate d = derivedEstimate(quantities.get(k), u, cov, tq, robust[p + k]);
+            derived.add(inputCov == null ? d : derivedWithInput(quantities.get(k), d, u, inputCov, tq));
         }
         return new FitResult(model.name(), true, "", est, derived, n, chi2, rmse, aic, aicc, bic, corr, fitted,
                 warnings, minimiser.evaluations());
@@ -321,6 +333,111 @@ public final class ModelFit {
         double seNatural = q.positive() && delta.value() > 0 ? delta.value() * robustSe : robustSe;
         return new ParameterEstimate(q.name(), q.unit(), delta.value(), seNatural, ci, List.of(delta.ci95()), false,
                 true);
+    }
+
+    // ---- the uncertainty of an input --------------------------------------------------------------------------
+
+    /**
+     * The covariance on the optimiser's scale that the data's input uncertainty adds, sum over shifts of
+     * delta u delta u^T with delta u = (J^T W J)^-1 J^T W delta y (see {@link InputUncertainty}); null when the data
+     * carry none or have no grid shape.
+     */
+    private double[][] inputCovariance(double[] u, double[] theta, double[] fitted, double[][] weightedJacobian,
+                                       double[][] cov, double s2) {
+        InputUncertainty in = data.inputUncertainty();
+        if (in == null || in.shifts().isEmpty() || data.columns() == 0 || !(s2 > 0)) {
+            return null;
+        }
+        int columns = data.columns();
+        int parts = in.shifts().size();
+        double[][] projected = new double[parts][p];
+        Sandwich.Frames rows = frames(u, theta, fitted, weightedJacobian);
+        double[] e = new double[columns];
+        double[] jw = new double[columns * p];
+        for (int f = 0; f < data.rows(); f++) {
+            rows.frame(f, e, jw);
+            for (int c = 0; c < columns; c++) {
+                int g = f * columns + c;
+                double w = Math.sqrt(data.weight(g));
+                if (w == 0) {
+                    continue;
+                }
+                for (int b = 0; b < parts; b++) {
+                    double dy = in.shift(b)[g];
+                    if (dy == 0 || !Double.isFinite(dy)) {
+                        continue;
+                    }
+                    double wdy = w * dy;
+                    for (int j = 0; j < p; j++) {
+                        projected[b][j] += jw[c * p + j] * wdy;
+                    }
+                }
+            }
+        }
+        // cov / s2 is (J^T W J)^-1 on the optimiser's scale
+        double[][] out = new double[p][p];
+        for (int b = 0; b < parts; b++) {
+            double[] du = new double[p];
+            for (int a = 0; a < p; a++) {
+                for (int j = 0; j < p; j++) {
+                    du[a] += cov[a][j] / s2 * projected[b][j];
+                }
+            }
+            for (int a = 0; a < p; a++) {
+                for (int j = 0; j < p; j++) {
+                    out[a][j] += du[a] * du[j];
+                }
+            }
+        }
+        return out;
+    }
+
+    /**
+     * An interval widened for the input's uncertainty: each side's distance from the estimate on the internal scale
+     * and {@code extra} added in quadrature (an end the data leave open stays open). The method gains the input's
+     * name ({@code robust-profile+background}).
+     */
+    private Interval withInput(Interval i, double centre, double extra, DoubleUnaryOperator toInternal,
+                               DoubleUnaryOperator toNatural, double[] range, String scale) {
+        double lower = i.lower();
+        double upper = i.upper();
+        if (lower > range[0] && Double.isFinite(lower)) {
+            double a = centre - toInternal.applyAsDouble(lower);
+            lower = toNatural.applyAsDouble(centre - Math.hypot(a, extra));
+        }
+        if (upper < range[1] && Double.isFinite(upper)) {
+            double c = toInternal.applyAsDouble(upper) - centre;
+            upper = toNatural.applyAsDouble(centre + Math.hypot(c, extra));
+        }
+        String source = data.inputUncertainty().source();
+        String note = String.format(Locale.ROOT, "Widened for the uncertainty of the %s, which the residuals cannot "
+                + "show (its own 95%% half-width %.3g on the %s scale).", source, extra, scale);
+        String before = i.note().isEmpty() || i.note().endsWith(".") ? i.note() : i.note() + ".";
+        return new Interval(lower, upper, i.method() + "+" + source, before.isEmpty() ? note : before + " " + note);
+    }
+
+    /** A derived quantity's interval and standard error widened for the input's uncertainty (delta method). */
+    private ParameterEstimate derivedWithInput(DerivedQuantity q, ParameterEstimate d, double[] u, double[][] inputCov,
+                                               double tq) {
+        if (d.ci95() == null || !Double.isFinite(d.value())) {
+            return d;
+        }
+        double sd = Math.sqrt(DeltaMethod.quadraticForm(DeltaMethod.gradient(q, u, minimiser::natural), inputCov));
+        if (!(sd > 0)) {
+            return d;
+        }
+        boolean log = q.positive() && d.value() > 0;
+        double centre = log ? Math.log(d.value()) : d.value();
+        Interval ci = log ? withInput(d.ci95(), centre, tq * sd, Math::log, Math::exp,
+                new double[] {0, Double.POSITIVE_INFINITY}, "log")
+                : withInput(d.ci95(), centre, tq * sd, x -> x, x -> x,
+                        new double[] {Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY}, "natural");
+        double sdNatural = log ? d.value() * sd : sd;
+        List<Interval> others = new ArrayList<>();
+        others.add(d.ci95());
+        others.addAll(d.otherIntervals());
+        return new ParameterEstimate(d.name(), d.unit(), d.value(), Math.hypot(d.standardError(), sdNatural), ci,
+                others, d.atBound(), d.identifiable());
     }
 
     // ---- robust intervals ------------------------------------------------------------------------------------

@@ -117,6 +117,9 @@ public final class ResultsJson {
         root.add("baseline_frames", baseline);
         JsonObject bg = new JsonObject();
         bg.addProperty("value", a.background().value());
+        if (a.background().hasUncertainty()) {
+            bg.addProperty("uncertainty_sd", a.background().uncertainty());
+        }
         bg.addProperty("how", a.background().description());
         root.add("background", bg);
         JsonObject bleach = new JsonObject();
