@@ -417,23 +417,35 @@ public final class MotionCorrection {
             int rangeY = Math.max(0, ch - h);
             int step = Math.max(1, (int) Math.ceil(Math.sqrt((rangeX + 1.0) * (rangeY + 1.0)
                     / PLACEMENT_CANDIDATES)));
+            // the score is separable: filter each row by the x taper at every candidate x once, then each candidate
+            // sums its rows by the y taper
+            int[] xs = candidates(rangeX, step);
+            int[] ys = candidates(rangeY, step);
+            int spanX = Math.min(w, cw);
+            int spanY = Math.min(h, ch);
+            double[] filtered = new double[ch * xs.length];
+            for (int r = 0; r < ch; r++) {
+                for (int c = 0; c < xs.length; c++) {
+                    int rowStart = r * cw + xs[c];
+                    double sum = 0;
+                    for (int i = 0; i < spanX; i++) {
+                        sum += wx[i] * energy[rowStart + i];
+                    }
+                    filtered[r * xs.length + c] = sum;
+                }
+            }
             double bestScore = Double.NEGATIVE_INFINITY;
             int bestX = 0;
             int bestY = 0;
-            for (int oy = 0; oy <= rangeY; oy = next(oy, step, rangeY)) {
-                for (int ox = 0; ox <= rangeX; ox = next(ox, step, rangeX)) {
+            for (int oy : ys) {
+                for (int c = 0; c < xs.length; c++) {
                     double score = 0;
-                    for (int j = 0; j < Math.min(h, ch); j++) {
-                        int rowStart = (oy + j) * cw + ox;
-                        double sum = 0;
-                        for (int i = 0; i < Math.min(w, cw); i++) {
-                            sum += wx[i] * energy[rowStart + i];
-                        }
-                        score += wy[j] * sum;
+                    for (int j = 0; j < spanY; j++) {
+                        score += wy[j] * filtered[(oy + j) * xs.length + c];
                     }
                     if (score > bestScore) {
                         bestScore = score;
-                        bestX = ox;
+                        bestX = xs[c];
                         bestY = oy;
                     }
                 }
@@ -443,9 +455,14 @@ public final class MotionCorrection {
             return new int[] {x, y};
         }
 
-        /** The next candidate offset: {@code step} further, the last one always included. */
-        private static int next(int at, int step, int last) {
-            return at < last && at + step > last ? last : at + step;
+        /** Candidate offsets 0, step, 2 step, ... with the last one, {@code last}, always included. */
+        private static int[] candidates(int last, int step) {
+            int n = last / step + 1 + (last % step == 0 ? 0 : 1);
+            int[] out = new int[n];
+            for (int k = 0; k < n; k++) {
+                out[k] = Math.min(last, k * step);
+            }
+            return out;
         }
 
         /** Tukey window over n samples at (i + 1/2) / n, flat over the middle 1 - alpha. */

@@ -9,7 +9,7 @@ import org.apache.commons.math3.util.KthSelector;
  * Proc. IEEE Int. Conf. on Cybernetics and Society, 163-165), with a Gaussian weighting of the spectrum and a
  * three-point Gaussian fit to the peak.
  *
- * <p>Each tile f (and the reference g) is apodised: its median (over every third pixel) is subtracted and the result
+ * <p>Each tile f (and the reference g) is apodised: its median (over every seventh pixel) is subtracted and the result
  * multiplied by the weights w (a taper to zero at the tile's edges, so that the edges of the tile are not taken for
  * image structure). The median, not the mean: where structure is sparse on a flat background the median is the
  * background, and w (f - median) then has no component of the shape of w, which would stay in place while the image
@@ -41,7 +41,7 @@ import org.apache.commons.math3.util.KthSelector;
  * <p>Holds scratch arrays: one instance serves one thread ({@link #copy} makes one for another).
  */
 final class PhaseCorrelation {
-    private static final int MEDIAN_STRIDE = 3;
+    private static final int MEDIAN_STRIDE = 7;
     private final int tileWidth;
     private final int tileHeight;
     private final double[] weights;
@@ -230,7 +230,7 @@ final class PhaseCorrelation {
     }
 
     private void apodise(float[] tile) {
-        // the median of every third pixel (3 is prime to the power-of-two width, so every column contributes)
+        // the median of every seventh pixel (7 is prime to the power-of-two width, so every column contributes)
         int finite = 0;
         for (int i = 0; i < tile.length; i += MEDIAN_STRIDE) {
             float v = tile[i];
