@@ -32,11 +32,18 @@ final class MotionStage {
     private final AnalysisRequest request;
     private final MotionTrace trace;
     private final Extraction plain;
+    /** The signal channel along the moving path, made with the measurement, or null. */
+    private final Extraction corrected;
 
     private MotionStage(AnalysisRequest request, MotionTrace trace, Extraction plain) {
+        this(request, trace, plain, null);
+    }
+
+    private MotionStage(AnalysisRequest request, MotionTrace trace, Extraction plain, Extraction corrected) {
         this.request = request;
         this.trace = trace;
         this.plain = plain;
+        this.corrected = corrected;
     }
 
     /**
@@ -86,15 +93,27 @@ final class MotionStage {
                 ? StimulusRegion.alongPath(path, Math.max(0, Math.min(stimulusPosition, path.lengthPx() * px)), px,
                         STIMULUS_RADIUS_UM) : null;
         MotionTrace trace;
+        Extraction corrected = null;
+        PixelBox box = PixelBox.around(path, request.pathWidthUm() / px);
+        MotionSettings settings = MotionSettings.of(px, request.pathWidthUm());
         try {
-            trace = MotionCorrection.measure(reference, PixelBox.around(path, request.pathWidthUm() / px),
-                    baselineFirst, baselineLast, region, MotionSettings.of(px, request.pathWidthUm()), progress);
+            if (request.motion() == MotionMode.CORRECT) {
+                // the signal's kymograph is sampled while the motion is measured
+                MotionCorrection.Corrected both = MotionCorrection.measureAndExtract(reference, box, baselineFirst,
+                        baselineLast, region, settings, frames, path, request.frameIntervalS(),
+                        request.pathWidthUm(), px, progress);
+                trace = both.trace();
+                corrected = both.extraction();
+            } else {
+                trace = MotionCorrection.measure(reference, box, baselineFirst, baselineLast, region, settings,
+                        progress);
+            }
         } catch (IllegalArgumentException e) {
             warnings.add(new Warning(Warning.Topic.MOVIE, "Motion was not measured: " + e.getMessage() + "."));
             return new MotionStage(request, null, plain);
         }
         trace.warnings().forEach(w -> warnings.add(new Warning(Warning.Topic.MOVIE, w)));
-        return new MotionStage(request, trace, plain);
+        return new MotionStage(request, trace, plain, corrected);
     }
 
     /** The measured motion, or null when not measured. */
@@ -105,6 +124,9 @@ final class MotionStage {
     /** The kymograph of one channel: along the moving path when correcting, else along the path as drawn. */
     Extraction extract(FrameSource channel, Progress progress) {
         double px = request.pixelSizeUm();
+        if (corrected != null && channel == request.signal()) {
+            return corrected;
+        }
         if (trace != null && request.motion() == MotionMode.CORRECT) {
             return MotionCorrection.extract(channel, request.path(), trace, px, request.frameIntervalS(),
                     request.pathWidthUm(), px, progress);

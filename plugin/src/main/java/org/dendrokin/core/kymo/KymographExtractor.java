@@ -135,23 +135,90 @@ public final class KymographExtractor {
         Checks.require(frameCount > 0, "the movie has no frames");
         Checks.require(dxPx.length == frameCount && dyPx.length == frameCount, "one shift per frame is needed: "
                 + dxPx.length + " and " + dyPx.length + " shifts for " + frameCount + " frames");
-        for (int f = 0; f < frameCount; f++) {
-            Checks.finite(dxPx[f], "the x shift of frame " + f);
-            Checks.finite(dyPx[f], "the y shift of frame " + f);
-        }
-
-        ResampledPath samples = path.resample(stepUm / pixelSizeUm);
-        MovingStencil stencil = MovingStencil.build(samples, bandWidthUm / pixelSizeUm);
-        int n = samples.size();
-        double[] values = new double[frameCount * n];
-        long outside = 0;
+        MovingPath moving = new MovingPath(frames, path, pixelSizeUm, frameIntervalS, bandWidthUm, stepUm);
         for (int f = 0; f < frameCount; f++) {
             progress.checkCancelled();
-            outside += stencil.sample(frames, f, dxPx[f], dyPx[f], values, f * n);
+            moving.sample(f, f + 1, dxPx, dyPx);
             progress.report("Extracting kymograph", f + 1, frameCount);
         }
-        return new Extraction(new Kymograph(distances(n, stepUm), times(frameCount, frameIntervalS), values,
-                INTENSITY), outside, outside / ((double) n * frameCount), samples.xPx(), samples.yPx());
+        return moving.result();
+    }
+
+    /**
+     * A kymograph along a path that moves with the image, filled a range of frames at a time, for a caller that
+     * learns the shifts as it goes (motion correction samples each block of frames while it measures the next).
+     * The result equals {@link #extract(FrameSource, DendritePath, double, double, double, double, double[],
+     * double[], Progress)} with the same shifts. Reads the source on the calling thread; not thread-safe.
+     */
+    public static final class MovingPath {
+        private final FrameSource frames;
+        private final ResampledPath samples;
+        private final MovingStencil stencil;
+        private final double stepUm;
+        private final double frameIntervalS;
+        private final int n;
+        private final double[] values;
+        private final boolean[] done;
+        private long outside;
+
+        /**
+         * @param frames         the movie channel; only the pixels the moved band touches are read. Not modified.
+         * @param path           the path as drawn on the reference image, ImageJ pixel coordinates
+         * @param pixelSizeUm    pixel size, um, positive
+         * @param frameIntervalS time between frames, s, positive
+         * @param bandWidthUm    width of the band averaged across the path, um, zero or positive
+         * @param stepUm         spacing of the samples along the path, um, positive
+         */
+        public MovingPath(FrameSource frames, DendritePath path, double pixelSizeUm, double frameIntervalS,
+                double bandWidthUm, double stepUm) {
+            Checks.positiveFinite(pixelSizeUm, "pixelSizeUm");
+            Checks.positiveFinite(frameIntervalS, "frameIntervalS");
+            Checks.nonNegativeFinite(bandWidthUm, "path width (um)");
+            Checks.positiveFinite(stepUm, "stepUm");
+            Checks.require(frames.width() > 0 && frames.height() > 0, "the movie has no pixels");
+            Checks.require(frames.frameCount() > 0, "the movie has no frames");
+            this.frames = frames;
+            this.samples = path.resample(stepUm / pixelSizeUm);
+            this.stencil = MovingStencil.build(samples, bandWidthUm / pixelSizeUm);
+            this.stepUm = stepUm;
+            this.frameIntervalS = frameIntervalS;
+            this.n = samples.size();
+            this.values = new double[frames.frameCount() * n];
+            this.done = new boolean[frames.frameCount()];
+        }
+
+        /**
+         * Samples frames [from, to), frame f with the path moved by (dxPx[f], dyPx[f]) pixels.
+         *
+         * @param dxPx shift of each frame along x (columns), pixels, finite where sampled. Not modified.
+         * @param dyPx shift of each frame along y (rows), pixels. Not modified.
+         */
+        public void sample(int from, int to, double[] dxPx, double[] dyPx) {
+            for (int f = from; f < to; f++) {
+                Checks.finite(dxPx[f], "the x shift of frame " + f);
+                Checks.finite(dyPx[f], "the y shift of frame " + f);
+                outside += stencil.sample(frames, f, dxPx[f], dyPx[f], values, f * n);
+                done[f] = true;
+            }
+        }
+
+        /**
+         * The kymograph, the number of NaN samples (outside the image in their frame), the fraction of all samples
+         * that are NaN, and the sample centres of the unmoved path.
+         *
+         * @throws IllegalStateException if a frame was not sampled
+         */
+        public Extraction result() {
+            for (int f = 0; f < done.length; f++) {
+                if (!done[f]) {
+                    throw new IllegalStateException("frame " + f + " of the moving path was not sampled");
+                }
+            }
+            int frameCount = done.length;
+            return new Extraction(new Kymograph(distances(n, stepUm), times(frameCount, frameIntervalS),
+                    values.clone(), INTENSITY), outside, outside / ((double) n * frameCount), samples.xPx(),
+                    samples.yPx());
+        }
     }
 
     private static double clamp(double v, int max) {

@@ -4,7 +4,10 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
-import java.util.stream.IntStream;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.CompletionException;
+import java.util.concurrent.ForkJoinPool;
+import java.util.concurrent.atomic.AtomicInteger;
 
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.Progress;
@@ -44,7 +47,8 @@ import org.dendrokin.core.path.DendritePath;
  * one partial inverse of the window's size a frame (about 0.09 ms at 64 x 64 on one core of the reference machine).
  * Frames are read in order on the calling thread (a frame source need not be thread-safe); the transforms of a block
  * run in parallel on the common fork-join pool, each thread with its own scratch. The result does not depend on the
- * number of threads.
+ * number of threads. {@link #measureAndExtract} also samples a kymograph along the moving path, each block of
+ * frames while the next block's transforms run.
  */
 public final class MotionCorrection {
     /** Standard deviation of the correlation peak (the Gaussian weighting of the spectrum), pixels. */
@@ -87,6 +91,58 @@ public final class MotionCorrection {
      */
     public static MotionTrace measure(FrameSource frames, PixelBox box, int baselineFirst, int baselineLast,
             StimulusRegion stimulus, MotionSettings settings, Progress progress) {
+        return run(frames, box, baselineFirst, baselineLast, stimulus, settings, null, progress);
+    }
+
+    /**
+     * The motion and the kymograph along the moving path.
+     *
+     * @param trace      the measured motion
+     * @param extraction the kymograph of the channel asked for, along the path moved by the measured shifts
+     */
+    public record Corrected(MotionTrace trace, Extraction extraction) {
+    }
+
+    /**
+     * Measures the motion as {@link #measure} does and extracts a channel's kymograph along the moving path as
+     * {@link #extract} does, with the same results; without smoothing the extraction of each block of frames runs
+     * while the next block's transforms do, so the two cost little more than the measurement alone. All reading
+     * is done on the calling thread.
+     *
+     * @param frames         the channel to measure on. Not modified.
+     * @param box            region the path occupies, ImageJ pixel coordinates
+     * @param baselineFirst  first frame of the reference, 0-based
+     * @param baselineLast   last frame of the reference, 0-based, inclusive
+     * @param stimulus       where the stimulus changes the signal, or null
+     * @param settings       window, search range, smoothing, units and warning threshold
+     * @param channel        the channel to extract (may be {@code frames}). Not modified.
+     * @param path           the path as drawn on the reference, ImageJ pixel coordinates
+     * @param frameIntervalS time between frames, s
+     * @param bandWidthUm    width of the band averaged across the path, um
+     * @param stepUm         spacing of the samples along the path, um
+     * @param progress       receives one report a block of frames; checked for cancellation as often
+     */
+    public static Corrected measureAndExtract(FrameSource frames, PixelBox box, int baselineFirst, int baselineLast,
+            StimulusRegion stimulus, MotionSettings settings, FrameSource channel, DendritePath path,
+            double frameIntervalS, double bandWidthUm, double stepUm, Progress progress) {
+        Checks.require(channel.frameCount() == frames.frameCount(), "the channel to extract has "
+                + channel.frameCount() + " frames, the one measured " + frames.frameCount());
+        if (settings.smoothingFrames() > 1) {
+            // a smoothed shift needs the frames after it: measure first
+            MotionTrace trace = measure(frames, box, baselineFirst, baselineLast, stimulus, settings, progress);
+            return new Corrected(trace, extract(channel, path, trace, settings.pixelSizeUm(), frameIntervalS,
+                    bandWidthUm, stepUm, progress));
+        }
+        KymographExtractor.MovingPath moving = new KymographExtractor.MovingPath(channel, path,
+                settings.pixelSizeUm(), frameIntervalS, bandWidthUm, stepUm);
+        MotionTrace trace = run(frames, box, baselineFirst, baselineLast, stimulus, settings, moving, progress);
+        return new Corrected(trace, moving.result());
+    }
+
+    /** The measurement; with {@code moving} not null, each measured block of frames is sampled along it. */
+    private static MotionTrace run(FrameSource frames, PixelBox box, int baselineFirst, int baselineLast,
+            StimulusRegion stimulus, MotionSettings settings, KymographExtractor.MovingPath moving,
+            Progress progress) {
         int width = frames.width();
         int height = frames.height();
         int frameCount = frames.frameCount();
@@ -105,11 +161,20 @@ public final class MotionCorrection {
         int[] pixels = window.pixelIndices(width);
         correlation.reference(meanTile(frames, pixels, baselineFirst, baselineLast, progress));
         Tracking tracking = new Tracking(frames, window, pixels, correlation);
+        int previous = 0;
         for (int start = 0; start < frameCount; start += BLOCK_FRAMES) {
             progress.checkCancelled();
             int count = Math.min(BLOCK_FRAMES, frameCount - start);
-            tracking.block(start, count);
+            int from = previous;
+            int to = start;
+            // the frames measured in the last block are sampled while this block's transforms run
+            tracking.block(start, count, moving == null ? () -> { } : () -> moving.sample(from, to, tracking.dx,
+                    tracking.dy));
+            previous = start;
             progress.report("Measuring motion", start + count, frameCount);
+        }
+        if (moving != null) {
+            moving.sample(previous, frameCount, tracking.dx, tracking.dy);
         }
 
         double[] smoothX = runningMedian(tracking.dx, settings.smoothingFrames());
@@ -254,14 +319,34 @@ public final class MotionCorrection {
             this.shifts = new PhaseCorrelation.Shift[tiles.length];
         }
 
-        /** Measures frames start to start + count - 1, count at most BLOCK_FRAMES. */
-        void block(int start, int count) {
+        /**
+         * Measures frames start to start + count - 1, count at most BLOCK_FRAMES, and runs {@code meanwhile} on this
+         * thread while the transforms run.
+         */
+        void block(int start, int count, Runnable meanwhile) {
             // frames are read in order on this thread (a frame source need not be thread-safe); the transforms,
-            // nearly all the work, run in parallel
+            // nearly all the work, run on the common pool, and on this thread too once meanwhile is done
             for (int i = 0; i < count; i++) {
                 gather(start + i, trackX, trackY, tiles[i]);
             }
-            IntStream.range(0, count).parallel().forEach(i -> shifts[i] = perThread.get().measure(tiles[i]));
+            AtomicInteger next = new AtomicInteger();
+            Runnable drain = () -> {
+                for (int i = next.getAndIncrement(); i < count; i = next.getAndIncrement()) {
+                    shifts[i] = perThread.get().measure(tiles[i]);
+                }
+            };
+            int helpers = Math.max(1, ForkJoinPool.getCommonPoolParallelism());
+            CompletableFuture<?>[] running = new CompletableFuture<?>[helpers];
+            for (int h = 0; h < helpers; h++) {
+                running[h] = CompletableFuture.runAsync(drain);
+            }
+            meanwhile.run();
+            drain.run();
+            try {
+                CompletableFuture.allOf(running).join();
+            } catch (CompletionException e) {
+                throw e.getCause() instanceof RuntimeException r ? r : e;
+            }
             for (int i = 0; i < count; i++) {
                 int f = start + i;
                 PhaseCorrelation.Shift s = shifts[i];

@@ -192,6 +192,32 @@ class MotionCorrectionTest {
     }
 
     @Test
+    void measuringAndExtractingTogetherGivesWhatTheyGiveApart() {
+        // 250 frames: four blocks of measurement, the last one short, so that blocks are sampled while others run
+        int frames = 250;
+        double[] dx = new double[frames];
+        double[] dy = new double[frames];
+        for (int f = 0; f < frames; f++) {
+            dx[f] = 0.6 / PIXEL_UM * f / (frames - 1) + (f >= 140 ? 1.7 : 0);
+            dy[f] = 0.3 * Math.sin(f / 9.0);
+        }
+        SyntheticMovie drifting = new SyntheticMovie(SCENE, dx, dy, null, true, 11);
+        MotionSettings settings = MotionSettings.of(PIXEL_UM, BAND_UM);
+        MotionTrace apart = MotionCorrection.measure(drifting, PixelBox.around(PATH, 0), 0, BASELINE_LAST, null,
+                settings, Progress.NONE);
+        Extraction extracted = MotionCorrection.extract(drifting, PATH, apart, PIXEL_UM, 0.1, BAND_UM, PIXEL_UM,
+                Progress.NONE);
+        MotionCorrection.Corrected together = MotionCorrection.measureAndExtract(drifting, PixelBox.around(PATH, 0),
+                0, BASELINE_LAST, null, settings, drifting, PATH, 0.1, BAND_UM, PIXEL_UM, Progress.NONE);
+        // REF: the same measurement and extraction made one after the other [common practice]; exact equality
+        assertArrayEquals(apart.dxPx(), together.trace().dxPx(), 0.0, "x shifts");
+        assertArrayEquals(apart.dyPx(), together.trace().dyPx(), 0.0, "y shifts");
+        assertArrayEquals(extracted.kymograph().values(), together.extraction().kymograph().values(), 0.0,
+                "kymograph");
+        assertEquals(extracted.samplesOutside(), together.extraction().samplesOutside());
+    }
+
+    @Test
     void placesTheWindowAwayFromTheStimulus() {
         SyntheticDendrite wide = new SyntheticDendrite(256, 96, 8);
         DendritePath path = wide.path(16, 240);
