@@ -12,34 +12,11 @@ import org.junit.jupiter.api.Test;
 class BesidePathBackgroundTest {
     @Test
     void aGradientAlongThePathIsFollowed() {
-        int w = 200;
-        int h = 60;
-        // background 100 + 0.5 x counts, a bright line along y = 30 (the dendrite), white noise of sd 3
-        Random random = new Random(9);
-        float[][] frames = new float[16][w * h];
-        for (float[] f : frames) {
-            for (int j = 0; j < h; j++) {
-                for (int i = 0; i < w; i++) {
-                    double line = Math.abs(j + 0.5 - 30) < 3 ? 500 : 0;
-                    f[j * w + i] = (float) (100 + 0.5 * (i + 0.5) + line + 3 * random.nextGaussian());
-                }
-            }
-        }
-        FrameSource source = frames(w, h, frames);
-        int n = 150;
-        double[] x = new double[n];
-        double[] y = new double[n];
-        for (int s = 0; s < n; s++) {
-            x[s] = 25 + s;
-            y[s] = 30;
-        }
-        int[] picks = new int[16];
-        for (int i = 0; i < picks.length; i++) {
-            picks[i] = i;
-        }
-        double[] bg = BackgroundEstimator.besidePath(source, x, y, 8, 18, 3, picks, Progress.NONE);
+        // background 100 + 0.5 x counts
+        double[] x = pathX();
+        double[] bg = besideAHorizontalDendrite((i, j) -> 100 + 0.5 * i, 9);
         // away from the ends, where the window is symmetric about the sample
-        for (int s = 4; s < n - 4; s += 10) {
+        for (int s = 4; s < x.length - 4; s += 10) {
             // REF: the background as generated, 100 + 0.5 x [common practice]. Tolerance: the median of noise of
             // sd 3 / sqrt(16) over a few dozen pixels lies within about 0.3 of its mean
             assertEquals(100 + 0.5 * x[s], bg[s], 0.5, "background beside path sample " + s);
@@ -48,36 +25,53 @@ class BesidePathBackgroundTest {
 
     @Test
     void aGradientAcrossThePathIsInterpolatedFromBothSides() {
+        // background 100 + 2 (y - 30) counts, steep across the path
+        double[] bg = besideAHorizontalDendrite((i, j) -> 100 + 2 * (j - 30), 10);
+        for (int s = 4; s < bg.length - 4; s += 10) {
+            // REF: the background as generated, 100 on the path's line [common practice]; one lower quartile of both
+            // sides pooled would read about 100 - 2 * 13 = 74 here
+            assertEquals(100, bg[s], 0.5, "background under the path at sample " + s);
+        }
+    }
+
+    /** A background level at pixel centre (x, y), ImageJ coordinates. */
+    private interface Level {
+        double at(double x, double y);
+    }
+
+    /**
+     * The background beside a path along y = 30 from x = 25 to 174 in 16 frames of 200 x 60 pixels: the given
+     * background, a bright line 6 pixels wide along the path (the dendrite) and white noise of sd 3.
+     */
+    private static double[] besideAHorizontalDendrite(Level level, long seed) {
         int w = 200;
         int h = 60;
-        // background 100 + 2 (y - 30) counts, steep across the path along y = 30, white noise of sd 3
-        Random random = new Random(10);
+        Random random = new Random(seed);
         float[][] frames = new float[16][w * h];
         for (float[] f : frames) {
             for (int j = 0; j < h; j++) {
                 for (int i = 0; i < w; i++) {
                     double line = Math.abs(j + 0.5 - 30) < 3 ? 500 : 0;
-                    f[j * w + i] = (float) (100 + 2 * (j + 0.5 - 30) + line + 3 * random.nextGaussian());
+                    f[j * w + i] = (float) (level.at(i + 0.5, j + 0.5) + line + 3 * random.nextGaussian());
                 }
             }
         }
-        int n = 150;
-        double[] x = new double[n];
-        double[] y = new double[n];
-        for (int s = 0; s < n; s++) {
-            x[s] = 25 + s;
-            y[s] = 30;
-        }
+        double[] x = pathX();
+        double[] y = new double[x.length];
+        java.util.Arrays.fill(y, 30);
         int[] picks = new int[16];
         for (int i = 0; i < picks.length; i++) {
             picks[i] = i;
         }
-        double[] bg = BackgroundEstimator.besidePath(frames(w, h, frames), x, y, 8, 18, 3, picks, Progress.NONE);
-        for (int s = 4; s < n - 4; s += 10) {
-            // REF: the background as generated, 100 on the path's line [common practice]; one lower quartile of both
-            // sides pooled would read about 100 - 2 * 13 = 74 here
-            assertEquals(100, bg[s], 0.5, "background under the path at sample " + s);
+        return BackgroundEstimator.besidePath(frames(w, h, frames), x, y, 8, 18, 3, picks, Progress.NONE);
+    }
+
+    private static double[] pathX() {
+        double[] x = new double[150];
+        for (int s = 0; s < x.length; s++) {
+            x[s] = 25 + s;
         }
+        return x;
     }
 
     @Test
