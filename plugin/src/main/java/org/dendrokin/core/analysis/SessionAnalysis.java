@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
+import java.util.function.Function;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.calib.SignalKind;
@@ -74,10 +75,9 @@ public final class SessionAnalysis {
                     + "the image; those positions are empty (NaN) in the kymograph.", 100 * extraction.fractionOutside())));
         }
         AnalysisResult.Background background = background(request.background(), frames, extraction, request, progress);
-        Kymograph ratio = null;
-        if (request.denominator() != null) {
-            ratio = ratio(request, motion, extraction, background, progress);
-        }
+        RatioParts ratioParts = request.denominator() != null
+                ? ratioParts(request, motion, extraction, background, progress) : null;
+        Kymograph ratio = ratioParts == null ? null : ratioParts.ratio(null, null);
         Preprocessing.Options options = new Preprocessing.Options(finiteOrNull(primary.timeS()),
                 finiteOrNull(primary.positionUm()), request.baselineFrames(), request.bleachCorrection());
         Preprocessing.Result pre;
@@ -133,7 +133,8 @@ public final class SessionAnalysis {
         }
         List<SkippedModel> skipped = new ArrayList<>();
         InputUncertainty bgUncertainty = stimulus.known()
-                ? backgroundUncertainty(request, extraction.kymograph(), background, options, pre, fitted, progress)
+                ? backgroundUncertainty(request.calibration(), request.normalisation(), extraction.kymograph(),
+                        background, ratioParts, options, pre, fitted, progress)
                 : null;
         KymographFits.Outcome fits = fit(request.fits(), fitted, pre, spread, bgUncertainty, skipped, warnings,
                 progress);
@@ -262,79 +263,141 @@ public final class SessionAnalysis {
 
     /**
      * The background's uncertainty as shifts of the fitted signal, or null when it is not known (a given value or
-     * region) or the signal is not made from one channel's intensity alone (a ratio, a lifetime, a structural
-     * normalisation). The path is cut into stretches of {@value #BACKGROUND_BLOCK_UM} um, twice the estimate's
-     * window, within which the errors of the estimate are shared, and between which they are taken as independent;
-     * for each stretch the analysis from the background on (subtraction, bleaching correction, F0, calibration) is
-     * run again with the background raised there by its uncertainty, and the change of the signal is one shift.
+     * region) or the signal is one that this does not follow (a lifetime, a structural normalisation). The path is
+     * cut into stretches of {@value #BACKGROUND_BLOCK_UM} um, twice the estimate's window, within which the errors
+     * of the estimate are shared, and between which they are taken as independent; for each stretch the analysis
+     * from the background on (subtraction, bleaching correction, F0, calibration; for a ratio, the ratio and its
+     * calibration, each channel's background in turn) is run again with the background raised there by its
+     * uncertainty, and the change of the signal is one shift.
+     *
+     * @param cal           the calibration that made the signal
+     * @param normalisation the structural normalisation (none is followed)
+     * @param raw           the signal channel's kymograph before any correction
+     * @param background    the signal channel's background
+     * @param ratio         the two channels of a ratio signal, or null for one channel's intensity
+     * @param options       the preprocessing's options (the stimulus and baseline are taken from {@code pre})
+     * @param pre           the preprocessing's result
+     * @param fitted        the signal as fitted (its first frames: the shifts are on its grid)
+     * @param progress      checked for cancellation
      */
-    static InputUncertainty backgroundUncertainty(AnalysisRequest request, Kymograph raw,
-                                                  AnalysisResult.Background background, Preprocessing.Options options,
-                                                  Preprocessing.Result pre, Kymograph fitted, Progress progress) {
-        CalibrationRequest cal = request.calibration();
-        boolean oneChannel = request.denominator() == null && request.normalisation() == Normalisation.NONE
-                && (!cal.calibrates() || cal.calibration().input() == SignalKind.INTENSITY
-                        || cal.calibration().input() == SignalKind.DF_F0);
-        if (!background.hasUncertainty() || !oneChannel) {
+    static InputUncertainty backgroundUncertainty(CalibrationRequest cal, Normalisation normalisation, Kymograph raw,
+                                                  AnalysisResult.Background background, RatioParts ratio,
+                                                  Preprocessing.Options options, Preprocessing.Result pre,
+                                                  Kymograph fitted, Progress progress) {
+        if (normalisation != Normalisation.NONE) {
             return null;
         }
+        SignalKind input = cal.calibrates() ? cal.calibration().input() : SignalKind.DF_F0;
+        List<Function<double[], Kymograph>> channels = new ArrayList<>();
+        List<double[]> alongs = new ArrayList<>();
+        List<Double> sds = new ArrayList<>();
         int nx = raw.positionCount();
-        double[] along = background.alongPath() != null ? background.alongPath() : new double[nx];
-        Preprocessing.Options fixed = new Preprocessing.Options(pre.stimulus().timeS(), pre.stimulus().positionUm(),
-                new int[] {pre.baselineFirst(), pre.baselineLast()}, options.bleachCorrection());
+        if (ratio == null && (input == SignalKind.INTENSITY || input == SignalKind.DF_F0)) {
+            Preprocessing.Options fixed = new Preprocessing.Options(pre.stimulus().timeS(),
+                    pre.stimulus().positionUm(), new int[] {pre.baselineFirst(), pre.baselineLast()},
+                    options.bleachCorrection());
+            channels.add(raised -> {
+                Preprocessing.Result p2 = Preprocessing.run(raw, background.perFrame(), raised, fixed);
+                return CalibrationStage.apply(cal, p2.bleach().corrected(), p2.deltaF().kymograph(), null,
+                        p2.baselineFirst(), p2.baselineLast()).signal();
+            });
+            alongs.add(background.alongPath());
+            sds.add(background.uncertainty());
+        } else if (ratio != null && (input == SignalKind.RATIO || input == SignalKind.RATIO_OVER_BASELINE)) {
+            Kymograph intensity = pre.bleach().corrected();
+            Kymograph deltaF = pre.deltaF().kymograph();
+            channels.add(raised -> CalibrationStage.apply(cal, intensity, deltaF, ratio.ratio(raised, null),
+                    pre.baselineFirst(), pre.baselineLast()).signal());
+            alongs.add(ratio.numeratorAlong());
+            sds.add(ratio.numeratorSd());
+            channels.add(raised -> CalibrationStage.apply(cal, intensity, deltaF, ratio.ratio(null, raised),
+                    pre.baselineFirst(), pre.baselineLast()).signal());
+            alongs.add(ratio.denominatorAlong());
+            sds.add(ratio.denominatorSd());
+        }
         double[] base = fitted.values();
         int blockSamples = Math.max(1, (int) Math.round(BACKGROUND_BLOCK_UM / raw.distanceStepUm()));
         List<double[]> shifts = new ArrayList<>();
-        for (int from = 0; from < nx; from += blockSamples) {
-            progress.checkCancelled();
-            double[] raised = along.clone();
-            for (int p = from; p < Math.min(nx, from + blockSamples); p++) {
-                raised[p] += background.uncertainty();
+        for (int c = 0; c < channels.size(); c++) {
+            double sd = sds.get(c);
+            if (!(sd > 0 && Double.isFinite(sd))) {
+                continue;
             }
-            Kymograph again;
-            try {
-                Preprocessing.Result p2 = Preprocessing.run(raw, background.perFrame(), raised, fixed);
-                again = CalibrationStage.apply(cal, p2.bleach().corrected(), p2.deltaF().kymograph(), null,
-                        p2.baselineFirst(), p2.baselineLast()).signal();
-            } catch (RuntimeException e) {
-                // a background raised this far leaves no usable signal: the uncertainty cannot be carried
-                return null;
+            double[] along = alongs.get(c) != null ? alongs.get(c) : new double[nx];
+            for (int from = 0; from < nx; from += blockSamples) {
+                progress.checkCancelled();
+                double[] raised = along.clone();
+                for (int p = from; p < Math.min(nx, from + blockSamples); p++) {
+                    raised[p] += sd;
+                }
+                Kymograph again;
+                try {
+                    again = channels.get(c).apply(raised);
+                } catch (RuntimeException e) {
+                    // a background raised this far leaves no usable signal: the uncertainty cannot be carried
+                    return null;
+                }
+                double[] moved = again.values();
+                double[] shift = new double[base.length];
+                for (int g = 0; g < base.length; g++) {
+                    double d = moved[g] - base[g];
+                    shift[g] = Double.isFinite(d) ? d : 0;
+                }
+                shifts.add(shift);
             }
-            double[] moved = again.values();
-            double[] shift = new double[base.length];
-            for (int g = 0; g < base.length; g++) {
-                double d = moved[g] - base[g];
-                shift[g] = Double.isFinite(d) ? d : 0;
-            }
-            shifts.add(shift);
         }
-        return new InputUncertainty("background", shifts);
+        return shifts.isEmpty() ? null : new InputUncertainty("background", shifts);
     }
 
-    /** The ratio kymograph: each channel minus its own background, numerator over denominator. */
-    private static Kymograph ratio(AnalysisRequest request, MotionStage motion, Extraction numerator,
-                                   AnalysisResult.Background numeratorBackground, Progress progress) {
+    /**
+     * The two channels a ratio is made of, each with its background (one level a frame, and one a position when it
+     * was estimated beside the path) and that background's uncertainty (NaN when it was given).
+     */
+    record RatioParts(Kymograph numerator, double[] numeratorPerFrame, double[] numeratorAlong, double numeratorSd,
+                      Kymograph denominator, double[] denominatorPerFrame, double[] denominatorAlong,
+                      double denominatorSd) {
+        /**
+         * The ratio kymograph: each channel minus its own background, numerator over denominator; with the
+         * backgrounds along the path replaced where an argument is not null.
+         */
+        Kymograph ratio(double[] numeratorAlongUsed, double[] denominatorAlongUsed) {
+            return CalibrationStage.ratio(
+                    minusAlongPath(numerator, numeratorAlongUsed != null ? numeratorAlongUsed : numeratorAlong),
+                    numeratorPerFrame,
+                    minusAlongPath(denominator, denominatorAlongUsed != null ? denominatorAlongUsed : denominatorAlong),
+                    denominatorPerFrame);
+        }
+    }
+
+    private static RatioParts ratioParts(AnalysisRequest request, MotionStage motion, Extraction numerator,
+                                         AnalysisResult.Background numeratorBackground, Progress progress) {
         FrameSource denominator = request.denominator();
         int frames = request.signal().frameCount();
         Kymograph denRaw = motion.extract(denominator, progress).kymograph();
         CalibrationRequest cal = request.calibration();
         Kymograph num = numerator.kymograph();
         double[] numBg;
+        double[] numAlong = null;
+        double numSd = Double.NaN;
         if (cal.numeratorBackground() == null) {
             numBg = numeratorBackground.perFrame();
-            num = minusAlongPath(num, numeratorBackground.alongPath());
+            numAlong = numeratorBackground.alongPath();
+            numSd = numeratorBackground.uncertainty();
         } else {
             numBg = constant(cal.numeratorBackground(), frames);
         }
         double[] denBg;
+        double[] denAlong = null;
+        double denSd = Double.NaN;
         if (cal.denominatorBackground() != null) {
             denBg = constant(cal.denominatorBackground(), frames);
         } else {
             AnalysisResult.Background b = background(request.background(), denominator, numerator, request, progress);
             denBg = b.perFrame();
-            denRaw = minusAlongPath(denRaw, b.alongPath());
+            denAlong = b.alongPath();
+            denSd = b.uncertainty();
         }
-        return CalibrationStage.ratio(num, numBg, denRaw, denBg);
+        return new RatioParts(num, numBg, numAlong, numSd, denRaw, denBg, denAlong, denSd);
     }
 
     /** The kymograph minus a background that varies along the path (unchanged for null). */
