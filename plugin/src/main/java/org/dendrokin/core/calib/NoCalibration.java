@@ -1,11 +1,9 @@
 package org.dendrokin.core.calib;
 
-import java.util.Map;
-
 import org.dendrokin.core.units.Unit;
 
 /** The method {@code none}: the signal stays dF/F0; every value passes through unchanged and unflagged. */
-public final class NoCalibration implements Calibration {
+public final class NoCalibration implements PassThrough {
     public static final NoCalibration INSTANCE = new NoCalibration();
 
     private NoCalibration() {
@@ -35,46 +33,6 @@ public final class NoCalibration implements Calibration {
     @Override
     public double signal(double value) {
         return value;
-    }
-
-    @Override
-    public double derivative(double signal) {
-        return 1;
-    }
-
-    @Override
-    public double saturation(double signal) {
-        return Double.NaN;
-    }
-
-    @Override
-    public double concentrationSdMicromolar(double signal) {
-        return 0;
-    }
-
-    @Override
-    public double rangeStart() {
-        return Double.NEGATIVE_INFINITY;
-    }
-
-    @Override
-    public double rangeEnd() {
-        return Double.POSITIVE_INFINITY;
-    }
-
-    @Override
-    public boolean saturates() {
-        return false;
-    }
-
-    @Override
-    public double hillCoefficient() {
-        return Double.NaN;
-    }
-
-    @Override
-    public Map<String, Double> constants() {
-        return Map.of();
     }
 
     @Override

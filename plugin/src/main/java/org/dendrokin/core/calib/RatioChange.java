@@ -1,7 +1,5 @@
 package org.dendrokin.core.calib;
 
-import java.util.Map;
-
 import org.dendrokin.core.Checks;
 import org.dendrokin.core.units.Unit;
 
@@ -14,7 +12,7 @@ import org.dendrokin.core.units.Unit;
  * calibration stage); this class maps R/R0 to the chosen output. There are no constants, no saturated end and no
  * uncertainty of its own.
  */
-public final class RatioChange implements Calibration {
+public final class RatioChange implements PassThrough {
     /** What is reported. */
     public enum Output {
         /** R/R0: 1 at rest. */
@@ -83,46 +81,6 @@ public final class RatioChange implements Calibration {
     @Override
     public double signal(double value) {
         return output == Output.RATIO ? value : value + 1;
-    }
-
-    @Override
-    public double derivative(double signal) {
-        return 1;
-    }
-
-    @Override
-    public double saturation(double signal) {
-        return Double.NaN;
-    }
-
-    @Override
-    public double concentrationSdMicromolar(double signal) {
-        return 0;
-    }
-
-    @Override
-    public double rangeStart() {
-        return Double.NEGATIVE_INFINITY;
-    }
-
-    @Override
-    public double rangeEnd() {
-        return Double.POSITIVE_INFINITY;
-    }
-
-    @Override
-    public boolean saturates() {
-        return false;
-    }
-
-    @Override
-    public double hillCoefficient() {
-        return Double.NaN;
-    }
-
-    @Override
-    public Map<String, Double> constants() {
-        return Map.of();
     }
 
     @Override
