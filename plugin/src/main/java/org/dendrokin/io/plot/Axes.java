@@ -111,4 +111,32 @@ final class Axes {
         centred(g, xLabel, left + width / 2.0, top + height + 40);
         vertical(g, yLabel, left - 52, top + height / 2.0);
     }
+
+    /**
+     * A value range padded for plotting: by {@code fraction} of its span at each end, by {@code max(|lo| / 10,
+     * minPad)} when it is a single value, and [0, 1] when it is empty (lo not finite).
+     *
+     * @return {lo, hi}
+     */
+    static double[] padded(double lo, double hi, double fraction, double minPad) {
+        if (!Double.isFinite(lo)) {
+            return new double[] {0, 1};
+        }
+        double m = hi > lo ? fraction * (hi - lo) : Math.max(Math.abs(lo) * 0.1, minPad);
+        return new double[] {lo - m, hi + m};
+    }
+
+    /** Draws a frame with ticks on its left side only (a plot of categories side by side): y from hi at the top. */
+    static void yFrame(Graphics2D g, int left, int top, int width, int height, double lo, double hi) {
+        g.setColor(Color.BLACK);
+        g.drawRect(left, top, width, height);
+        g.setFont(TICK);
+        FontMetrics fm = g.getFontMetrics();
+        for (double v : ticks(lo, hi, 5)) {
+            double y = top + (hi - v) / (hi - lo) * height;
+            g.drawLine(left - 5, (int) y, left, (int) y);
+            String s = format(v);
+            g.drawString(s, left - 8 - fm.stringWidth(s), (float) (y + 4));
+        }
+    }
 }

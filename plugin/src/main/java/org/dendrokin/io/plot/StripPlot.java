@@ -2,7 +2,6 @@ package org.dendrokin.io.plot;
 
 import java.awt.BasicStroke;
 import java.awt.Color;
-import java.awt.FontMetrics;
 import java.awt.Graphics2D;
 import java.awt.geom.Ellipse2D;
 import java.awt.image.BufferedImage;
@@ -65,30 +64,12 @@ public final class StripPlot {
                 }
             }
         }
-        if (!Double.isFinite(lo)) {
-            lo = 0;
-            hi = 1;
-        } else if (!(hi > lo)) {
-            double m = Math.max(Math.abs(lo) * 0.1, 0.5);
-            lo -= m;
-            hi += m;
-        } else {
-            double m = 0.06 * (hi - lo);
-            lo -= m;
-            hi += m;
-        }
+        double[] range = Axes.padded(lo, hi, 0.06, 0.5);
+        lo = range[0];
+        hi = range[1];
         BufferedImage image = Axes.canvas(width, height);
         Graphics2D g = Axes.graphics(image);
-        g.setColor(Color.BLACK);
-        g.drawRect(left, top, plotW, plotH);
-        g.setFont(Axes.TICK);
-        FontMetrics fm = g.getFontMetrics();
-        for (double v : Axes.ticks(lo, hi, 5)) {
-            double y = top + (hi - v) / (hi - lo) * plotH;
-            g.drawLine(left - 5, (int) y, left, (int) y);
-            String s = Axes.format(v);
-            g.drawString(s, left - 8 - fm.stringWidth(s), (float) (y + 4));
-        }
+        Axes.yFrame(g, left, top, plotW, plotH, lo, hi);
         int n = Math.max(1, columns.size());
         double slot = (double) plotW / n;
         for (int i = 0; i < columns.size(); i++) {
