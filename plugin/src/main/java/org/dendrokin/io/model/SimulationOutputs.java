@@ -12,6 +12,7 @@ import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.model.BuiltInModel;
 import org.dendrokin.core.model.ModelCatalogue;
 import org.dendrokin.core.model.ModelParameter;
+import org.dendrokin.core.model.ReactionNetwork;
 import org.dendrokin.core.model.Simulation;
 import org.dendrokin.core.model.TreeGeometry;
 import org.dendrokin.core.model.TreeSimulation;
@@ -100,25 +101,8 @@ public final class SimulationOutputs {
             SyntheticMovie.write(k, parsed.movie(), movie);
             files.add(movie);
         }
-        Map<String, Object> summary = new LinkedHashMap<>();
-        summary.put("tool_version", toolVersion);
-        summary.put("model_file", modelFile.getFileName().toString());
-        summary.put("model", spec.model());
-        summary.put("species", result.species());
-        summary.put("signal_unit", unit);
-        if (entry != null) {
-            Map<String, Object> params = new LinkedHashMap<>();
-            for (ModelParameter p : entry.parameters()) {
-                params.put(p.name(), Map.of("value", spec.parameters().get(p.name()), "unit", p.unit().symbol()));
-            }
-            summary.put("parameters", params);
-        }
-        if (spec.network() != null) {
-            summary.put("network_species", spec.network().species());
-            List<String> reactions = new ArrayList<>();
-            spec.network().reactions().forEach(r -> reactions.add(r.name()));
-            summary.put("network_reactions", reactions);
-        }
+        Map<String, Object> summary = summaryHead(toolVersion, modelFile, spec.model(), result.species(), unit, entry,
+                spec.parameters(), spec.network());
         Map<String, Object> domain = new LinkedHashMap<>();
         domain.put("length_um", spec.domain().lengthUm());
         domain.put("dx_um", spec.domain().spacingUm());
@@ -195,25 +179,8 @@ public final class SimulationOutputs {
                 + ": peak " + result.species() + " over time", unit, true), treePng);
         files.add(treePng);
 
-        Map<String, Object> summary = new LinkedHashMap<>();
-        summary.put("tool_version", toolVersion);
-        summary.put("model_file", modelFile.getFileName().toString());
-        summary.put("model", spec.model());
-        summary.put("species", result.species());
-        summary.put("signal_unit", unit);
-        if (entry != null) {
-            Map<String, Object> params = new LinkedHashMap<>();
-            for (ModelParameter p : entry.parameters()) {
-                params.put(p.name(), Map.of("value", spec.parameters().get(p.name()), "unit", p.unit().symbol()));
-            }
-            summary.put("parameters", params);
-        }
-        if (spec.network() != null) {
-            summary.put("network_species", spec.network().species());
-            List<String> reactions = new ArrayList<>();
-            spec.network().reactions().forEach(r -> reactions.add(r.name()));
-            summary.put("network_reactions", reactions);
-        }
+        Map<String, Object> summary = summaryHead(toolVersion, modelFile, spec.model(), result.species(), unit, entry,
+                spec.parameters(), spec.network());
         summary.put("tree", treeSummary(spec));
         summary.put("kymographs", kymographFiles);
         Map<String, Object> time = new LinkedHashMap<>();
@@ -243,6 +210,34 @@ public final class SimulationOutputs {
             }
         }
         return out;
+    }
+
+    /**
+     * The summary's first keys, the same for a path and a tree: version, model file, model, species, unit, the
+     * built-in model's parameters with their units, and a network's species and reactions.
+     */
+    private static Map<String, Object> summaryHead(String toolVersion, Path modelFile, String model, String species,
+            String unit, BuiltInModel entry, Map<String, Double> parameters, ReactionNetwork network) {
+        Map<String, Object> summary = new LinkedHashMap<>();
+        summary.put("tool_version", toolVersion);
+        summary.put("model_file", modelFile.getFileName().toString());
+        summary.put("model", model);
+        summary.put("species", species);
+        summary.put("signal_unit", unit);
+        if (entry != null) {
+            Map<String, Object> params = new LinkedHashMap<>();
+            for (ModelParameter p : entry.parameters()) {
+                params.put(p.name(), Map.of("value", parameters.get(p.name()), "unit", p.unit().symbol()));
+            }
+            summary.put("parameters", params);
+        }
+        if (network != null) {
+            summary.put("network_species", network.species());
+            List<String> reactions = new ArrayList<>();
+            network.reactions().forEach(r -> reactions.add(r.name()));
+            summary.put("network_reactions", reactions);
+        }
+        return summary;
     }
 
     private static Map<String, Object> treeSummary(TreeSimulation.Spec spec) {
