@@ -55,13 +55,18 @@ public final class Simulation {
 
         /** Frame times 0, dt, 2 dt, ... up to the duration. */
         public double[] outputTimesS() {
-            int count = (int) Math.floor(durationS / outputIntervalS + 1e-9) + 1;
-            double[] t = new double[count];
-            for (int i = 0; i < count; i++) {
-                t[i] = i * outputIntervalS;
-            }
-            return t;
+            return outputTimes(durationS, outputIntervalS);
         }
+    }
+
+    /** Output frame times 0, dt, 2 dt, ... up to the duration (a path or a tree). */
+    static double[] outputTimes(double durationS, double outputIntervalS) {
+        int count = (int) Math.floor(durationS / outputIntervalS + 1e-9) + 1;
+        double[] t = new double[count];
+        for (int i = 0; i < count; i++) {
+            t[i] = i * outputIntervalS;
+        }
+        return t;
     }
 
     /**

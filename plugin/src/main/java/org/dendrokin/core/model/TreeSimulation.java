@@ -55,12 +55,7 @@ public final class TreeSimulation {
 
         /** Frame times 0, dt, 2 dt, ... up to the duration. */
         public double[] outputTimesS() {
-            int count = (int) Math.floor(durationS / outputIntervalS + 1e-9) + 1;
-            double[] t = new double[count];
-            for (int i = 0; i < count; i++) {
-                t[i] = i * outputIntervalS;
-            }
-            return t;
+            return Simulation.outputTimes(durationS, outputIntervalS);
         }
     }
 
