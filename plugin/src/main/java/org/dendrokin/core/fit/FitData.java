@@ -10,7 +10,8 @@ import org.dendrokin.core.kymo.Kymograph;
  * whose sigma is not a positive finite number) are left out of the fit. When the grid is a kymograph the data know
  * its shape (points per row, row-major: {@code frame * columns + position}), so that intervals can take account of
  * residuals that are correlated between neighbouring points; without a shape ({@link #columns()} 0) the points have
- * no neighbours. Immutable; arrays are copied.
+ * no neighbours. Data whose points are stored in an order of their own (a tree's branches one after another) can
+ * still name their grid: {@link #onGrid} takes the point at each (row, column). Immutable; arrays are copied.
  */
 public final class FitData {
     private final double[] values;
@@ -23,6 +24,8 @@ public final class FitData {
     private final int columns;
     /** Uncertainty of an input behind the values, or null. */
     private final InputUncertainty inputs;
+    /** The point at grid slot row * columns + column, or null when the points are stored row by row. */
+    private final int[] pointAt;
 
     /**
      * Data without a grid shape.
@@ -47,12 +50,13 @@ public final class FitData {
 
     /** Takes the arrays as they are: the caller made them for this object alone (owned is only a marker). */
     private FitData(double[] values, double[] sigmas, int columns, boolean owned) {
-        this(values, sigmas, columns, (InputUncertainty) null);
+        this(values, sigmas, columns, (InputUncertainty) null, null);
     }
 
-    /** Takes the arrays as they are, with an input uncertainty or null. */
-    private FitData(double[] values, double[] sigmas, int columns, InputUncertainty inputs) {
+    /** Takes the arrays as they are, with an input uncertainty or null and a grid order or null. */
+    private FitData(double[] values, double[] sigmas, int columns, InputUncertainty inputs, int[] pointAt) {
         this.inputs = inputs;
+        this.pointAt = pointAt;
         if (values.length != sigmas.length) {
             throw new IllegalArgumentException("there are " + values.length + " values but " + sigmas.length
                     + " noise levels");
@@ -88,6 +92,30 @@ public final class FitData {
             }
         }
         this.usedCount = count;
+    }
+
+    /**
+     * Data on a grid of {@code columns} points per row whose points are stored in an order of their own.
+     *
+     * @param values  observed value at each point, signal units; NaN marks a missing point
+     * @param sigmas  noise standard deviation at each point, signal units
+     * @param columns points per row, dividing the number of points (positive)
+     * @param pointAt the point at each grid slot, {@code pointAt[row * columns + column]}: every point exactly once
+     */
+    public static FitData onGrid(double[] values, double[] sigmas, int columns, int[] pointAt) {
+        if (columns <= 0 || pointAt.length != values.length) {
+            throw new IllegalArgumentException("a grid of " + columns + " columns needs one slot for each of the "
+                    + values.length + " points, got " + pointAt.length);
+        }
+        boolean[] seen = new boolean[values.length];
+        for (int g : pointAt) {
+            if (g < 0 || g >= values.length || seen[g]) {
+                throw new IllegalArgumentException("the grid order must name every point exactly once (point " + g
+                        + ")");
+            }
+            seen[g] = true;
+        }
+        return new FitData(values.clone(), sigmas.clone(), columns, null, pointAt.clone());
     }
 
     public static FitData unweighted(double[] values) {
@@ -134,6 +162,17 @@ public final class FitData {
     /** Rows of the grid (frames of a kymograph), or 0 if the data have no grid shape. */
     public int rows() {
         return columns == 0 ? 0 : values.length / columns;
+    }
+
+    /** The point at a row and column of the grid (row-major unless the data were made {@link #onGrid}). */
+    public int point(int row, int column) {
+        int slot = row * columns + column;
+        return pointAt == null ? slot : pointAt[slot];
+    }
+
+    /** True when the grid's points are stored row by row ({@code point(row, column) = row * columns + column}). */
+    public boolean rowMajor() {
+        return pointAt == null;
     }
 
     /** Number of points that enter the fit. */
@@ -192,7 +231,7 @@ public final class FitData {
                         + values.length);
             }
         }
-        return new FitData(values, sigmas, columns, uncertainty);
+        return new FitData(values, sigmas, columns, uncertainty, pointAt);
     }
 
     /** The uncertainty of an input behind the values, or null when none was given. */

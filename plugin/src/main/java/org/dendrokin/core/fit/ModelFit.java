@@ -357,7 +357,7 @@ public final class ModelFit {
         for (int f = 0; f < data.rows(); f++) {
             rows.frame(f, e, jw);
             for (int c = 0; c < columns; c++) {
-                int g = f * columns + c;
+                int g = data.point(f, c);
                 double w = Math.sqrt(data.weight(g));
                 if (w == 0) {
                     continue;
@@ -475,7 +475,7 @@ public final class ModelFit {
         for (int j = 0; j < p; j++) {
             chain[j] = specs.get(j).derivative(u[j]);
         }
-        if (weightedJacobian == null && model.hasRangeEvaluation()) {
+        if (weightedJacobian == null && model.hasRangeEvaluation() && data.rowMajor()) {
             // frames are read from several threads: one pair of work arrays each
             ThreadLocal<double[][]> work = ThreadLocal.withInitial(() -> new double[][] {new double[columns],
                 new double[columns * p]});
@@ -503,7 +503,7 @@ public final class ModelFit {
         return (f, e, jw) -> {
             java.util.Arrays.fill(jw, 0);
             for (int c = 0; c < columns; c++) {
-                int g = f * columns + c;
+                int g = data.point(f, c);
                 int i = usedAt[g];
                 if (i < 0) {
                     e[c] = 0;

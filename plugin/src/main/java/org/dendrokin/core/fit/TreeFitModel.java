@@ -118,7 +118,9 @@ public final class TreeFitModel implements FitModel {
 
     /**
      * The data of this model's grid from one kymograph per branch (in this model's branch order, each on its own
-     * positions and this model's frames) and one noise level per branch.
+     * positions and this model's frames) and one noise level per branch. The data know their grid: one row a frame,
+     * every branch's positions side by side in it (the points are stored branch by branch), so that the fit's robust
+     * intervals see the residuals' correlation between neighbouring positions and frames as on a single path.
      *
      * @param kymographs   by branch name; every branch of the model must be there
      * @param sigmaByBranch noise standard deviation of each branch's samples, signal units
@@ -138,7 +140,18 @@ public final class TreeFitModel implements FitModel {
             System.arraycopy(kymo.values(), 0, values, blockStart[k], frames * columns[k]);
             Arrays.fill(sigmas, blockStart[k], blockStart[k + 1], sigma);
         }
-        return new FitData(values, sigmas);
+        int total = size / frames;
+        int[] pointAt = new int[size];
+        int first = 0;
+        for (int k = 0; k < branches.size(); k++) {
+            for (int f = 0; f < frames; f++) {
+                for (int q = 0; q < columns[k]; q++) {
+                    pointAt[f * total + first + q] = blockStart[k] + f * columns[k] + q;
+                }
+            }
+            first += columns[k];
+        }
+        return FitData.onGrid(values, sigmas, total, pointAt);
     }
 
     /** A prediction (or data) on this model's grid split into one kymograph per branch. */

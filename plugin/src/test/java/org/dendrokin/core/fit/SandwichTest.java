@@ -2,6 +2,7 @@ package org.dendrokin.core.fit;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
@@ -179,6 +180,45 @@ class SandwichTest {
             }
         }
         return e;
+    }
+
+    @Test
+    void pointsStoredInAnOrderOfTheirOwnKeepTheirGrid() {
+        // A tree's data are stored branch by branch; FitData.onGrid tells the fit where each point sits. Stored
+        // column by column and named so, a field must give the robust interval it gives stored row by row.
+        Random random = new Random(20261209L);
+        int columns = 90;
+        int rows = 70;
+        double[] rowMajor = ar1Field(columns, rows, 0.6, 0.2, random);
+        double[] stored = new double[rowMajor.length];
+        int[] pointAt = new int[rowMajor.length];
+        for (int f = 0; f < rows; f++) {
+            for (int c = 0; c < columns; c++) {
+                int point = c * rows + f;
+                stored[point] = rowMajor[f * columns + c];
+                pointAt[f * columns + c] = point;
+            }
+        }
+        double[] sigma = new double[stored.length];
+        java.util.Arrays.fill(sigma, 1);
+        Interval expected = fitLevel(rowMajor, columns).parameters().get(0).ci95();
+        FitData data = FitData.onGrid(stored, sigma, columns, pointAt);
+        assertFalse(data.rowMajor());
+        assertEquals(pointAt[5 * columns + 7], data.point(5, 7));
+        Interval got = ModelFit.fit(new Level(stored.length), data, List.of(new double[] {0}),
+                ModelFit.Options.defaults(), Progress.NONE).parameters().get(0).ci95();
+        assertTrue(expected.isRobust(), "the row-major fit found the correlation: " + expected);
+        assertEquals(expected.method(), got.method());
+        assertEquals(expected.lower(), got.lower(), 1e-9 * expected.width());
+        assertEquals(expected.upper(), got.upper(), 1e-9 * expected.width());
+        // the same points taken as if row by row lose their neighbours along the path: a different interval
+        Interval scrambled = fitLevel(stored, columns).parameters().get(0).ci95();
+        assertTrue(Math.abs(scrambled.width() - expected.width()) > 0.05 * expected.width(),
+                "a wrong grid changes the interval: " + scrambled + " vs " + expected);
+
+        int[] twice = pointAt.clone();
+        twice[1] = twice[0];
+        assertThrows(IllegalArgumentException.class, () -> FitData.onGrid(stored, sigma, columns, twice));
     }
 
     @Test

@@ -114,6 +114,38 @@ class TreeFitModelTest {
         return out;
     }
 
+    /**
+     * As {@link #session}, but each frame's noise along each branch is a moving sum of 5 independent normals scaled
+     * to sd sigma, so that neighbouring positions share it as they do in a kymograph averaged over a band and
+     * blurred by the optics.
+     */
+    private static Map<String, Kymograph> correlatedSession(double[] times, double sigma, long seed) {
+        Random random = new Random(seed);
+        Map<String, Kymograph> out = new LinkedHashMap<>();
+        int window = 5;
+        for (Map.Entry<String, double[]> e : positions().entrySet()) {
+            double[] x = e.getValue();
+            double[] ab = TRUE_AMP_BASE.get(e.getKey());
+            double[] v = new double[times.length * x.length];
+            double[] white = new double[x.length + window - 1];
+            for (int f = 0; f < times.length; f++) {
+                for (int i = 0; i < white.length; i++) {
+                    white[i] = random.nextGaussian();
+                }
+                for (int q = 0; q < x.length; q++) {
+                    double sum = 0;
+                    for (int i = 0; i < window; i++) {
+                        sum += white[q + i];
+                    }
+                    v[f * x.length + q] = ab[1] + ab[0] * closedForm(e.getKey(), x[q], times[f])
+                            + sigma * sum / Math.sqrt(window);
+                }
+            }
+            out.put(e.getKey(), new Kymograph(x, times, v, "dF/F0"));
+        }
+        return out;
+    }
+
     private static List<TreeStimulus> pulse() {
         return List.of(new TreeStimulus("trunk", Stimulus.pulse(0, 40 - X0, W, 1.0)));
     }
@@ -183,6 +215,46 @@ class TreeFitModelTest {
                 assertEquals(p.equals("D") ? D : K, value(path, p), 0.1 * (p.equals("D") ? D : K),
                         p + " from the main path, seed " + seed);
             }
+        }
+    }
+
+    @Test
+    void intervalsHoldTheTruthWhenTheNoiseIsSharedByNeighbouringPositions() {
+        // Noise shared by 5 neighbouring positions makes the estimates' variance several times what independent
+        // noise of the same sd would give; the model-based interval cannot know, the robust one reads it from the
+        // residuals of all branches laid side by side, frame by frame.
+        double[] times = range(0, 0.25, 81);
+        double sigma = 0.01;
+        TreeDomain domain = new TreeDomain(star(), 0.25);
+        TreeFitModel model = new TreeFitModel("diffusion-decay", domain, times, positions(), pulse(), STEP_S,
+                Unit.DF_F0);
+        int seeds = 40;
+        int[] robust = new int[2];
+        int[] modelBased = new int[2];
+        for (long seed = 1; seed <= seeds; seed++) {
+            FitResult r = fit(model, correlatedSession(times, sigma, 9000 + seed), sigma);
+            assertTrue(r.converged(), "fit converged, seed " + seed);
+            String[] names = {"D", "k"};
+            double[] truth = {D, K};
+            for (int j = 0; j < 2; j++) {
+                ParameterEstimate e = r.estimate(names[j]).orElseThrow();
+                assertEquals(Interval.ROBUST_WALD_T, e.ci95().method(), names[j] + ", seed " + seed);
+                Interval wald = e.otherIntervals().stream().filter(i -> i.method().equals(Interval.WALD_T))
+                        .findFirst().orElseThrow();
+                robust[j] += e.ci95().contains(truth[j]) ? 1 : 0;
+                modelBased[j] += wald.contains(truth[j]) ? 1 : 0;
+            }
+        }
+        System.out.printf(java.util.Locale.ROOT, "tree fit, noise shared by 5 positions, %d seeds: robust intervals "
+                + "hold D %d, k %d; model-based D %d, k %d%n", seeds, robust[0], robust[1], modelBased[0],
+                modelBased[1]);
+        for (int j = 0; j < 2; j++) {
+            // REF: star-graph closed form's truth [derived in the test]; a 95% interval should hold it in about 38
+            // of 40 seeds; 34 allows for the sandwich's own noise [common practice: binomial spread, sd 1.4 of 40]
+            assertTrue(robust[j] >= 34, "robust intervals held the truth in " + robust[j] + " of " + seeds);
+            // the check can fail: the model-based interval, blind to the shared noise, holds it far less often
+            assertTrue(modelBased[j] <= 32, "model-based intervals held the truth in " + modelBased[j] + " of "
+                    + seeds);
         }
     }
 
