@@ -11,6 +11,7 @@ import org.dendrokin.core.Progress;
 import org.dendrokin.core.fit.FitData;
 import org.dendrokin.core.fit.FitModel;
 import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.InputUncertainty;
 import org.dendrokin.core.fit.ModelFit;
 import org.dendrokin.core.fit.ParameterEstimate;
 import org.dendrokin.core.fit.ResidualBleaching;
@@ -130,6 +131,9 @@ public final class TreeSessionAnalysis {
         int b1 = main.preprocessing().baselineLast();
         Map<String, Kymograph> kymos = new LinkedHashMap<>();
         Map<String, Double> noise = new LinkedHashMap<>();
+        // each line's dF/F0 with the background raised by its uncertainty, for the fit's intervals
+        Map<String, Kymograph> raised = new LinkedHashMap<>();
+        double bgSd = bg.hasUncertainty() ? bg.uncertainty() : Double.NaN;
         for (String line : layout.lines()) {
             progress.checkCancelled();
             Extraction e = KymographExtractor.extract(frames, paths.get(line), pixelSizeUm, frameIntervalS, widthUm,
@@ -137,6 +141,20 @@ public final class TreeSessionAnalysis {
             DeltaF.Result pre = DeltaF.compute(bleachCorrected(e.kymograph(), perFrame, used), b0, b1);
             kymos.put(line, pre.kymograph());
             noise.put(line, pre.typicalNoiseSd());
+            if (Double.isFinite(bgSd)) {
+                double[] higher = perFrame.clone();
+                for (int f = 0; f < higher.length; f++) {
+                    higher[f] += bgSd;
+                }
+                try {
+                    raised.put(line, DeltaF.compute(bleachCorrected(e.kymograph(), higher, used), b0, b1)
+                            .kymograph());
+                } catch (IllegalArgumentException ex) {
+                    // a background raised this far leaves no signal on this line: its uncertainty is not carried
+                    raised.clear();
+                    bgSd = Double.NaN;
+                }
+            }
         }
         if (origin == null) {
             warnings.add("The tree was not fitted: the stimulus time and position are not known.");
@@ -162,38 +180,13 @@ public final class TreeSessionAnalysis {
 
         // data per branch: each line's columns split at its cuts
         Map<String, double[]> positions = new LinkedHashMap<>();
-        Map<String, Kymograph> data = new LinkedHashMap<>();
+        Map<String, Kymograph> data = byBranch(layout, kymos, positions);
         Map<String, Double> sigmas = new LinkedHashMap<>();
         for (String line : layout.lines()) {
-            Kymograph kymo = kymos.get(line);
-            double[] cuts = layout.cutsUm(line);
-            List<String> pieces = layout.branchesOf(line);
-            for (int q = 0; q < pieces.size(); q++) {
-                List<Integer> cols = new ArrayList<>();
-                for (int p = 0; p < kymo.positionCount(); p++) {
-                    double x = kymo.distanceUm(p);
-                    boolean last = q == pieces.size() - 1;
-                    if (x >= cuts[q] && (x < cuts[q + 1] || last && x <= cuts[q + 1] + 1e-9)) {
-                        cols.add(p);
-                    }
+            for (String piece : layout.branchesOf(line)) {
+                if (data.containsKey(piece)) {
+                    sigmas.put(piece, noise.get(line) > 0 ? noise.get(line) : 1.0);
                 }
-                if (cols.size() < 2) {
-                    continue;
-                }
-                double[] local = new double[cols.size()];
-                double len = tree.branch(pieces.get(q)).lengthUm();
-                for (int c = 0; c < local.length; c++) {
-                    local[c] = Math.min(len, kymo.distanceUm(cols.get(c)) - cuts[q]);
-                }
-                double[] v = new double[kymo.frameCount() * local.length];
-                for (int f = 0; f < kymo.frameCount(); f++) {
-                    for (int c = 0; c < local.length; c++) {
-                        v[f * local.length + c] = kymo.value(f, cols.get(c));
-                    }
-                }
-                positions.put(pieces.get(q), local);
-                data.put(pieces.get(q), new Kymograph(local, kymo.timesS(), v, kymo.signalUnit()));
-                sigmas.put(pieces.get(q), noise.get(line) > 0 ? noise.get(line) : 1.0);
             }
         }
         double h = Math.min(first.distanceStepUm(), width / 3);
@@ -209,6 +202,10 @@ public final class TreeSessionAnalysis {
             model = new TreeFitModel(MODEL, new TreeDomain(tree, h), first.timesS(), positions, List.of(stimulus), dt,
                     Unit.DF_F0);
             FitData fitData = model.data(data, sigmas);
+            if (!raised.isEmpty()) {
+                fitData = fitData.withInputUncertainty(backgroundShifts(layout, kymos, raised, model, sigmas,
+                        first.distanceStepUm()));
+            }
             double[] start = model.completeStart(new double[] {d, k}, fitData);
             pointTimes = pointTimes(first.timesS(), positions);
             // As for the main line: the bleaching correction's own error would otherwise end up in k; on a tree it
@@ -244,6 +241,99 @@ public final class TreeSessionAnalysis {
             entered.add(entered(line, layout, data, predicted, fit, stimAmp, origin));
         }
         return new Result(layout, kymos, noise, fit, byLine(layout, predicted, kymos), entered, stimulus, warnings);
+    }
+
+    /**
+     * Each line's kymograph split at its cuts into one kymograph per branch (branches with fewer than 2 columns are
+     * left out); the branches' positions from their own start go into {@code positions} when it is not null.
+     */
+    private static Map<String, Kymograph> byBranch(BranchedPaths layout, Map<String, Kymograph> lines,
+            Map<String, double[]> positions) {
+        TreeGeometry tree = layout.tree();
+        Map<String, Kymograph> out = new LinkedHashMap<>();
+        for (String line : layout.lines()) {
+            Kymograph kymo = lines.get(line);
+            double[] cuts = layout.cutsUm(line);
+            List<String> pieces = layout.branchesOf(line);
+            for (int q = 0; q < pieces.size(); q++) {
+                List<Integer> cols = new ArrayList<>();
+                for (int p = 0; p < kymo.positionCount(); p++) {
+                    double x = kymo.distanceUm(p);
+                    boolean last = q == pieces.size() - 1;
+                    if (x >= cuts[q] && (x < cuts[q + 1] || last && x <= cuts[q + 1] + 1e-9)) {
+                        cols.add(p);
+                    }
+                }
+                if (cols.size() < 2) {
+                    continue;
+                }
+                double[] local = new double[cols.size()];
+                double len = tree.branch(pieces.get(q)).lengthUm();
+                for (int c = 0; c < local.length; c++) {
+                    local[c] = Math.min(len, kymo.distanceUm(cols.get(c)) - cuts[q]);
+                }
+                double[] v = new double[kymo.frameCount() * local.length];
+                for (int f = 0; f < kymo.frameCount(); f++) {
+                    for (int c = 0; c < local.length; c++) {
+                        v[f * local.length + c] = kymo.value(f, cols.get(c));
+                    }
+                }
+                if (positions != null) {
+                    positions.put(pieces.get(q), local);
+                }
+                out.put(pieces.get(q), new Kymograph(local, kymo.timesS(), v, kymo.signalUnit()));
+            }
+        }
+        return out;
+    }
+
+    /**
+     * The background's uncertainty on the tree fit's grid, as for a single path ({@code
+     * SessionAnalysis.backgroundUncertainty}): the background's error is taken as independent from one stretch of
+     * {@value SessionAnalysis#BACKGROUND_BLOCK_UM} um of a line to the next, and each stretch's shift is the change
+     * of the dF/F0 there when the background is raised by its uncertainty (bleaching curve and baseline frames
+     * held).
+     *
+     * @param lines  each line's dF/F0
+     * @param raised each line's dF/F0 with the background raised by its uncertainty
+     */
+    private static InputUncertainty backgroundShifts(BranchedPaths layout, Map<String, Kymograph> lines,
+            Map<String, Kymograph> raised, TreeFitModel model, Map<String, Double> sigmas, double stepUm) {
+        int block = Math.max(1, (int) Math.round(SessionAnalysis.BACKGROUND_BLOCK_UM / stepUm));
+        List<double[]> shifts = new ArrayList<>();
+        for (String line : layout.lines()) {
+            Kymograph base = lines.get(line);
+            Kymograph up = raised.get(line);
+            int nx = base.positionCount();
+            int nt = base.frameCount();
+            for (int from = 0; from < nx; from += block) {
+                Map<String, Kymograph> moved = new LinkedHashMap<>();
+                for (String other : layout.lines()) {
+                    Kymograph k = lines.get(other);
+                    double[] v = new double[k.frameCount() * k.positionCount()];
+                    if (other.equals(line)) {
+                        for (int f = 0; f < nt; f++) {
+                            for (int p = from; p < Math.min(nx, from + block); p++) {
+                                double d = up.value(f, p) - base.value(f, p);
+                                v[f * nx + p] = Double.isFinite(d) ? d : 0;
+                            }
+                        }
+                    }
+                    moved.put(other, new Kymograph(k.distancesUm(), k.timesS(), v, k.signalUnit()));
+                }
+                Map<String, Kymograph> pieces = byBranch(layout, moved, null);
+                pieces.keySet().retainAll(sigmas.keySet());
+                double[] shift = model.data(pieces, sigmas).values();
+                boolean any = false;
+                for (double d : shift) {
+                    any |= d != 0;
+                }
+                if (any) {
+                    shifts.add(shift);
+                }
+            }
+        }
+        return new InputUncertainty("background", shifts);
     }
 
     /** The frame time of every point of a tree fit's grid (per branch, frame by frame, its positions). */

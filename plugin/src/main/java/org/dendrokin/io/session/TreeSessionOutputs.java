@@ -156,8 +156,10 @@ public final class TreeSessionOutputs {
         if (t.fit() != null && t.fit().converged()) {
             h.append("<p>One fit of the ").append(TreeSessionAnalysis.MODEL).append(" model to all branches at once "
                     + "(shared D and k; an amplitude and a baseline a branch; the stimulus held where the main line's "
-                    + "fit put it):</p>\n<table>\n<tr><th>Parameter</th><th>Value</th><th>95% interval</th>"
-                    + "<th>Unit</th></tr>\n");
+                    + "fit put it). The interval is the robust one when neighbouring samples share their noise, widened "
+                    + "by the background's uncertainty when the background was estimated (its method says which; "
+                    + "Student t alone is in results.json):</p>\n<table>\n<tr><th>Parameter</th><th>Value</th>"
+                    + "<th>95% interval</th><th>Interval method</th><th>Unit</th></tr>\n");
             for (String name : List.of("D", "k")) {
                 ParameterEstimate e = t.fit().estimate(name).orElse(null);
                 if (e == null) {
@@ -166,6 +168,8 @@ public final class TreeSessionOutputs {
                 h.append("<tr><td>").append(name).append("</td><td>").append(TreeSession.number(e.value()))
                         .append("</td><td>").append(e.ci95() == null ? "n/a" : TreeSession.number(e.ci95().lower())
                                 + " to " + TreeSession.number(e.ci95().upper()))
+                        .append("</td><td title=\"").append(e.ci95() == null ? "" : esc(e.ci95().note()))
+                        .append("\">").append(e.ci95() == null ? "" : esc(e.ci95().method()))
                         .append("</td><td>").append(esc(e.unit().symbol())).append("</td></tr>\n");
             }
             h.append("</table>\n");

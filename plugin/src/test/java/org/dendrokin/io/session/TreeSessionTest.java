@@ -66,6 +66,17 @@ class TreeSessionTest {
         // generator]; 10% as the issue asks
         assertEquals(DemoTreeSessionGenerator.D, d, 0.1 * DemoTreeSessionGenerator.D, "D (um^2/s)");
         assertEquals(DemoTreeSessionGenerator.K, k, 0.1 * DemoTreeSessionGenerator.K, "k (1/s)");
+        // The intervals are the robust ones (neighbouring positions share their noise) widened by the background's
+        // uncertainty, and hold the truth; Student t's alone is kept beside them.
+        for (String name : new String[] {"D", "k"}) {
+            JsonObject e = p.getAsJsonObject(name);
+            assertEquals("robust-wald-t+background", e.get("ci_method").getAsString(), name);
+            JsonArray ci = e.getAsJsonArray("ci95");
+            double truth = name.equals("D") ? DemoTreeSessionGenerator.D : DemoTreeSessionGenerator.K;
+            // REF: the generator's truth [derived in the generator]
+            assertTrue(ci.get(0).getAsDouble() <= truth && truth <= ci.get(1).getAsDouble(), name + " interval " + ci);
+            assertTrue(e.getAsJsonArray("other_intervals").toString().contains("\"wald-t\""), name);
+        }
         // the side line next to the stimulus carries a clear signal: what entered it is what the model carries
         JsonObject nearSide = tree.getAsJsonArray("entered_side_branches").get(0).getAsJsonObject();
         assertEquals("side_a", nearSide.get("line").getAsString());
