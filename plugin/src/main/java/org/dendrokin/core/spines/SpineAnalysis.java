@@ -57,10 +57,11 @@ public final class SpineAnalysis {
      *                         stimulus is not known)
      * @param shaftPeakDeltaF  the shaft's peak dF/F0 at each column (3-frame average after the stimulus)
      * @param detection        how the heads were detected, or null when detection was off
+     * @param pixelSizeUm      the movie's pixel size, um (the heads' places are in its pixels)
      * @param warnings         plain sentences
      */
     public record Result(double[] timesS, List<Spine> spines, double[] shaftDistanceUm, double[] shaftPeakDeltaF,
-            SpineDetector.Detection detection, List<String> warnings) {
+            SpineDetector.Detection detection, double pixelSizeUm, List<String> warnings) {
         public Result {
             timesS = timesS.clone();
             spines = List.copyOf(spines);
@@ -171,7 +172,7 @@ public final class SpineAnalysis {
                 shaftPeak[p] = ResponseMeasures.of(times, shaft.column(p), in.stimulusTimeS()).peak();
             }
         }
-        return new Result(times, spines, shaftD, shaftPeak, detection, warnings);
+        return new Result(times, spines, shaftD, shaftPeak, detection, px, warnings);
     }
 
     /** A site and its place relative to the path: arc length (pixels), signed distance (pixels), at an end. */

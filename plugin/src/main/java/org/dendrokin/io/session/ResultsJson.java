@@ -188,6 +188,7 @@ public final class ResultsJson {
             j.addProperty("source", sp.site().source().word());
             j.add("x_px", finiteOrNull(sp.site().xPx()));
             j.add("y_px", finiteOrNull(sp.site().yPx()));
+            j.add("radius_px", finiteOrNull(sp.radiusUm() / r.pixelSizeUm()));
             j.add("position_um", finiteOrNull(sp.positionUm()));
             j.addProperty("side", sp.side().word());
             j.add("off_path_um", finiteOrNull(sp.offPathUm()));

@@ -72,8 +72,8 @@ public final class SpineOutputs {
     }
 
     /** The header of spines.csv. */
-    static final String[] HEADER = {"id", "label", "source", "x_px", "y_px", "position_um", "side", "off_path_um",
-        "base_position_um", "distance_from_stimulus_um", "stimulated", "peak_dF_F0", "time_to_peak_s",
+    static final String[] HEADER = {"id", "label", "source", "x_px", "y_px", "radius_px", "position_um", "side",
+        "off_path_um", "base_position_um", "distance_from_stimulus_um", "stimulated", "peak_dF_F0", "time_to_peak_s",
         "decay_time_s", "tau_neck_s", "tau_neck_ci_low_s", "tau_neck_ci_high_s", "tau_neck_ci_method",
         "tau_neck_determined", "not_fitted"};
 
@@ -87,7 +87,7 @@ public final class SpineOutputs {
                     boolean ci = tau != null && tau.ci95() != null;
                     csv.printRecord(sp.id(), sp.site().label(), sp.site().source().word(),
                             Numbers.forFile(sp.site().xPx()), Numbers.forFile(sp.site().yPx()),
-                            Numbers.forFile(sp.positionUm()), sp.side().word(), Numbers.forFile(sp.offPathUm()),
+                            Numbers.forFile(sp.radiusUm() / r.pixelSizeUm()), Numbers.forFile(sp.positionUm()), sp.side().word(), Numbers.forFile(sp.offPathUm()),
                             Numbers.forFile(sp.basePositionUm()), Numbers.forFile(sp.distanceFromStimulusUm()),
                             sp.stimulated(), Numbers.forFile(sp.peakDeltaF()), Numbers.forFile(sp.timeToPeakS()),
                             Numbers.forFile(sp.decayTimeS()), tau == null ? "" : Numbers.forFile(tau.value()),
