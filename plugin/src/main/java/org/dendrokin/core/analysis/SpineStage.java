@@ -6,6 +6,9 @@ import java.util.List;
 import java.util.Locale;
 
 import org.dendrokin.core.Progress;
+import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.KymographFits;
+import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.motion.MotionTrace;
 import org.dendrokin.core.preprocess.BleachCorrection;
 import org.dendrokin.core.preprocess.Preprocessing;
@@ -16,7 +19,8 @@ import org.dendrokin.core.spines.SpineInputs;
 /**
  * The spines of a session, after its analysis: the heads are measured in the same movie, with the same background,
  * bleaching correction and baseline frames as the shaft, and fitted against the shaft's dF/F0 kymograph
- * ({@link SpineAnalysis}). Heads are found in the mean of the baseline frames of the structural channel when there is
+ * ({@link SpineAnalysis}), driven by the session's fitted model of the shaft where it describes the kymograph
+ * ({@link #shaftModel}). Heads are found in the mean of the baseline frames of the structural channel when there is
  * one (its image does not change with the signal), otherwise of the signal channel.
  */
 public final class SpineStage {
@@ -53,13 +57,45 @@ public final class SpineStage {
                     largestShiftUm(a.motion().trace()), spines.settings().headRadiusUm() / 2));
         }
         Preprocessing.Stimulus s = a.stimulus();
+        Kymograph shaft = pre.deltaF().kymograph();
+        FitResult model = spines.fittedShaft() ? shaftModel(a, shaft, warnings) : null;
         SpineInputs in = new SpineInputs(reference, request.signal(), request.path(), request.pixelSizeUm(),
-                request.pathWidthUm(), pre.deltaF().kymograph(), background, bleach, pre.baselineFirst(),
+                request.pathWidthUm(), shaft, background, bleach, pre.baselineFirst(),
                 pre.baselineLast(), s.known() ? s.timeS() : Double.NaN, s.known() ? s.positionUm() : Double.NaN,
-                spines.given());
+                spines.given(), model == null ? null : new Kymograph(shaft.distancesUm(), shaft.timesS(),
+                        model.fitted(), shaft.signalUnit()), model == null ? "" : model.model());
         SpineAnalysis.Result result = SpineAnalysis.run(in, spines.settings(), progress);
         warnings.addAll(result.warnings());
         return new SpineOutcome(spines, result, warnings);
+    }
+
+    /**
+     * The session's best fit when its prediction can drive the neck fits: it converged, its residuals do not show
+     * that its model misses the data, and it was fitted to the shaft's dF/F0 itself (no calibration or
+     * normalisation in between). Null otherwise, with a sentence saying why when there was a fit.
+     */
+    static FitResult shaftModel(AnalysisResult a, Kymograph shaft, List<String> warnings) {
+        KymographFits.Outcome fits = a.fits();
+        FitResult best = fits == null ? null : fits.best().orElse(null);
+        if (best == null || best.fitted() == null) {
+            return null;
+        }
+        Kymograph fitted = a.calibrated().signal();
+        boolean same = fitted.signalUnit().equals(shaft.signalUnit())
+                && fitted.frameCount() == shaft.frameCount() && fitted.positionCount() == shaft.positionCount()
+                && Arrays.equals(fitted.values(), shaft.values()) && best.fitted().length == fitted.values().length;
+        if (!same) {
+            warnings.add("The neck fits were driven by the shaft's measured dF/F0: the fitted model describes the "
+                    + "calibrated or normalised signal, not the dF/F0 the heads are compared with.");
+            return null;
+        }
+        if (fits.isMisfit(best.model())) {
+            warnings.add("The neck fits were driven by the shaft's measured dF/F0, since the " + best.model()
+                    + " model does not describe the kymograph; its noise makes the neck time constants' intervals "
+                    + "narrower than they should be (see the guide's chapter on spines).");
+            return null;
+        }
+        return best;
     }
 
     /**

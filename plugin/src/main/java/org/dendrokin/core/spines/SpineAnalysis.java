@@ -28,6 +28,13 @@ import org.dendrokin.core.preprocess.Robust;
  * through the neck, and the spine counts as stimulated when the jump's 95% interval lies above zero. Its neck time
  * constant then comes mostly from how fast that jump decays.
  *
+ * <p>The shaft's signal that drives the fit. The measured kymograph carries its own noise, and its columns are
+ * averages along the path (the band, the optics, the driver's weights) that flatten a narrow pulse near the stimulus;
+ * a noisy or flattened input biases tau_neck (errors in variables) and makes its interval too narrow. When the
+ * session's fitted model describes the shaft's kymograph ({@link SpineInputs#shaftModel}), its prediction drives
+ * the fits instead (its columns only interpolated, not averaged); the measured kymograph still gives the shaft's
+ * time course in the outputs and the checks of whether the shaft responded.
+ *
  * <p>What can be measured: the head follows the shaft with a lag of about tau_neck, so a tau_neck well below the
  * frame interval cannot be told from zero, and one at a spine whose shaft signal changes slowly (far from the
  * stimulus) is poorly determined; the interval says so. The model assumes the head's disc sees the head alone;
@@ -58,10 +65,11 @@ public final class SpineAnalysis {
      * @param shaftPeakDeltaF  the shaft's peak dF/F0 at each column (3-frame average after the stimulus)
      * @param detection        how the heads were detected, or null when detection was off
      * @param pixelSizeUm      the movie's pixel size, um (the heads' places are in its pixels)
+     * @param shaftDriver      what drove the neck fits: the fitted model's name, or empty for the measured kymograph
      * @param warnings         plain sentences
      */
     public record Result(double[] timesS, List<Spine> spines, double[] shaftDistanceUm, double[] shaftPeakDeltaF,
-            SpineDetector.Detection detection, double pixelSizeUm, List<String> warnings) {
+            SpineDetector.Detection detection, double pixelSizeUm, String shaftDriver, List<String> warnings) {
         public Result {
             timesS = timesS.clone();
             spines = List.copyOf(spines);
@@ -172,7 +180,7 @@ public final class SpineAnalysis {
                 shaftPeak[p] = ResponseMeasures.of(times, shaft.column(p), in.stimulusTimeS()).peak();
             }
         }
-        return new Result(times, spines, shaftD, shaftPeak, detection, px, warnings);
+        return new Result(times, spines, shaftD, shaftPeak, detection, px, in.shaftModelName(), warnings);
     }
 
     /** A site and its place relative to the path: arc length (pixels), signed distance (pixels), at an end. */
@@ -211,6 +219,11 @@ public final class SpineAnalysis {
         double offsetSdUm = Math.max(offPathUm * NECK_SLOPE_SD, px);
         ShaftDriver driver = new ShaftDriver(in.shaft(), positionUm - 4 * offsetSdUm, positionUm + 4 * offsetSdUm,
                 settings.shaftSmoothingUm());
+        // A model carries no noise to average: its columns are only interpolated (weights of one column spacing).
+        ShaftDriver fitDriver = in.shaftModel() == null ? driver : new ShaftDriver(in.shaftModel(),
+                positionUm - 4 * offsetSdUm, positionUm + 4 * offsetSdUm,
+                in.shaft().distanceStepUm() > 0 ? Math.min(settings.shaftSmoothingUm(), in.shaft().distanceStepUm())
+                        : settings.shaftSmoothingUm());
         double[] base = new double[times.length];
         Arrays.fill(base, Double.NaN);
         if (driver.usable()) {
@@ -241,14 +254,14 @@ public final class SpineAnalysis {
             notFitted = "the head or the shaft at its base did not respond clearly above the noise";
         } else {
             if (jumpPossible) {
-                FitResult withJump = NeckExchangeFit.fit(times, head, noise, driver, positionUm, offsetSdUm,
+                FitResult withJump = NeckExchangeFit.fit(times, head, noise, fitDriver, positionUm, offsetSdUm,
                         in.stimulusTimeS(), settings.headDecayPerS(), true, settings.profiles(), progress);
                 stimulated = withJump.converged() && withJump.estimate(NeckExchangeModel.JUMP)
                         .map(j -> j.ci95() != null && j.ci95().lower() > 0).orElse(false);
                 fit = stimulated ? withJump : null;
             }
             if (fit == null) {
-                fit = NeckExchangeFit.fit(times, head, noise, driver, positionUm, offsetSdUm, in.stimulusTimeS(),
+                fit = NeckExchangeFit.fit(times, head, noise, fitDriver, positionUm, offsetSdUm, in.stimulusTimeS(),
                         settings.headDecayPerS(), false, settings.profiles(), progress);
             }
         }

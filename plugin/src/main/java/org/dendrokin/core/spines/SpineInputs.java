@@ -29,11 +29,24 @@ import org.dendrokin.core.path.DendritePath;
  * @param stimulusTimeS       stimulus time, s, or NaN when not known
  * @param stimulusPositionUm  stimulus position along the path, um, or NaN
  * @param given               heads the user gave (points or ovals), in pixel coordinates; may be empty
+ * @param shaftModel          the shaft's dF/F0 as a fitted model describes it, on the grid of {@code shaft}, or null:
+ *                            when given, the neck fits are driven by it instead of the measured kymograph (whose
+ *                            noise and smoothing along the path bias them; see {@link SpineAnalysis})
+ * @param shaftModelName      the model's name, for the record (empty without a model)
  */
 public record SpineInputs(float[] referenceImage, FrameSource frames, DendritePath path, double pixelSizeUm,
         double pathWidthUm, Kymograph shaft, double[] backgroundPerFrame, double[] bleachPerFrame,
         int baselineFirst, int baselineLast, double stimulusTimeS, double stimulusPositionUm,
-        List<SpineSite> given) {
+        List<SpineSite> given, Kymograph shaftModel, String shaftModelName) {
+    /** Inputs whose neck fits are driven by the measured kymograph. */
+    public SpineInputs(float[] referenceImage, FrameSource frames, DendritePath path, double pixelSizeUm,
+            double pathWidthUm, Kymograph shaft, double[] backgroundPerFrame, double[] bleachPerFrame,
+            int baselineFirst, int baselineLast, double stimulusTimeS, double stimulusPositionUm,
+            List<SpineSite> given) {
+        this(referenceImage, frames, path, pixelSizeUm, pathWidthUm, shaft, backgroundPerFrame, bleachPerFrame,
+                baselineFirst, baselineLast, stimulusTimeS, stimulusPositionUm, given, null, "");
+    }
+
     public SpineInputs {
         Checks.require(referenceImage != null && frames != null && path != null && shaft != null
                 && backgroundPerFrame != null, "a spine analysis needs the reference image, the frames, the path, "
@@ -54,6 +67,15 @@ public record SpineInputs(float[] referenceImage, FrameSource frames, DendritePa
         backgroundPerFrame = backgroundPerFrame.clone();
         bleachPerFrame = bleachPerFrame == null ? null : bleachPerFrame.clone();
         given = given == null ? List.of() : List.copyOf(given);
+        Checks.require(shaftModel == null || shaftModel.frameCount() == shaft.frameCount()
+                && shaftModel.positionCount() == shaft.positionCount(), "the shaft's model must be on the grid of "
+                + "its kymograph");
+        shaftModelName = shaftModel == null || shaftModelName == null ? "" : shaftModelName;
+    }
+
+    /** The kymograph that drives the neck fits: the shaft's model when there is one, else its measured dF/F0. */
+    public Kymograph driver() {
+        return shaftModel != null ? shaftModel : shaft;
     }
 
     @Override

@@ -177,7 +177,10 @@ public final class ResultsJson {
         settings.addProperty("threshold_sd", set.thresholdSd());
         settings.addProperty("head_decay_per_s", set.headDecayPerS());
         settings.addProperty("rois", s.request().source());
+        settings.addProperty("fitted_shaft", s.request().fittedShaft());
         o.add("settings", settings);
+        o.addProperty("shaft_signal", r.shaftDriver().isEmpty() ? "measured kymograph"
+                : "fitted " + r.shaftDriver() + " model");
         o.addProperty("file", SpineOutputs.SPINES_CSV);
         o.addProperty("traces_file", SpineOutputs.TRACES_CSV);
         JsonArray list = new JsonArray();

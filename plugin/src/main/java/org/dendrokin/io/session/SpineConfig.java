@@ -40,16 +40,23 @@ public final class SpineConfig {
     /** The key in session.json. */
     public static final String KEY = "spines";
     private static final Set<String> KEYS = Set.of("detect", "min_distance_um", "max_distance_um", "head_radius_um",
-            "threshold_sd", "head_decay_per_s", "stimulated_within_um", "profiles", "rois");
+            "threshold_sd", "head_decay_per_s", "stimulated_within_um", "profiles", "rois", "fitted_shaft");
 
     private final SpineSettings settings;
     private final String rois;
+    private final boolean fittedShaft;
     private final List<String> warnings;
 
-    private SpineConfig(SpineSettings settings, String rois, List<String> warnings) {
+    private SpineConfig(SpineSettings settings, String rois, boolean fittedShaft, List<String> warnings) {
         this.settings = settings;
         this.rois = rois;
+        this.fittedShaft = fittedShaft;
         this.warnings = List.copyOf(warnings);
+    }
+
+    /** Whether the neck fits may be driven by the shaft's fitted model (key {@code fitted_shaft}, default true). */
+    public boolean fittedShaft() {
+        return fittedShaft;
     }
 
     /** The settings; detection as asked. */
@@ -104,7 +111,7 @@ public final class SpineConfig {
                 orDefault(s.optionalNonNegative("head_decay_per_s"), d.headDecayPerS()),
                 orDefault(s.optionalNonNegative("stimulated_within_um"), d.stimulatedWithinUm()),
                 s.flag("profiles", d.profiles()));
-        return new SpineConfig(settings, rois, warnings);
+        return new SpineConfig(settings, rois, s.flag("fitted_shaft", true), warnings);
     }
 
     private static double orDefault(Double v, double d) {
@@ -122,7 +129,7 @@ public final class SpineConfig {
      */
     public SpineRequest request(Path sessionDir, int widthPx, int heightPx) {
         if (rois == null) {
-            return new SpineRequest(settings, List.of(), "");
+            return new SpineRequest(settings, List.of(), "", fittedShaft);
         }
         Path file = sessionDir.resolve(rois);
         if (!Files.isRegularFile(file)) {
@@ -133,7 +140,7 @@ public final class SpineConfig {
         if (sites.isEmpty()) {
             throw new InputException(file, "holds no point or oval ROI to take as a spine head");
         }
-        return new SpineRequest(settings, sites, file.getFileName().toString());
+        return new SpineRequest(settings, sites, file.getFileName().toString(), fittedShaft);
     }
 
     /** The point and oval ROIs of a .roi file or .zip ROI set as heads, each checked to lie inside the image. */

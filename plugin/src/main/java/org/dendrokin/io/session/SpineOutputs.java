@@ -87,7 +87,8 @@ public final class SpineOutputs {
                     boolean ci = tau != null && tau.ci95() != null;
                     csv.printRecord(sp.id(), sp.site().label(), sp.site().source().word(),
                             Numbers.forFile(sp.site().xPx()), Numbers.forFile(sp.site().yPx()),
-                            Numbers.forFile(sp.radiusUm() / r.pixelSizeUm()), Numbers.forFile(sp.positionUm()), sp.side().word(), Numbers.forFile(sp.offPathUm()),
+                            Numbers.forFile(sp.radiusUm() / r.pixelSizeUm()), Numbers.forFile(sp.positionUm()),
+                            sp.side().word(), Numbers.forFile(sp.offPathUm()),
                             Numbers.forFile(sp.basePositionUm()), Numbers.forFile(sp.distanceFromStimulusUm()),
                             sp.stimulated(), Numbers.forFile(sp.peakDeltaF()), Numbers.forFile(sp.timeToPeakS()),
                             Numbers.forFile(sp.decayTimeS()), tau == null ? "" : Numbers.forFile(tau.value()),
@@ -144,9 +145,11 @@ public final class SpineOutputs {
                 + "head's dF/F0 is the mean of a disc around its centre, with the background, bleaching correction "
                 + "and baseline of the shaft. The neck time constant tau_neck is fitted with the head as one "
                 + "compartment exchanging with the shaft under it, dc/dt = (u(t) - c)/tau_neck - k_head c, driven "
-                + "by the shaft's measured dF/F0 u at the neck's base; intervals are 95%%.", r.spines().size(),
+                + "by the shaft's dF/F0 u at the neck's base (%s); intervals are 95%%.", r.spines().size(),
                 r.spines().size() == 1 ? "" : "s", detected, r.spines().size() - detected,
-                s.request().source().isEmpty() ? "" : " in " + s.request().source())));
+                s.request().source().isEmpty() ? "" : " in " + s.request().source(),
+                r.shaftDriver().isEmpty() ? "as measured" : "as the fitted " + r.shaftDriver() + " model describes "
+                        + "it, which carries no noise; " + TRACES_CSV + " gives the measured one")));
         h.append("</p>\n<table>\n<tr><th>id</th><th>position (um)</th><th>side</th><th>from stimulus (um)</th>"
                 + "<th>peak dF/F0</th><th>time to peak (s)</th><th>decay time (s)</th><th>tau_neck (s)</th>"
                 + "<th>95% interval</th></tr>\n");

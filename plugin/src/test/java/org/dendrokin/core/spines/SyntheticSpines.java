@@ -4,8 +4,12 @@ import java.util.List;
 import java.util.SplittableRandom;
 
 import org.dendrokin.core.Progress;
+import org.dendrokin.core.fit.DiffusionDecayPulse;
+import org.dendrokin.core.fit.FitResult;
+import org.dendrokin.core.fit.KymographFits;
 import org.dendrokin.core.kymo.Extraction;
 import org.dendrokin.core.kymo.FrameSource;
+import org.dendrokin.core.kymo.Kymograph;
 import org.dendrokin.core.kymo.KymographExtractor;
 import org.dendrokin.core.path.DendritePath;
 import org.dendrokin.core.preprocess.BackgroundEstimator;
@@ -53,6 +57,14 @@ final class SyntheticSpines {
     }
 
     static SyntheticSpines of(SessionSpec spec, List<SpineSite> given) {
+        return of(spec, given, true);
+    }
+
+    /**
+     * @param fittedShaft drive the neck fits by the shaft's fitted model, as a session does; false: by the measured
+     *                    kymograph
+     */
+    static SyntheticSpines of(SessionSpec spec, List<SpineSite> given, boolean fittedShaft) {
         SessionGenerator.Rendering r = SessionGenerator.render(spec);
         Truth t = r.truth();
         FrameSource frames = new RenderedFrames(r, spec.channels().signalChannel() - 1);
@@ -84,10 +96,35 @@ final class SyntheticSpines {
             }
         }
         float[] reference = meanFrame(frames, pre.baselineFirst(), pre.baselineLast());
-        SpineInputs in = new SpineInputs(reference, frames, path, px, width, pre.deltaF().kymograph(), background,
+        Kymograph shaft = pre.deltaF().kymograph();
+        Kymograph model = fittedShaft ? shaftModel(shaft, pre, t.stimulus().timeS(), t.stimulus().pathPositionUm())
+                : null;
+        SpineInputs in = new SpineInputs(reference, frames, path, px, width, shaft, background,
                 bleach, pre.baselineFirst(), pre.baselineLast(), t.stimulus().timeS(), t.stimulus().pathPositionUm(),
-                given);
+                given, model, model == null ? "" : DiffusionDecayPulse.NAME);
         return new SyntheticSpines(r, in);
+    }
+
+    /**
+     * The shaft's dF/F0 as the diffusion-decay fit describes it, fitted as the session analysis fits it (its
+     * baseline frames, the residual bleaching when the bleaching was corrected), or null when the fit did not
+     * converge or its residuals show that the model misses the data. The generator's shaft signal is a diffusing,
+     * decaying pulse, so this is the model a session would find best.
+     */
+    static Kymograph shaftModel(Kymograph shaft, Preprocessing.Result pre, double stimulusS, double stimulusUm) {
+        KymographFits.Setup setup = KymographFits.Setup.of(stimulusS, stimulusUm)
+                .withModels(List.of(DiffusionDecayPulse.NAME))
+                .withBaselineFrames(pre.baselineFirst(), pre.baselineLast());
+        if (pre.bleach().applied()) {
+            setup = setup.withResidualBleaching(0.5 * (shaft.timeS(pre.baselineFirst())
+                    + shaft.timeS(pre.baselineLast())));
+        }
+        KymographFits.Outcome o = KymographFits.fit(shaft, setup, Progress.NONE);
+        FitResult best = o.best().orElse(null);
+        if (best == null || best.fitted() == null || o.isMisfit(best.model())) {
+            return null;
+        }
+        return new Kymograph(shaft.distancesUm(), shaft.timesS(), best.fitted(), shaft.signalUnit());
     }
 
     /** Mean of up to 10 frames spread over the baseline, as the session analysis makes its reference image. */

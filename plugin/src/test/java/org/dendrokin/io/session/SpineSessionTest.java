@@ -122,6 +122,44 @@ class SpineSessionTest {
     }
 
     @Test
+    void theNeckFitsAreDrivenByTheShaftsFittedModelUnlessAskedOtherwise(@TempDir Path tmp) throws Exception {
+        JsonObject results = JsonParser.parseString(Files.readString(out.resolve("demo").resolve("results.json")))
+                .getAsJsonObject();
+        // the demo's diffusion-decay fit describes its kymograph, so it drives the heads
+        assertEquals("fitted diffusion-decay model", results.getAsJsonObject("spines").get("shaft_signal")
+                .getAsString());
+        assertTrue(Files.readString(out.resolve("demo").resolve("report.html"))
+                .contains("as the fitted diffusion-decay model describes it"), "the report says what drove the fits");
+
+        Path measured = sessionWith(tmp.resolve("measured"), "{\"head_decay_per_s\": 0.0336, \"fitted_shaft\": false}");
+        SessionRunner.analyze(measured, tmp.resolve("measured-out"), Progress.NONE);
+        JsonObject m = JsonParser.parseString(Files.readString(tmp.resolve("measured-out").resolve("results.json")))
+                .getAsJsonObject().getAsJsonObject("spines");
+        assertEquals("measured kymograph", m.get("shaft_signal").getAsString());
+        assertFalse(m.getAsJsonObject("settings").get("fitted_shaft").getAsBoolean());
+        // the same heads, fitted against another input: the stimulated spine's tau_neck moves, but both hold the
+        // generator's truth (REF: truth.json [common practice: synthetic data with known truth])
+        JsonObject truth = JsonParser.parseString(Files.readString(DEMO.resolve("truth.json"))).getAsJsonObject();
+        int stimulatedId = truth.getAsJsonObject("stimulus").get("stimulated_spine_id").getAsInt();
+        double tau = Double.NaN;
+        for (var e : truth.getAsJsonArray("spines")) {
+            if (e.getAsJsonObject().get("id").getAsInt() == stimulatedId) {
+                tau = e.getAsJsonObject().get("tau_neck_s").getAsDouble();
+            }
+        }
+        for (JsonObject spines : List.of(results.getAsJsonObject("spines"), m)) {
+            for (var e : spines.getAsJsonArray("spines")) {
+                JsonObject sp = e.getAsJsonObject();
+                if (sp.get("stimulated").getAsBoolean()) {
+                    JsonArray ci = sp.getAsJsonObject("tau_neck").getAsJsonArray("ci95");
+                    assertTrue(ci.get(0).getAsDouble() <= tau && tau <= ci.get(1).getAsDouble(),
+                            spines.get("shaft_signal").getAsString() + ": " + ci + " holds " + tau);
+                }
+            }
+        }
+    }
+
+    @Test
     void aSpineRoiOutsideTheImageIsBadInputNamingTheFile(@TempDir Path tmp) throws Exception {
         Path session = sessionWith(tmp.resolve("s"), "{\"rois\": \"spines.roi\"}", new PointRoi(500, 10));
         InputException e = assertThrows(InputException.class,
