@@ -57,6 +57,10 @@ import com.google.gson.JsonPrimitive;
  * {@code --stimulus-xy}, or the ImageJ dialog) has {@code "overrides": {"given_in", "channel",
  * "structural_channel", "motion", "stimulus_xy_px": [x, y]}} holding only the settings given; the other sections
  * describe the run with them in place. Without overrides the key is absent.
+ *
+ * <p>It is one file on purpose: it is the one place that knows the layout of results.json, section by section, and
+ * the sections share their conventions (null for what JSON cannot hold, fits in one shape); split, the layout would
+ * be spread over several classes that must agree.
  */
 public final class ResultsJson {
     /** File name of the results. */
