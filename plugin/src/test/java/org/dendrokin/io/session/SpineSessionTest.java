@@ -160,6 +160,22 @@ class SpineSessionTest {
     }
 
     @Test
+    void aCalibratedSessionDrivesTheNecksByTheMeasuredKymographAndSaysWhy(@TempDir Path tmp) throws Exception {
+        // the fits describe the concentration, not the dF/F0 the heads are compared with
+        Path calibrated = sessionWith(tmp.resolve("calibrated"), "{\"head_decay_per_s\": 0.0336}");
+        JsonObject s = JsonParser.parseString(Files.readString(calibrated.resolve("session.json"))).getAsJsonObject();
+        s.add("calibration", JsonParser.parseString("{\"method\": \"dynamic-range\", \"kd_uM\": 0.345, "
+                + "\"rf\": 100, \"resting_uM\": 0.05}"));
+        Files.writeString(calibrated.resolve("session.json"), s.toString());
+        SessionRunner.analyze(calibrated, tmp.resolve("calibrated-out"), Progress.NONE);
+        JsonObject spines = JsonParser.parseString(Files.readString(tmp.resolve("calibrated-out")
+                .resolve("results.json"))).getAsJsonObject().getAsJsonObject("spines");
+        assertEquals("measured kymograph", spines.get("shaft_signal").getAsString());
+        assertTrue(spines.getAsJsonArray("warnings").toString().contains("calibrated or normalised signal"),
+                spines.getAsJsonArray("warnings").toString());
+    }
+
+    @Test
     void aSpineRoiOutsideTheImageIsBadInputNamingTheFile(@TempDir Path tmp) throws Exception {
         Path session = sessionWith(tmp.resolve("s"), "{\"rois\": \"spines.roi\"}", new PointRoi(500, 10));
         InputException e = assertThrows(InputException.class,
