@@ -113,7 +113,14 @@ public final class DemoTreeSessionGenerator {
 
     /** Writes {@code branches.tif}, {@code branches.zip} and {@code session.json} into {@code dir}. */
     public static void write(Path dir) {
-        writeTiff(render(), dir.resolve("branches.tif"));
+        write(dir, SEED);
+    }
+
+    /**
+     * As {@link #write(Path)}, with the camera noise drawn from another seed (the scene and its truth are the same).
+     */
+    public static void write(Path dir, long noiseSeed) {
+        writeTiff(render(noiseSeed), dir.resolve("branches.tif"));
         ByteArrayOutputStream zip = new ByteArrayOutputStream();
         try (ZipOutputStream z = new ZipOutputStream(zip)) {
             for (Map.Entry<String, double[]> e : LINES.entrySet()) {
@@ -189,7 +196,7 @@ public final class DemoTreeSessionGenerator {
         return out2;
     }
 
-    private static ImagePlus render() {
+    private static ImagePlus render(long noiseSeed) {
         Map<String, double[][]> truth = truth();
         double gridUm = 0.05;
         int n = WIDTH * HEIGHT;
@@ -218,7 +225,7 @@ public final class DemoTreeSessionGenerator {
                 rest[j * WIDTH + i] = REST * Math.exp(-dUm * dUm / (2 * 0.4 * 0.4));
             }
         }
-        Random random = new Random(SEED);
+        Random random = new Random(noiseSeed);
         ImageStack stack = new ImageStack(WIDTH, HEIGHT);
         for (int f = 0; f < FRAMES; f++) {
             double t = f * FRAME_S;
