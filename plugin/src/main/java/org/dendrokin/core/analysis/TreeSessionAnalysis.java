@@ -213,6 +213,22 @@ public final class TreeSessionAnalysis {
             FitModel fitted = residual ? new ResidualBleaching(model, pointTimes, 1, baselineMidS) : model;
             fit = ModelFit.fit(fitted, fitData, List.of(residual ? ResidualBleaching.start(start) : start),
                     ModelFit.Options.defaults().withProfiles(false), progress);
+            double[] times = pointTimes;
+            // The stimulus is held where the main line's fit put it, and that fit's uncertainty in it is carried into
+            // the intervals as the background's is: the change of the prediction when each held value moves by its
+            // standard error, at the fitted constants; the fit is then finished again with it (from its optimum).
+            List<double[]> stimulusShifts = fit.converged() ? stimulusShifts(closed, layout, mainLine, tree, h,
+                    first.timesS(), positions, dt, residual ? m -> new ResidualBleaching(m, times, 1, baselineMidS)
+                    : m -> m, fitted, fit.values(), x0, t0, width) : List.of();
+            if (!stimulusShifts.isEmpty()) {
+                InputUncertainty before = fitData.inputUncertainty();
+                List<double[]> all = new ArrayList<>(before == null ? List.of() : before.shifts());
+                all.addAll(stimulusShifts);
+                FitData withStimulus = model.data(data, sigmas).withInputUncertainty(new InputUncertainty(
+                        before == null ? "stimulus" : before.source() + "+stimulus", all));
+                fit = ModelFit.fit(fitted, withStimulus, List.of(fit.values()),
+                        ModelFit.Options.defaults().withProfiles(false), progress);
+            }
         } catch (IllegalArgumentException e) {
             warnings.add("The tree could not be fitted: " + e.getMessage() + ".");
             return new Result(layout, kymos, noise, null, Map.of(), List.of(), stimulus, warnings);
@@ -241,6 +257,43 @@ public final class TreeSessionAnalysis {
             entered.add(entered(line, layout, data, predicted, fit, stimAmp, origin));
         }
         return new Result(layout, kymos, noise, fit, byLine(layout, predicted, kymos), entered, stimulus, warnings);
+    }
+
+    /**
+     * The change of the fitted model's prediction (at the fitted constants {@code values}) when each stimulus value
+     * held from the main line's fit (width, and time and place when that fit estimated them) moves by its standard
+     * error: one shift each, on the tree fit's grid. Values without a finite standard error are left out.
+     */
+    private static List<double[]> stimulusShifts(FitResult closed, BranchedPaths layout, String mainLine,
+            TreeGeometry tree, double h, double[] timesS, Map<String, double[]> positions, double dt,
+            java.util.function.UnaryOperator<FitModel> wrap, FitModel fitted, double[] values, double x0, double t0,
+            double width) {
+        double[] base = new double[fitted.size()];
+        fitted.evaluate(values, base, null);
+        List<double[]> shifts = new ArrayList<>();
+        double lastUm = layout.cutsUm(mainLine)[layout.cutsUm(mainLine).length - 1];
+        for (String held : List.of("width", "stimulus_time", "position")) {
+            double se = closed.estimate(held).map(ParameterEstimate::standardError).orElse(Double.NaN);
+            if (!(se > 0 && Double.isFinite(se))) {
+                continue;
+            }
+            double w = held.equals("width") ? width + se : width;
+            double t = held.equals("stimulus_time") ? t0 + se : t0;
+            double x = held.equals("position") ? Math.max(0, Math.min(x0 + se, lastUm)) : x0;
+            Map.Entry<String, Double> at = layout.locate(mainLine, x);
+            TreeFitModel moved = new TreeFitModel(MODEL, new TreeDomain(tree, h), timesS, positions,
+                    List.of(new TreeStimulus(at.getKey(), Stimulus.pulse(Math.max(0, t), at.getValue(), w, 1.0))), dt,
+                    Unit.DF_F0);
+            double[] again = new double[fitted.size()];
+            wrap.apply(moved).evaluate(values, again, null);
+            double[] shift = new double[again.length];
+            for (int i = 0; i < shift.length; i++) {
+                double dv = again[i] - base[i];
+                shift[i] = Double.isFinite(dv) ? dv : 0;
+            }
+            shifts.add(shift);
+        }
+        return shifts;
     }
 
     /**

@@ -57,10 +57,10 @@ class TreeSessionCoverageTest {
         }
         System.out.printf(Locale.ROOT, "tree sessions, %d noise seeds: reported intervals hold D %d, k %d; Student t "
                 + "alone D %d, k %d%n", SEEDS, reported[0], reported[1], studentT[0], studentT[1]);
-        // 60 seeds gave D 60 and k 53 (k reads about 2% low: the stimulus is held where the main line's fit put it,
-        // and the bleaching correction's error is not in the interval; docs/trees.md)
+        // 60 seeds gave D 60 and k 59; without the held stimulus's uncertainty k 53 (k reads about 2% low: the
+        // stimulus is held where the main line's fit put it; docs/trees.md)
         assertTrue(reported[0] >= 18, "D: " + reported[0] + " of " + SEEDS);
-        assertTrue(reported[1] >= 15, "k: " + reported[1] + " of " + SEEDS);
+        assertTrue(reported[1] >= 17, "k: " + reported[1] + " of " + SEEDS);
         // the check can fail: Student t alone, blind to the structured residuals, holds them about half the time
         assertTrue(studentT[0] <= 15 && studentT[1] <= 15, "Student t alone: D " + studentT[0] + ", k "
                 + studentT[1]);

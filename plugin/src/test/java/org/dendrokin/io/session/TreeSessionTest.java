@@ -70,7 +70,7 @@ class TreeSessionTest {
         // uncertainty, and hold the truth; Student t's alone is kept beside them.
         for (String name : new String[] {"D", "k"}) {
             JsonObject e = p.getAsJsonObject(name);
-            assertEquals("robust-wald-t+background", e.get("ci_method").getAsString(), name);
+            assertEquals("robust-wald-t+background+stimulus", e.get("ci_method").getAsString(), name);
             JsonArray ci = e.getAsJsonArray("ci95");
             double truth = name.equals("D") ? DemoTreeSessionGenerator.D : DemoTreeSessionGenerator.K;
             // REF: the generator's truth [derived in the generator]
