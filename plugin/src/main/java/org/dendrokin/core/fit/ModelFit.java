@@ -411,7 +411,8 @@ public final class ModelFit {
         }
         String source = data.inputUncertainty().source();
         String note = String.format(Locale.ROOT, "Widened for the uncertainty of the %s, which the residuals cannot "
-                + "show (its own 95%% half-width %.3g on the %s scale).", source, extra, scale);
+                + "show (its own 95%% half-width %.3g on the %s scale).", source.replace("+", " and the "), extra,
+                scale);
         String before = i.note().isEmpty() || i.note().endsWith(".") ? i.note() : i.note() + ".";
         return new Interval(lower, upper, i.method() + "+" + source, before.isEmpty() ? note : before + " " + note);
     }
