@@ -6,6 +6,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import java.util.function.UnaryOperator;
 
 import org.dendrokin.core.Progress;
 import org.dendrokin.core.fit.FitData;
@@ -224,7 +225,7 @@ public final class TreeSessionAnalysis {
                 InputUncertainty before = fitData.inputUncertainty();
                 List<double[]> all = new ArrayList<>(before == null ? List.of() : before.shifts());
                 all.addAll(stimulusShifts);
-                FitData withStimulus = model.data(data, sigmas).withInputUncertainty(new InputUncertainty(
+                FitData withStimulus = fitData.withInputUncertainty(new InputUncertainty(
                         before == null ? "stimulus" : before.source() + "+stimulus", all));
                 fit = ModelFit.fit(fitted, withStimulus, List.of(fit.values()),
                         ModelFit.Options.defaults().withProfiles(false), progress);
@@ -266,7 +267,7 @@ public final class TreeSessionAnalysis {
      */
     private static List<double[]> stimulusShifts(FitResult closed, BranchedPaths layout, String mainLine,
             TreeGeometry tree, double h, double[] timesS, Map<String, double[]> positions, double dt,
-            java.util.function.UnaryOperator<FitModel> wrap, FitModel fitted, double[] values, double x0, double t0,
+            UnaryOperator<FitModel> wrap, FitModel fitted, double[] values, double x0, double t0,
             double width) {
         double[] base = new double[fitted.size()];
         fitted.evaluate(values, base, null);
